@@ -1,0 +1,28 @@
+// @ts-check
+import { defineConfig } from 'astro/config';
+import node from '@astrojs/node';
+import react from '@astrojs/react';
+import tailwind from '@astrojs/tailwind';
+
+// Hostnames the server answers for. Astro 5.14+ treats every request as coming to
+// http://localhost/ unless the host is listed here, which breaks the origin check on form posts
+// and the links written into e-mails. Extra names come from ALLOWED_HOSTS at build time.
+const extraHosts = (process.env.ALLOWED_HOSTS ?? '').split(',').map((h) => h.trim()).filter(Boolean);
+
+export default defineConfig({
+  output: 'server',
+  adapter: node({ mode: 'standalone' }),
+  integrations: [react(), tailwind({ applyBaseStyles: false })],
+  security: {
+    checkOrigin: true,
+    allowedDomains: [
+      { hostname: 'localhost' },
+      { hostname: '127.0.0.1' },
+      ...extraHosts.map((hostname) => ({ hostname })),
+    ],
+  },
+  server: { host: '127.0.0.1' },
+  vite: {
+    ssr: { external: ['@node-rs/argon2', 'pg-native'] },
+  },
+});

@@ -1,0 +1,83 @@
+// Ports and settings for one running copy of the product: `npm start` uses the defaults (or the
+// environment), `npm test` a block of ports of its own so that both can run at once.
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+
+export interface RunConfig {
+  host: string;
+  webPort: number;
+  pgPort: number;
+  mqttPort: number;
+  smtpPort: number;
+  /** Where this copy keeps generated secrets and captured mail. */
+  dataDir: string;
+  authSecret: string;
+  demoPassword: string;
+  simulatorTanks: number;
+}
+
+const root = new URL('../..', import.meta.url).pathname;
+const num = (v: string | undefined, d: number) => (v && Number.isFinite(Number(v)) ? Number(v) : d);
+
+/** AUTH_SECRET from the environment, or one generated on first start and kept under .data/. */
+function authSecret(dataDir: string): string {
+  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  const file = join(dataDir, 'auth-secret');
+  if (!existsSync(file)) {
+    mkdirSync(dataDir, { recursive: true });
+    writeFileSync(file, randomBytes(32).toString('base64url'), { mode: 0o600 });
+  }
+  return readFileSync(file, 'utf8').trim();
+}
+
+export function startConfig(): RunConfig {
+  const dataDir = join(root, '.data');
+  return {
+    host: process.env.HOST ?? '127.0.0.1',
+    webPort: num(process.env.PORT, 4321),
+    pgPort: num(process.env.PG_PORT, 54329),
+    mqttPort: num(process.env.MQTT_PORT, 18830),
+    smtpPort: num(process.env.SMTP_PORT, 2525),
+    dataDir,
+    authSecret: authSecret(dataDir),
+    demoPassword: process.env.DEMO_PASSWORD ?? 'heatlayer-demo',
+    simulatorTanks: num(process.env.SIMULATOR_TANKS, 240),
+  };
+}
+
+/** Test ports: a block starting at HEATLAYER_TEST_PORT_BASE (default 55400). */
+export function testConfig(): RunConfig {
+  const base = num(process.env.HEATLAYER_TEST_PORT_BASE, 55400);
+  const dataDir = join(root, '.data', `test-${base}`);
+  return {
+    host: '127.0.0.1',
+    pgPort: base,
+    webPort: base + 1,
+    mqttPort: base + 2,
+    smtpPort: base + 3,
+    dataDir,
+    authSecret: randomBytes(32).toString('base64url'),
+    demoPassword: 'heatlayer-demo',
+    simulatorTanks: 0,
+  };
+}
+
+/** The environment every process of this copy gets. */
+export function processEnv(c: RunConfig, pgUrl: string, mode: 'development' | 'production' | 'test'): Record<string, string> {
+  return {
+    NODE_ENV: mode,
+    HOST: c.host,
+    PORT: String(c.webPort),
+    PG_PORT: String(c.pgPort),
+    DATABASE_URL: pgUrl,
+    MQTT_PORT: String(c.mqttPort),
+    SMTP_PORT: String(c.smtpPort),
+    AUTH_SECRET: c.authSecret,
+    AUTH_URL: process.env.AUTH_URL ?? `http://localhost:${c.webPort}`,
+    AUTH_TRUST_HOST: 'true',
+    DEMO_PASSWORD: c.demoPassword,
+    SIMULATOR_TANKS: String(c.simulatorTanks),
+    HEATLAYER_DATA_DIR: c.dataDir,
+  };
+}

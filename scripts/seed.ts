@@ -1,0 +1,48 @@
+// Seeds the invented demo scenario into an empty database (does nothing if companies exist).
+import { sql } from 'drizzle-orm';
+import { closeDb, db } from '../src/db';
+import { companies, homeMembers, homes, memberships, tanks, users } from '../src/db/schema';
+import { demoAccounts, demoCompanies, demoTanks } from '../src/lib/demo/scenario';
+import { env } from '../src/lib/server/env';
+import { hashPassword } from '../src/lib/server/password';
+
+export async function seedIfEmpty(): Promise<boolean> {
+  const d = db();
+  const [{ n }] = await d.select({ n: sql<number>`count(*)::int` }).from(companies);
+  if (n > 0) return false;
+  await d.transaction(async (tx) => {
+    const companyIds = new Map<string, string>();
+    for (const c of demoCompanies) {
+      const [row] = await tx.insert(companies).values({ slug: c.slug, name: c.name, emailDomain: c.emailDomain }).returning();
+      companyIds.set(c.slug, row.id);
+    }
+    const firstHome = new Map<string, string>();
+    for (const t of demoTanks()) {
+      const companyId = companyIds.get(t.companySlug)!;
+      const [home] = await tx.insert(homes).values({
+        companyId, reference: t.homeRef, addressLine: t.addressLine, town: t.town, postcode: t.postcode,
+        occupants: t.occupants, hasSolar: t.hasSolar, contactName: t.contactName,
+      }).returning({ id: homes.id });
+      if (!firstHome.has(t.companySlug)) firstHome.set(t.companySlug, home.id);
+      await tx.insert(tanks).values({
+        companyId, homeId: home.id, serial: t.serial, model: t.model, volumeL: t.volumeL, heightM: t.heightM,
+        sensorCount: t.sensorCount, heatSource: t.heatSource, hpOutputW: t.hpOutputW, immersionW: t.immersionW,
+        declaredLossW: t.declaredLossW, targetC: t.targetC, hysteresisK: t.hysteresisK, commissionedAt: new Date(Date.now() - 400 * 86_400_000),
+      });
+    }
+    const passwordHash = await hashPassword(env().DEMO_PASSWORD);
+    for (const a of demoAccounts()) {
+      const [u] = await tx.insert(users).values({ email: a.email, name: a.name, passwordHash, emailVerified: new Date() }).returning({ id: users.id });
+      await tx.insert(memberships).values({ userId: u.id, companyId: companyIds.get(a.companySlug)!, role: a.role });
+      if (a.role === 'householder') await tx.insert(homeMembers).values({ homeId: firstHome.get(a.companySlug)!, userId: u.id });
+    }
+  });
+  return true;
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  seedIfEmpty()
+    .then((did) => console.log(did ? '[seed] demo scenario seeded' : '[seed] database already has data; left as it is'))
+    .catch((err) => { console.error('[seed] failed:', err); process.exitCode = 1; })
+    .finally(() => closeDb());
+}

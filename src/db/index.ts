@@ -1,0 +1,36 @@
+import pg from 'pg';
+import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
+import { env } from '../lib/server/env';
+import * as schema from './schema';
+
+/**
+ * The one database client. Only modules under src/db/queries (and the telemetry writer, which
+ * needs COPY) import it; everything else calls named query functions.
+ */
+export type Db = NodePgDatabase<typeof schema>;
+
+let pool: pg.Pool | undefined;
+let database: Db | undefined;
+
+export function getPool(): pg.Pool {
+  if (!pool) {
+    pool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10, idleTimeoutMillis: 30_000 });
+    // An idle client losing its connection (server restart) must not crash the process.
+    pool.on('error', (err) => console.error('[db] idle client error:', err.message));
+  }
+  return pool;
+}
+
+export function db(): Db {
+  database ??= drizzle(getPool(), { schema });
+  return database;
+}
+
+export async function closeDb(): Promise<void> {
+  const p = pool;
+  pool = undefined;
+  database = undefined;
+  await p?.end();
+}
+
+export { schema };

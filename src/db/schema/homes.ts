@@ -1,0 +1,71 @@
+import {
+  boolean, index, integer, pgEnum, pgTable, primaryKey, real, smallint, text, timestamp, uniqueIndex, uuid,
+} from 'drizzle-orm/pg-core';
+import { users } from './auth';
+import { companies } from './companies';
+
+/** A household served by a company. */
+export const homes = pgTable(
+  'homes',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    reference: text('reference').notNull(),
+    addressLine: text('address_line').notNull(),
+    town: text('town').notNull(),
+    postcode: text('postcode').notNull(),
+    occupants: smallint('occupants').notNull().default(2),
+    hasSolar: boolean('has_solar').notNull().default(false),
+    contactName: text('contact_name'),
+    contactEmail: text('contact_email'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('homes_company_reference_uq').on(t.companyId, t.reference), index('homes_company_town_idx').on(t.companyId, t.town)],
+);
+export type Home = typeof homes.$inferSelect;
+
+/** Which householder accounts may see which homes. */
+export const homeMembers = pgTable(
+  'home_members',
+  {
+    homeId: uuid('home_id').notNull().references(() => homes.id, { onDelete: 'cascade' }),
+    userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.homeId, t.userId] }), index('home_members_user_idx').on(t.userId)],
+);
+
+export const heatSources = ['hp_plate', 'hp_coil', 'immersion_only', 'boiler_coil'] as const;
+export type HeatSource = (typeof heatSources)[number];
+export const heatSourceEnum = pgEnum('heat_source', heatSources);
+
+/** An installed cylinder: its specification and how it is controlled. */
+export const tanks = pgTable(
+  'tanks',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    homeId: uuid('home_id').references(() => homes.id, { onDelete: 'set null' }),
+    serial: text('serial').notNull().unique(),
+    model: text('model').notNull(),
+    volumeL: integer('volume_l').notNull(),
+    heightM: real('height_m').notNull(),
+    sensorCount: smallint('sensor_count').notNull(),
+    /** Height of each sensor above the tank bottom, bottom to top; null means evenly spaced. */
+    sensorHeightsM: real('sensor_heights_m').array(),
+    heatSource: heatSourceEnum('heat_source').notNull(),
+    hpOutputW: integer('hp_output_w').notNull().default(0),
+    immersionW: integer('immersion_w').notNull().default(3000),
+    declaredLossW: real('declared_loss_w'),
+    targetC: real('target_c').notNull().default(55),
+    hysteresisK: real('hysteresis_k').notNull().default(5),
+    /** Argon2id hash of the device's secret; the secret itself is shown once and never stored. */
+    deviceTokenHash: text('device_token_hash'),
+    deviceTokenIssuedAt: timestamp('device_token_issued_at', { withTimezone: true }),
+    commissionedAt: timestamp('commissioned_at', { withTimezone: true }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('tanks_company_idx').on(t.companyId), index('tanks_home_idx').on(t.homeId)],
+);
+export type Tank = typeof tanks.$inferSelect;
+export type NewTank = typeof tanks.$inferInsert;

@@ -1,0 +1,4 @@
+// The schema, split by domain. Each domain file exports its tables and their row types.
+export * from './auth';
+export * from './companies';
+export * from './homes';

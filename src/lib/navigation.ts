@@ -1,0 +1,15 @@
+import type { Role } from '../db/schema/companies';
+
+export interface NavItem { href: string; label: string; roles: readonly Role[] }
+
+/** The app shell's navigation: each person sees the parts of the product their role uses. */
+export const navItems: readonly NavItem[] = [
+  { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
+  { href: '/tanks', label: 'Cylinders', roles: ['admin', 'operator', 'engineer'] },
+  { href: '/home', label: 'My hot water', roles: ['householder'] },
+  { href: '/admin', label: 'Company', roles: ['admin'] },
+];
+
+export function navFor(role: Role | undefined): NavItem[] {
+  return role ? navItems.filter((n) => n.roles.includes(role)) : [];
+}

@@ -1,0 +1,43 @@
+import { describe, expect, it } from 'vitest';
+import pg from 'pg';
+import { baseUrl } from '../support/browser';
+
+describe('GET /api/health', () => {
+  it('reports the real database up, with its server version', async () => {
+    const res = await fetch(`${baseUrl()}/api/health`);
+    expect(res.status).toBe(200);
+    const body = await res.json();
+    expect(body.status).toBe('ok');
+    expect(body.database.up).toBe(true);
+    // The version the page reports is the one the test database itself reports.
+    const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+    await client.connect();
+    const { rows } = await client.query(`select current_setting('server_version') as v`);
+    await client.end();
+    expect(body.database.version).toBe(rows[0].v);
+    expect(body.database.version).toMatch(/^15\./);
+  });
+
+  it('answers 404 with our own page for an unknown address', async () => {
+    const res = await fetch(`${baseUrl()}/no-such-page`);
+    expect(res.status).toBe(404);
+    expect(await res.text()).toContain('There is nothing at this address.');
+  });
+});
+
+describe('migrations and demo seed', () => {
+  it('created the core tables and seeded both demo companies', async () => {
+    const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+    await client.connect();
+    try {
+      const { rows } = await client.query(`select slug, (select count(*)::int from tanks t where t.company_id = c.id) as tanks from companies c order by slug`);
+      expect(rows.map((r) => r.slug)).toEqual(['kestrel-vale', 'orrin-bay']);
+      const kv = rows.find((r) => r.slug === 'kestrel-vale');
+      expect(kv.tanks).toBe(240);
+      const users = await client.query(`select count(*)::int as n from "user" where email like '%@kestrelvale.example.com'`);
+      expect(users.rows[0].n).toBe(4);
+    } finally {
+      await client.end();
+    }
+  });
+});

@@ -1,0 +1,12 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    include: ['tests/**/*.test.ts'],
+    testTimeout: 30_000,
+    hookTimeout: 120_000,
+    // Two cores: keep to two workers so browser and database tests do not starve each other.
+    poolOptions: { forks: { maxForks: 2, minForks: 1 } },
+    pool: 'forks',
+  },
+});
