@@ -28,3 +28,7 @@ export interface Scope {
   /** null: every home of the company; otherwise only these homes. */
   homeIds: readonly string[] | null;
 }
+
+export function scopeOf(viewer: Viewer): Scope {
+  return { companyId: viewer.companyId, homeIds: viewer.role === 'householder' ? (viewer.homeIds ?? []) : null };
+}

@@ -8,6 +8,8 @@ export interface Viewer {
   companyId: string;
   companyName: string;
   role: Role;
+  /** Householders: the homes they are linked to. Staff: null (every home of the company). */
+  homeIds: readonly string[] | null;
 }
 
 /** Role names as people read them. */
