@@ -3,7 +3,7 @@
 // data directory lives outside the checkout, owned by `postgres`, and the server runs through runuser.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import pg from 'pg';
 
 const BIN = '/usr/lib/postgresql/15/bin';
@@ -37,6 +37,8 @@ export async function startPostgres(opts: { port: number; dataDir: string; fresh
     rmSync(dataDir, { recursive: true, force: true });
   }
   if (!existsSync(join(dataDir, 'PG_VERSION'))) {
+    // The parent must stay traversable by `postgres`; only the data directory itself is private.
+    mkdirSync(dirname(dataDir), { recursive: true, mode: 0o755 });
     mkdirSync(dataDir, { recursive: true, mode: 0o700 });
     if (isRoot()) execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
     // Local socket trusted (only `postgres` can reach it: it lives inside the data directory);
