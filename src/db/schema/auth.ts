@@ -11,6 +11,8 @@ export const users = pgTable('user', {
   emailVerified: timestamp('emailVerified', { mode: 'date', withTimezone: true }),
   image: text('image'),
   passwordHash: text('password_hash'),
+  /** Sessions issued before this instant are refused (set when the password changes). */
+  sessionsValidAfter: timestamp('sessions_valid_after', { withTimezone: true }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 });
 export type User = typeof users.$inferSelect;

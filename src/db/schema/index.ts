@@ -2,3 +2,5 @@
 export * from './auth';
 export * from './companies';
 export * from './homes';
+export * from './accounts';
+export * from './audit';
