@@ -1,6 +1,6 @@
 // Heat-pump coefficients of performance.
 import { ThermalInputError } from './errors.js';
-import { finite, nonNegative, positive } from './validate.js';
+import { finite, nonNegative, positive, record } from './validate.js';
 
 const KELVIN = 273.15;
 
@@ -12,6 +12,7 @@ function temperature(field: string, value: unknown): number {
 
 /** Ideal (Carnot) heating COP between a source at `sourceC` and a sink at `sinkC` (°C): T_sink/(T_sink − T_source) in kelvin. */
 export function carnotCop(input: { sinkC: number; sourceC: number }): number {
+  record('input', input, '{ sinkC, sourceC }');
   const sink = temperature('sinkC', input.sinkC);
   const source = temperature('sourceC', input.sourceC);
   if (sink <= source) {
@@ -25,6 +26,7 @@ export function carnotCop(input: { sinkC: number; sourceC: number }): number {
  * is a commonly used figure (common practice); pass your own where it is known.
  */
 export function estimatedCop(input: { sinkC: number; sourceC: number; qualityGrade?: number }): number {
+  record('input', input, '{ sinkC, sourceC, qualityGrade? }');
   const grade = input.qualityGrade === undefined ? 0.4 : positive('qualityGrade', input.qualityGrade, 'a fraction of the Carnot COP');
   if (grade > 1) throw new ThermalInputError('qualityGrade', `qualityGrade is ${grade}: no heat pump beats Carnot, so it must be at most 1.`);
   return grade * carnotCop(input);
@@ -32,6 +34,7 @@ export function estimatedCop(input: { sinkC: number; sourceC: number; qualityGra
 
 /** Hot-water COP over a period: heat delivered to the cylinder (kWh) over electricity used (kWh). */
 export function dhwCop(input: { heatDeliveredKWh: number; electricityKWh: number }): number {
+  record('input', input, '{ heatDeliveredKWh, electricityKWh }');
   const heat = nonNegative('heatDeliveredKWh', input.heatDeliveredKWh, 'kWh');
   const elec = positive('electricityKWh', input.electricityKWh, 'kWh');
   return heat / elec;

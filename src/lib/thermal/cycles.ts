@@ -1,6 +1,6 @@
 // Compressor runs and short-cycling, from on/off samples of the heat pump's hot-water demand.
 import { ThermalInputError } from './errors.js';
-import { finite, positive } from './validate.js';
+import { finite, positive, record } from './validate.js';
 
 /** One observation: epoch milliseconds and whether the compressor was running. */
 export interface OnOffSample { t: number; on: boolean }
@@ -69,7 +69,8 @@ export function shortCycleViolations<S extends number | { start: number }>(
   if (!Array.isArray(starts)) {
     throw new ThermalInputError('starts', 'starts must be an array of start times in epoch milliseconds.');
   }
-  const gapMs = positive('minGapMin', options?.minGapMin, 'minutes') * 60000;
+  record('options', options, '{ minGapMin }');
+  const gapMs = positive('minGapMin', options.minGapMin, 'minutes') * 60000;
   const out: S[] = [];
   let prev = -Infinity;
   for (let i = 0; i < starts.length; i++) {

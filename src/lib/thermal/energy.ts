@@ -1,6 +1,6 @@
 // How much heat, and how much usable hot water, a column of layer temperatures holds.
 import { ThermalInputError } from './errors.js';
-import { layerHeights, layers, positive, waterTemp } from './validate.js';
+import { layerHeights, layers, positive, record, waterTemp } from './validate.js';
 import { unchecked } from './water.js';
 
 /** Options shared by the layer-profile functions. */
@@ -24,6 +24,7 @@ function shares(field: string, heightsM: readonly number[] | undefined, count: n
  * IAPWS-IF97 region 1 values at the cylinder pressure.
  */
 export function storedEnergyKWh(input: LayerProfile & { volumeL: number; refC: number }): number {
+  record('input', input, '{ layersC, volumeL, refC }');
   const t = layers('layersC', input.layersC);
   const volumeL = positive('volumeL', input.volumeL, 'litres');
   const refC = waterTemp('refC', input.refC);
@@ -46,6 +47,7 @@ export function storedEnergyKWh(input: LayerProfile & { volumeL: number; refC: n
  * With deliveryC 40 and coldC 10 this is the V40 of EN 16147. `volumeL` in litres.
  */
 export function mixedWaterLitres(input: LayerProfile & { volumeL: number; coldC: number; deliveryC: number }): number {
+  record('input', input, '{ layersC, volumeL, coldC, deliveryC }');
   const t = layers('layersC', input.layersC);
   const volumeL = positive('volumeL', input.volumeL, 'litres');
   const coldC = waterTemp('coldC', input.coldC);
@@ -69,6 +71,7 @@ export function mixedWaterLitres(input: LayerProfile & { volumeL: number; coldC:
  * (T − coldC)/(targetC − coldC), each clamped to [0, 1]. Temperatures in °C.
  */
 export function stateOfCharge(input: LayerProfile & { coldC: number; targetC: number }): number {
+  record('input', input, '{ layersC, coldC, targetC }');
   const t = layers('layersC', input.layersC);
   const coldC = waterTemp('coldC', input.coldC);
   const targetC = waterTemp('targetC', input.targetC);

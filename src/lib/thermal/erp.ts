@@ -1,5 +1,5 @@
 // Energy-efficiency class of a hot-water storage tank from its standing loss.
-import { positive, nonNegative } from './validate.js';
+import { nonNegative, positive, record } from './validate.js';
 
 /** Storage-tank energy classes, best first. */
 export type ErpClass = 'A+' | 'A' | 'B' | 'C' | 'D' | 'E' | 'F' | 'G';
@@ -28,6 +28,7 @@ export function erpClassLimitW(cls: ErpClass, volumeL: number): number {
  * the first class whose limit k0 + k1·V^0.4 the loss is strictly below, else G.
  */
 export function erpClass(input: { volumeL: number; standingLossW: number }): ErpClass {
+  record('input', input, '{ volumeL, standingLossW }');
   const v = positive('volumeL', input.volumeL, 'litres');
   const s = nonNegative('standingLossW', input.standingLossW, 'W');
   const p = v ** 0.4;

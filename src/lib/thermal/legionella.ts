@@ -1,7 +1,7 @@
 // Evidence that stored water got hot enough, for long enough, to control legionella.
 // UK HSE HSG274 Part 2 (2014): store hot water at 60 °C or above (thresholdC 60 is the usual choice).
 import { ThermalInputError } from './errors.js';
-import { finite, layerHeights, layers, positive } from './validate.js';
+import { finite, layerHeights, layers, positive, record } from './validate.js';
 
 /** One reading of the layer temperatures: epoch milliseconds and °C bottom to top. */
 export interface LayerSample { t: number; layersC: readonly number[] }
@@ -25,7 +25,8 @@ export function legionellaExposure(
   series: readonly LayerSample[],
   options: { thresholdC: number; holdMin: number; maxGapMin?: number; heightsM?: readonly number[] },
 ): LegionellaExposure {
-  const threshold = finite('thresholdC', options?.thresholdC, 'a temperature in °C');
+  record('options', options, '{ thresholdC, holdMin }');
+  const threshold = finite('thresholdC', options.thresholdC, 'a temperature in °C');
   const holdMin = positive('holdMin', options.holdMin, 'minutes');
   const maxGapMs = (options.maxGapMin === undefined ? 15 : positive('maxGapMin', options.maxGapMin, 'minutes')) * 60000;
   if (!Array.isArray(series) || series.length === 0) {

@@ -1,7 +1,7 @@
 // NTC thermistors: resistance ↔ temperature, and the resistances a cylinder controller presents
 // to a heat pump's hot-water sensor input.
 import { ThermalInputError } from './errors.js';
-import { finite, positive } from './validate.js';
+import { finite, positive, record } from './validate.js';
 
 const KELVIN = 273.15;
 const T25_K = 298.15;
@@ -92,6 +92,7 @@ export interface ThermistorSettings {
  * ("cold, heat now") and `satisfiedC` ("hot enough"), both °C, with callC below satisfiedC.
  */
 export function thermistorSettings(input: { sensor: BetaThermistor; callC: number; satisfiedC: number }): ThermistorSettings {
+  record('input', input, '{ sensor, callC, satisfiedC }');
   checkSensor(input.sensor);
   const callC = celsius('callC', input.callC);
   const satisfiedC = celsius('satisfiedC', input.satisfiedC);

@@ -1,7 +1,7 @@
 // Standing heat loss of a cylinder from a cooling period (no draw, no heating), by Newton's law
 // of cooling: T(t) = T_amb + (T0 − T_amb)·e^(−t·UA/(m·c)).
 import { ThermalInputError } from './errors.js';
-import { finite, positive, waterTemp } from './validate.js';
+import { finite, positive, record, waterTemp } from './validate.js';
 import { waterCp, waterDensity } from './water.js';
 
 /** One reading during the cooling period: epoch milliseconds and the volume-mean water temperature, °C. */
@@ -27,6 +27,7 @@ export function standingLoss(
   samples: readonly CoolingSample[],
   options: { volumeL: number; ambientC: number; minHours?: number; minExcessK?: number; maxRmsK?: number },
 ): StandingLossResult {
+  record('options', options, '{ volumeL, ambientC }');
   const volumeL = positive('volumeL', options.volumeL, 'litres');
   const ambientC = finite('ambientC', options.ambientC, 'a temperature in °C');
   const minHours = options.minHours === undefined ? 4 : positive('minHours', options.minHours, 'hours');

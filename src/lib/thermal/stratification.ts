@@ -1,6 +1,6 @@
 // How well a tank is stratified: the MIX number and the thermocline.
 import { ThermalInputError } from './errors.js';
-import { layerHeights, layers, positive } from './validate.js';
+import { layerHeights, layers, positive, record } from './validate.js';
 import type { LayerProfile } from './energy.js';
 
 /**
@@ -15,6 +15,7 @@ import type { LayerProfile } from './energy.js';
  * `heightsM`: optional thickness of each layer, metres (default equal layers).
  */
 export function mixNumber(input: LayerProfile): number {
+  record('input', input, '{ layersC, heightsM? }');
   const t = layers('layersC', input.layersC);
   const h = layerHeights('heightsM', input.heightsM, t.length);
   let height = 0;
@@ -62,6 +63,7 @@ export interface Thermocline {
  * equal layers of a column `tankHeightM` tall (default 1, so heights are then fractions of the height).
  */
 export function thermocline(input: LayerProfile & { tankHeightM?: number; minSpreadK?: number }): Thermocline | null {
+  record('input', input, '{ layersC, heightsM?, tankHeightM? }');
   const t = layers('layersC', input.layersC);
   const total = input.tankHeightM === undefined ? 1 : positive('tankHeightM', input.tankHeightM, 'metres');
   const minSpread = input.minSpreadK === undefined ? 2 : positive('minSpreadK', input.minSpreadK, 'kelvin');

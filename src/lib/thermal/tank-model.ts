@@ -10,7 +10,7 @@
 // Every operation moves energy only between nodes or across the accounted boundaries,
 // so over a step  ΔE = heatInJ − drawnJ − lossJ  holds to rounding.
 import { ThermalInputError } from './errors.js';
-import { finite, nonNegative, positive, waterTemp } from './validate.js';
+import { finite, nonNegative, positive, record, waterTemp } from './validate.js';
 import { waterCp, waterDensity } from './water.js';
 
 /** How heat reaches the stored water. */
@@ -41,7 +41,7 @@ export interface StepInputs {
   /** Step length, seconds. */ dtS: number;
   /** Cold-water inlet temperature, °C. */ coldC: number;
   /** Hot-water draw from the top (cold enters at the bottom), litres per minute. */ drawLpm: number;
-  /** Main heat source (heat pump or boiler) running. */ hpOn: boolean;
+  /** Main heat source (heat pump or boiler) running; ignored for 'immersion_only'. */ hpOn: boolean;
   /** Immersion element energised. */ immersionOn: boolean;
   /** Highest flow temperature the main source can reach this step, °C; caps what it can add. */ hpFlowC?: number;
   /** Thermal output of the main source this step, W (default spec.hpOutputW). */ hpOutputW?: number;
@@ -200,7 +200,12 @@ export function stepTank(spec: TankSpec, state: TankState, inputs: StepInputs): 
 export function stepTankInPlace(spec: TankSpec, state: TankState, inputs: StepInputs): StepResult {
   const d = derive(spec);
   checkState(d, state);
+  record('inputs', inputs, '{ dtS, coldC, drawLpm, hpOn, immersionOn }');
   const dt = positive('inputs.dtS', inputs.dtS, 'seconds');
+  if (typeof inputs.hpOn !== 'boolean' || typeof inputs.immersionOn !== 'boolean') {
+    const field = typeof inputs.hpOn !== 'boolean' ? 'inputs.hpOn' : 'inputs.immersionOn';
+    throw new ThermalInputError(field, `${field} must be true or false.`);
+  }
   const coldC = waterTemp('inputs.coldC', inputs.coldC);
   const drawLpm = nonNegative('inputs.drawLpm', inputs.drawLpm, 'litres per minute');
   const flowC = inputs.hpFlowC === undefined ? d.maxFlowC : waterTemp('inputs.hpFlowC', inputs.hpFlowC);

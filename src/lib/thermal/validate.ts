@@ -76,3 +76,11 @@ export function layerHeights(field: string, value: unknown, count: number, defau
   }
   return value.map((h, i) => positive(`${field}[${i}]`, h, 'metres'));
 }
+
+/** The options object a function takes; `shape` lists its fields for the message. */
+export function record<T>(field: string, value: T, shape: string): T {
+  if (typeof value !== 'object' || value === null) {
+    throw new ThermalInputError(field, `${field} is ${describe(value)}: it must be an object ${shape}.`);
+  }
+  return value;
+}

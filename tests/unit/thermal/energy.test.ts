@@ -108,6 +108,10 @@ describe('bad layer input', () => {
     expect(() => stateOfCharge({ layersC: [50, Number.POSITIVE_INFINITY], coldC: 10, targetC: 60 })).toThrow(/layersC\[1\] is Infinity/);
   });
 
+  it('refuses a missing input object with a clear message', () => {
+    expect(() => storedEnergyKWh(undefined as never)).toThrow('input is missing: it must be an object { layersC, volumeL, refC }.');
+  });
+
   it('refuses empty layers, negative volume, a target below cold and out-of-range layers', () => {
     expect(() => storedEnergyKWh({ layersC: [], volumeL: 200, refC: 10 })).toThrow(/layersC is empty/);
     expect(() => storedEnergyKWh({ layersC: [50], volumeL: -5, refC: 10 })).toThrow(/volumeL is -5: it must be a positive number in litres/);

@@ -203,6 +203,7 @@ describe('tank model: sensors and input', () => {
     expect(() => stepTank(base, state, { ...idle, dtS: Number.NaN })).toThrow(/inputs.dtS is NaN/);
     expect(() => stepTank(base, state, { ...idle, drawLpm: -2 })).toThrow(/inputs.drawLpm is -2/);
     expect(() => stepTank(base, { nodesC: [40, Number.NaN] }, idle)).toThrow(/state.nodesC/);
+    expect(() => stepTank(base, state, { ...idle, hpOn: 'yes' as never })).toThrow('inputs.hpOn must be true or false.');
     const broken = { nodesC: state.nodesC.map((t, i) => (i === 4 ? Number.NaN : t)) };
     expect(() => stepTank(base, broken, idle)).toThrow('state.nodesC[4] is NaN: every node temperature must be a finite number in °C.');
   });
