@@ -5,7 +5,9 @@
 // Confirm against the regulation text before using them for a declared rating.
 import { ThermalInputError } from './errors.js';
 
+/** Load-profile sizes of 814/2013 Annex III covered here (XXS is not). */
 export type TappingProfileSize = 'XS' | 'S' | 'M' | 'L' | 'XL' | 'XXL';
+/** Kinds of draw named in the tapping tables. */
 export type TapType = 'small' | 'large' | 'shower' | 'bath' | 'floor_cleaning' | 'household_cleaning' | 'dishwashing';
 
 /** One draw-off of a tapping cycle. */
