@@ -28,7 +28,7 @@ async function main(): Promise<number> {
     const r = spawnSync('npx', args, {
       cwd: root,
       stdio: 'inherit',
-      env: { ...process.env, ...env, TEST_BASE_URL: `http://localhost:${c.webPort}`, HEATLAYER_TEST: '1' },
+      env: { ...process.env, ...env, TEST_BASE_URL: `http://localhost:${c.webPort}`, HEATLAYER_TEST: '1', HEATLAYER_TEST_PORT_BASE: String(c.pgPort) },
     });
     if (!existsSync(report)) {
       console.error('Vitest wrote no results.');
