@@ -4,3 +4,4 @@ export * from './companies';
 export * from './homes';
 export * from './accounts';
 export * from './audit';
+export * from './telemetry';
