@@ -1,10 +1,16 @@
 import { defineMiddleware, sequence } from 'astro:middleware';
+import { viewerForSession } from './db/queries/accounts';
+import { csrfTokenFor } from './lib/auth/handler';
+import { getSession } from './lib/auth/session';
 import { accessFor, allows } from './lib/server/access';
 import { problem } from './lib/server/http';
+import { isCrossSite, isHttps } from './lib/server/request';
 
-// Session → Astro.locals.viewer (the accounts module replaces this with the Auth.js session).
+/** Session → Astro.locals.viewer: the Auth.js session cookie, then the person's role read fresh. */
 const loadViewer = defineMiddleware(async (context, next) => {
   context.locals.viewer = null;
+  const session = await getSession(context.cookies, isHttps(context));
+  if (session) context.locals.viewer = await viewerForSession(session.userId, session.issuedAt);
   return next();
 });
 
@@ -14,6 +20,12 @@ const guardRoute = defineMiddleware(async (context, next) => {
   const rule = accessFor(context.routePattern, context.request.method);
   if (!rule) {
     return isApi ? problem(404, 'NotFound', 'There is no such endpoint.') : context.rewrite('/404');
+  }
+  // Cross-site writes are refused whoever is signed in (Astro itself refuses cross-site form
+  // posts; this covers JSON too). Devices authenticate with a bearer token, not cookies.
+  const method = context.request.method.toUpperCase();
+  if (isApi && rule !== 'device' && !['GET', 'HEAD', 'OPTIONS'].includes(method) && isCrossSite(context)) {
+    return problem(403, 'CrossSiteRequest', 'This request came from another site and was refused. Use Heatlayer from its own pages.');
   }
   const role = context.locals.viewer?.role;
   if (!allows(rule, role)) {
@@ -26,4 +38,11 @@ const guardRoute = defineMiddleware(async (context, next) => {
   return next();
 });
 
-export const onRequest = sequence(loadViewer, guardRoute);
+/** Pages that post to Auth.js (sign-in, and sign-out in the shell) need its CSRF token. */
+const csrfForPages = defineMiddleware(async (context, next) => {
+  const isPage = !context.url.pathname.startsWith('/api/') && context.request.method === 'GET';
+  if (isPage) context.locals.csrfToken = await csrfTokenFor(context);
+  return next();
+});
+
+export const onRequest = sequence(loadViewer, guardRoute, csrfForPages);

@@ -25,6 +25,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   // endpoints
   '/api/health': { GET: 'public' },
   '/api/auth/[...auth]': { GET: 'public', POST: 'public' },
+  '/api/me': { GET: 'signedIn' },
   '/api/ingest': { POST: 'device' },
   '/api/tanks/[id]/device-token': { POST: ['admin'] },
   '/api/tanks/[id]/commands': { GET: everyone, POST: everyone },

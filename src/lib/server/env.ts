@@ -21,6 +21,10 @@ export const envSchema = z.object({
   AUTH_URL: z.string().url().optional(),
   AUTH_TRUST_HOST: z.string().default('true'),
   DEMO_PASSWORD: z.string().min(8).default('heatlayer-demo'),
+  /** Where this copy keeps generated secrets and captured mail (scripts/lib/config.ts sets it). */
+  HEATLAYER_DATA_DIR: z.string().default('.data'),
+  /** '1' when a reverse proxy in front sets X-Forwarded-For / X-Forwarded-Proto (never trust them otherwise). */
+  TRUST_PROXY: z.enum(['0', '1']).default('0'),
   SIMULATOR_TANKS: z.coerce.number().int().min(0).max(1_000_000).default(240),
   SIMULATOR_SPEED: z.coerce.number().positive().max(10_000).default(1),
   SIMULATOR_BACKFILL_DAYS: z.coerce.number().min(0).max(60).default(14),

@@ -1,0 +1,26 @@
+import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { homes, tanks } from '../schema';
+import type { Scope } from '../../lib/server/authz';
+
+/**
+ * The tenancy filters, written once: every query that reads or writes company data adds one of
+ * these to its WHERE clause, so a record outside the viewer's scope is simply not found.
+ */
+export function homeInScope(scope: Scope): SQL {
+  return and(eq(homes.companyId, scope.companyId), homeIdsFilter(scope, homes.id))!;
+}
+
+export function tankInScope(scope: Scope): SQL {
+  return and(eq(tanks.companyId, scope.companyId), homeIdsFilter(scope, tanks.homeId))!;
+}
+
+function homeIdsFilter(scope: Scope, column: typeof homes.id | typeof tanks.homeId): SQL | undefined {
+  if (scope.homeIds === null) return undefined;
+  // A householder linked to no home sees nothing (inArray with an empty list is not valid SQL).
+  return scope.homeIds.length > 0 ? inArray(column, [...scope.homeIds]) : sql`false`;
+}
+
+/** True when the string is a UUID; anything else cannot name a row and is "not found". */
+export function isUuid(value: string | undefined): value is string {
+  return !!value && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);
+}

@@ -1,0 +1,23 @@
+import { and, eq, gt, lt, sql } from 'drizzle-orm';
+import { db } from '..';
+import { throttleEvents, type ThrottleKind } from '../schema';
+
+/** Events counted for a key inside the window ending now, and when the oldest of them happened. */
+export async function recentEvents(kind: ThrottleKind, key: string, windowMs: number): Promise<{ count: number; oldest: Date | null }> {
+  const since = new Date(Date.now() - windowMs);
+  const [row] = await db()
+    .select({ count: sql<number>`count(*)::int`, oldest: sql<Date | null>`min(${throttleEvents.at})` })
+    .from(throttleEvents)
+    .where(and(eq(throttleEvents.kind, kind), eq(throttleEvents.key, key), gt(throttleEvents.at, since)));
+  return { count: row.count, oldest: row.oldest ? new Date(row.oldest) : null };
+}
+
+export async function addEvent(kind: ThrottleKind, key: string): Promise<void> {
+  await db().insert(throttleEvents).values({ kind, key });
+  // Keep the table small: events older than a day count for nothing.
+  if (Math.random() < 0.05) await db().delete(throttleEvents).where(lt(throttleEvents.at, new Date(Date.now() - 86_400_000)));
+}
+
+export async function clearEvents(kind: ThrottleKind, key: string): Promise<void> {
+  await db().delete(throttleEvents).where(and(eq(throttleEvents.kind, kind), eq(throttleEvents.key, key)));
+}
