@@ -3,6 +3,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import { users } from './auth';
 import { tanks } from './homes';
+import { eventKinds, type DeriveState } from '../../lib/telemetry/events';
 
 /**
  * Telemetry tables. Every key starts with the tank id so that the tables could later be
@@ -45,13 +46,6 @@ export const readings = pgTable(
 );
 export type ReadingRow = typeof readings.$inferSelect;
 
-/** Open runs the incremental event derivation carries between batches (see src/lib/telemetry/events.ts). */
-export interface DeriveStateJson {
-  lastTs: number | null;
-  open: Partial<Record<EventKind, OpenRunJson>>;
-}
-export interface OpenRunJson { startedAt: number; lastTs: number; energyWh: number; litres: number; startTopCc: number | null; endTopCc: number | null }
-
 /** The newest reading of each tank and what follows from it, so "now" never scans readings. */
 export const tankLatestState = pgTable('tank_latest_state', {
   tankId: uuid('tank_id').primaryKey().references(() => tanks.id, { onDelete: 'cascade' }),
@@ -75,12 +69,12 @@ export const tankLatestState = pgTable('tank_latest_state', {
   /** From the retained status topic (the device's last will says offline). */
   online: boolean('online'),
   statusAt: timestamp('status_at', { withTimezone: true }),
-  derive: jsonb('derive').$type<DeriveStateJson>().notNull().default({ lastTs: null, open: {} }),
+  /** Open runs the incremental event derivation carries between batches (src/lib/telemetry/events.ts). */
+  derive: jsonb('derive').$type<DeriveState>().notNull().default({ lastTs: null, open: {} }),
 });
 export type TankLatestState = typeof tankLatestState.$inferSelect;
 
-export const eventKinds = ['compressor_run', 'immersion_run', 'draw'] as const;
-export type EventKind = (typeof eventKinds)[number];
+export { eventKinds };
 export const eventKindEnum = pgEnum('telemetry_event_kind', eventKinds);
 
 /** Compressor runs, immersion runs and hot-water draws, derived from readings as they arrive. */

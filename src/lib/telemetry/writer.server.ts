@@ -1,0 +1,323 @@
+// The one writer of telemetry, shared by the MQTT ingest worker and `POST /api/ingest`.
+//
+// A batch is written in one transaction: readings are COPYed into a per-connection staging table
+// and moved into the partitioned `readings` table with ON CONFLICT DO NOTHING, so replays and
+// duplicates are harmless (idempotent on tank and time). Only the readings that were really new
+// then advance each tank's latest state and its derived events; dead letters of the same batch
+// commit with it. Either all of it is stored or none of it is, so the caller may acknowledge the
+// messages once write() resolves and must not when it rejects.
+import type pg from 'pg';
+import { from as copyFrom } from 'pg-copy-streams';
+import { pipeline } from 'node:stream/promises';
+import { Readable } from 'node:stream';
+import { mixedWaterLitres, stateOfCharge } from '../thermal';
+import type { DeadLetterInput, IngestTank } from '../../db/queries/telemetry';
+import { deriveEvents, emptyDeriveState, type DeriveState, type EventRecord } from './events';
+import type { Reading } from './wire';
+
+export interface IngestItem { tank: IngestTank; reading: Reading }
+
+export interface WriteBatch {
+  readings: readonly IngestItem[];
+  deadLetters?: readonly DeadLetterInput[];
+}
+
+export interface WriteResult {
+  /** Readings stored by this batch. */
+  inserted: number;
+  /** Readings already stored (replays, duplicates inside the batch). */
+  duplicates: number;
+  /** Events opened, extended or closed. */
+  events: number;
+}
+
+/** Cold-water temperature for V40 and state of charge, °C: the EN 16147 reference. */
+export const REFERENCE_COLD_C = 10;
+
+const COPY_COLUMNS = 'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm';
+
+/** A reading as stored: centi-degrees, decilitres a minute, whole watts. */
+export interface StoredReading {
+  tankId: string;
+  ts: number;
+  seq: number | null;
+  layersCc: (number | null)[];
+  flowCc: number | null;
+  returnCc: number | null;
+  compressor: boolean | null;
+  immersionW: number | null;
+  powerW: number | null;
+  pumpPct: number | null;
+  drawDlpm: number | null;
+}
+
+const cc = (c: number | undefined) => (c === undefined ? null : Math.round(c * 100));
+const round = (x: number | undefined) => (x === undefined ? null : Math.round(x));
+
+export function toStored(tankId: string, r: Reading): StoredReading {
+  return {
+    tankId, ts: r.ts, seq: r.seq ?? null,
+    layersCc: r.layersC.map((t) => (t === null ? null : Math.round(t * 100))),
+    flowCc: cc(r.flowC), returnCc: cc(r.returnC), compressor: r.compressor ?? null,
+    immersionW: round(r.immersionW), powerW: round(r.powerW), pumpPct: round(r.pumpPct),
+    drawDlpm: r.drawLpm === undefined ? null : Math.round(r.drawLpm * 10),
+  };
+}
+
+/** Back to wire units, as event derivation sees it (the same whether fresh or re-read). */
+export function fromStored(s: StoredReading): Reading {
+  const r: Reading = { ts: s.ts, layersC: s.layersCc.map((v) => (v === null ? null : v / 100)) };
+  if (s.flowCc !== null) r.flowC = s.flowCc / 100;
+  if (s.returnCc !== null) r.returnC = s.returnCc / 100;
+  if (s.compressor !== null) r.compressor = s.compressor;
+  if (s.immersionW !== null) r.immersionW = s.immersionW;
+  if (s.powerW !== null) r.powerW = s.powerW;
+  if (s.pumpPct !== null) r.pumpPct = s.pumpPct;
+  if (s.drawDlpm !== null) r.drawLpm = s.drawDlpm / 10;
+  if (s.seq !== null) r.seq = s.seq;
+  return r;
+}
+
+const copyValue = (v: number | boolean | null) => (v === null ? '\\N' : typeof v === 'boolean' ? (v ? 't' : 'f') : String(v));
+
+function copyLine(s: StoredReading): string {
+  return [
+    s.tankId, new Date(s.ts).toISOString(), copyValue(s.seq),
+    `{${s.layersCc.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`,
+    copyValue(s.flowCc), copyValue(s.returnCc), copyValue(s.compressor), copyValue(s.immersionW),
+    copyValue(s.powerW), copyValue(s.pumpPct), copyValue(s.drawDlpm),
+  ].join('\t') + '\n';
+}
+
+/** Layers with open sensors filled from their neighbours, clamped to liquid water, for SOC and V40. */
+function usableLayers(layersC: readonly (number | null)[]): number[] | null {
+  const known = layersC.map((t, i) => ({ t, i })).filter((x): x is { t: number; i: number } => x.t !== null);
+  if (known.length === 0) return null;
+  return layersC.map((t, i) => {
+    if (t !== null) return Math.min(100, Math.max(0, t));
+    const below = [...known].reverse().find((k) => k.i < i);
+    const above = known.find((k) => k.i > i);
+    const v = below && above ? below.t + ((above.t - below.t) * (i - below.i)) / (above.i - below.i) : (below ?? above)!.t;
+    return Math.min(100, Math.max(0, v));
+  });
+}
+
+/** State of charge and V40 of a reading, or nulls when they cannot be computed. */
+export function chargeOf(tank: IngestTank, layersC: readonly (number | null)[]): { soc: number | null; v40L: number | null } {
+  const layers = usableLayers(layersC);
+  if (!layers) return { soc: null, v40L: null };
+  try {
+    return {
+      soc: stateOfCharge({ layersC: layers, coldC: REFERENCE_COLD_C, targetC: tank.targetC }),
+      v40L: mixedWaterLitres({ layersC: layers, volumeL: tank.volumeL, coldC: REFERENCE_COLD_C, deliveryC: 40 }),
+    };
+  } catch {
+    return { soc: null, v40L: null };
+  }
+}
+
+const staged = new WeakSet<pg.PoolClient>();
+
+export class TelemetryWriter {
+  constructor(private readonly pool: pg.Pool) {}
+
+  async write(batch: WriteBatch): Promise<WriteResult> {
+    if (batch.readings.length === 0 && !batch.deadLetters?.length) return { inserted: 0, duplicates: 0, events: 0 };
+    const client = await this.pool.connect();
+    let broken = false;
+    try {
+      await client.query('begin');
+      const result = await this.writeInTransaction(client, batch);
+      await client.query('commit');
+      return result;
+    } catch (err) {
+      broken = true;
+      await client.query('rollback').catch(() => undefined);
+      throw err;
+    } finally {
+      // A connection that failed mid-COPY may be unusable; do not hand it to the next batch.
+      client.release(broken ? true : undefined);
+      if (broken) staged.delete(client);
+    }
+  }
+
+  private async writeInTransaction(client: pg.PoolClient, batch: WriteBatch): Promise<WriteResult> {
+    if (batch.deadLetters?.length) await insertDeadLettersWith(client, batch.deadLetters);
+    if (batch.readings.length === 0) return { inserted: 0, duplicates: 0, events: 0 };
+
+    const tanks = new Map<string, IngestTank>();
+    const rows: StoredReading[] = [];
+    for (const item of batch.readings) {
+      tanks.set(item.tank.id, item.tank);
+      rows.push(toStored(item.tank.id, item.reading));
+    }
+
+    if (!staged.has(client)) {
+      await client.query(`create temp table if not exists readings_in (like readings) on commit delete rows`);
+      staged.add(client);
+    }
+    await pipeline(Readable.from(rows.map(copyLine)), client.query(copyFrom(`copy readings_in (${COPY_COLUMNS}) from stdin`)));
+    const ins = await client.query<{ tank_id: string; ts_ms: string }>(`
+      with ins as (
+        insert into readings (${COPY_COLUMNS}) select ${COPY_COLUMNS} from readings_in
+        on conflict (tank_id, ts) do nothing
+        returning tank_id, ts
+      ), dirty as (
+        insert into rollup_dirty (tank_id, bucket)
+        select distinct tank_id, date_bin('15 minutes', ts, timestamptz 'epoch') from ins
+        on conflict do nothing
+      )
+      select tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms from ins`);
+
+    const fresh = new Set(ins.rows.map((r) => `${r.tank_id}|${r.ts_ms}`));
+    const newByTank = new Map<string, StoredReading[]>();
+    for (const row of rows) {
+      const key = `${row.tankId}|${row.ts}`;
+      if (!fresh.delete(key)) continue; // a duplicate, or a second copy inside this batch
+      let list = newByTank.get(row.tankId);
+      if (!list) newByTank.set(row.tankId, (list = []));
+      list.push(row);
+    }
+    const inserted = ins.rowCount ?? 0;
+    if (newByTank.size === 0) return { inserted, duplicates: rows.length - inserted, events: 0 };
+
+    const events = await this.advanceTanks(client, newByTank, tanks);
+    return { inserted, duplicates: rows.length - inserted, events };
+  }
+
+  /** Latest state and events of every tank that received new readings. */
+  private async advanceTanks(client: pg.PoolClient, newByTank: Map<string, StoredReading[]>, tanks: Map<string, IngestTank>): Promise<number> {
+    // Lock in a fixed order so two writers touching the same tanks cannot deadlock.
+    const ids = [...newByTank.keys()].sort();
+    await client.query(`insert into tank_latest_state (tank_id) select unnest($1::uuid[]) on conflict do nothing`, [ids]);
+    const current = await client.query<{ tank_id: string; ts_ms: string | null; derive: DeriveState }>(
+      `select tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms, derive from tank_latest_state
+       where tank_id = any($1::uuid[]) order by tank_id for update`, [ids]);
+    const states = new Map(current.rows.map((r) => [r.tank_id, r]));
+
+    const latestUpdates: unknown[] = [];
+    const eventRows: unknown[] = [];
+    const late: { tankId: string; fromTs: number }[] = [];
+    const now = new Date().toISOString();
+
+    for (const tankId of ids) {
+      const list = newByTank.get(tankId)!.sort((a, b) => a.ts - b.ts);
+      const st = states.get(tankId);
+      const derive: DeriveState = st?.derive?.open ? st.derive : emptyDeriveState();
+      const newest = list[list.length - 1];
+      const latestTs = st?.ts_ms ? Number(st.ts_ms) : null;
+
+      let nextDerive = derive;
+      if (derive.lastTs === null || list[0].ts > derive.lastTs) {
+        const out = deriveEvents(derive, list.map(fromStored));
+        nextDerive = out.state;
+        for (const e of out.events) eventRows.push(eventRow(tankId, e));
+      } else {
+        late.push({ tankId, fromTs: list[0].ts });
+      }
+
+      const u: Record<string, unknown> = { tank_id: tankId, last_seen_at: now, derive: nextDerive, advance: false };
+      if (latestTs === null || newest.ts > latestTs) {
+        const { soc, v40L } = chargeOf(tanks.get(tankId)!, fromStored(newest).layersC);
+        Object.assign(u, {
+          advance: true, ts: new Date(newest.ts).toISOString(), seq: newest.seq, layers_cc: pgArray(newest.layersCc),
+          flow_cc: newest.flowCc, return_cc: newest.returnCc, compressor: newest.compressor, immersion_w: newest.immersionW,
+          power_w: newest.powerW, pump_pct: newest.pumpPct, draw_dlpm: newest.drawDlpm, soc, v40_l: v40L,
+        });
+      }
+      latestUpdates.push(u);
+    }
+
+    await client.query(`
+      update tank_latest_state s set
+        last_seen_at = greatest(s.last_seen_at, x.last_seen_at),
+        derive = x.derive,
+        ts = case when x.advance then x.ts else s.ts end,
+        seq = case when x.advance then x.seq else s.seq end,
+        layers_cc = case when x.advance then x.layers_cc::smallint[] else s.layers_cc end,
+        flow_cc = case when x.advance then x.flow_cc else s.flow_cc end,
+        return_cc = case when x.advance then x.return_cc else s.return_cc end,
+        compressor = case when x.advance then x.compressor else s.compressor end,
+        immersion_w = case when x.advance then x.immersion_w else s.immersion_w end,
+        power_w = case when x.advance then x.power_w else s.power_w end,
+        pump_pct = case when x.advance then x.pump_pct else s.pump_pct end,
+        draw_dlpm = case when x.advance then x.draw_dlpm else s.draw_dlpm end,
+        soc = case when x.advance then x.soc else s.soc end,
+        v40_l = case when x.advance then x.v40_l else s.v40_l end
+      from json_to_recordset($1::json) as x(
+        tank_id uuid, last_seen_at timestamptz, derive jsonb, advance boolean, ts timestamptz, seq integer, layers_cc text,
+        flow_cc smallint, return_cc smallint, compressor boolean, immersion_w smallint, power_w smallint, pump_pct smallint,
+        draw_dlpm smallint, soc real, v40_l real)
+      where s.tank_id = x.tank_id`, [JSON.stringify(latestUpdates)]);
+
+    await upsertEvents(client, eventRows);
+    let touched = eventRows.length;
+    for (const l of late) touched += await rederive(client, l.tankId, l.fromTs);
+    return touched;
+  }
+}
+
+const pgArray = (values: (number | null)[]) => `{${values.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`;
+
+function eventRow(tankId: string, e: EventRecord) {
+  return {
+    tank_id: tankId, kind: e.kind, started_at: new Date(e.startedAt).toISOString(),
+    ended_at: e.endedAt === null ? null : new Date(e.endedAt).toISOString(),
+    energy_wh: e.energyWh, litres: e.litres, start_top_cc: e.startTopCc, end_top_cc: e.endTopCc, complete: e.complete,
+  };
+}
+
+async function upsertEvents(client: pg.PoolClient, rows: unknown[]): Promise<void> {
+  if (rows.length === 0) return;
+  await client.query(`
+    insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, litres, start_top_cc, end_top_cc, complete)
+    select tank_id, kind::telemetry_event_kind, started_at, ended_at, energy_wh, litres, start_top_cc, end_top_cc, complete
+    from json_to_recordset($1::json) as x(tank_id uuid, kind text, started_at timestamptz, ended_at timestamptz,
+      energy_wh real, litres real, start_top_cc smallint, end_top_cc smallint, complete boolean)
+    on conflict (tank_id, kind, started_at) do update set
+      ended_at = excluded.ended_at, energy_wh = excluded.energy_wh, litres = excluded.litres,
+      end_top_cc = excluded.end_top_cc, complete = excluded.complete`, [JSON.stringify(rows)]);
+}
+
+/**
+ * Readings older than the newest one arrived (a replay out of order): derive the tank's events
+ * again from the stored readings, from the start of the earliest run the late readings could
+ * belong to. Rare, and bounded by how late the readings are.
+ */
+async function rederive(client: pg.PoolClient, tankId: string, fromTs: number): Promise<number> {
+  let from = fromTs;
+  for (let i = 0; i < 10; i++) {
+    const r = await client.query<{ s: string | null }>(
+      `select (extract(epoch from min(started_at)) * 1000)::int8 as s from telemetry_events
+       where tank_id = $1 and started_at < $2 and (ended_at is null or ended_at >= $2)`, [tankId, new Date(from).toISOString()]);
+    const s = r.rows[0].s === null ? null : Number(r.rows[0].s);
+    if (s === null || s >= from) break;
+    from = s;
+  }
+  const fromIso = new Date(from).toISOString();
+  const prev = await client.query<{ ts_ms: string }>(
+    `select (extract(epoch from ts) * 1000)::int8 as ts_ms from readings where tank_id = $1 and ts < $2 order by ts desc limit 1`, [tankId, fromIso]);
+  await client.query(`delete from telemetry_events where tank_id = $1 and started_at >= $2`, [tankId, fromIso]);
+  const rows = await client.query<{ ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null }>(
+    `select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm
+     from readings where tank_id = $1 and ts >= $2 order by ts`, [tankId, fromIso]);
+  const start: DeriveState = { lastTs: prev.rows[0] ? Number(prev.rows[0].ts_ms) : null, open: {} };
+  const out = deriveEvents(start, rows.rows.map((x) => fromStored({
+    tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
+    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm,
+  })));
+  await upsertEvents(client, out.events.map((e) => eventRow(tankId, e)));
+  await client.query(`update tank_latest_state set derive = $2 where tank_id = $1`, [tankId, JSON.stringify(out.state)]);
+  return out.events.length;
+}
+
+async function insertDeadLettersWith(client: pg.PoolClient, rows: readonly DeadLetterInput[]): Promise<void> {
+  const MAX = 256 * 1024;
+  await client.query(`
+    insert into dead_letters (tank_id, serial, transport, topic, reason_code, reason, fields, payload, payload_bytes)
+    select * from unnest($1::uuid[], $2::text[], $3::text[], $4::text[], $5::text[], $6::text[], $7::jsonb[], $8::bytea[], $9::int[])`, [
+    rows.map((r) => r.tankId), rows.map((r) => r.serial), rows.map((r) => r.transport), rows.map((r) => r.topic),
+    rows.map((r) => r.reasonCode), rows.map((r) => r.reason), rows.map((r) => JSON.stringify(r.fields)),
+    rows.map((r) => r.payload.subarray(0, MAX)), rows.map((r) => r.payload.length),
+  ]);
+}
