@@ -5,11 +5,31 @@ import { companies, homeMembers, homes, memberships, tanks, users } from '../src
 import { demoAccounts, demoCompanies, demoTanks } from '../src/lib/demo/scenario';
 import { env } from '../src/lib/server/env';
 import { hashPassword } from '../src/lib/server/password';
+import { demoDeviceToken, hashDeviceToken } from '../src/lib/telemetry/device-token';
+
+/** The demo fleet's device-token key (the simulator derives the same tokens from it). */
+function demoTokenHash(serial: string): string | null {
+  const key = env().DEVICE_TOKEN_SEED;
+  return key ? hashDeviceToken(demoDeviceToken(key, serial)) : null;
+}
+
+/** Gives demo tanks that have no device token yet their derived one (databases seeded earlier). */
+async function provisionDemoDeviceTokens(): Promise<void> {
+  if (!env().DEVICE_TOKEN_SEED) return;
+  const rows = demoTanks().map((t) => ({ serial: t.serial, hash: demoTokenHash(t.serial) }));
+  await db().execute(sql`
+    update tanks t set device_token_hash = x.hash
+    from json_to_recordset(${JSON.stringify(rows)}::json) as x(serial text, hash text)
+    where t.serial = x.serial and t.device_token_hash is null`);
+}
 
 export async function seedIfEmpty(): Promise<boolean> {
   const d = db();
   const [{ n }] = await d.select({ n: sql<number>`count(*)::int` }).from(companies);
-  if (n > 0) return false;
+  if (n > 0) {
+    await provisionDemoDeviceTokens();
+    return false;
+  }
   await d.transaction(async (tx) => {
     const companyIds = new Map<string, string>();
     for (const c of demoCompanies) {
@@ -28,6 +48,7 @@ export async function seedIfEmpty(): Promise<boolean> {
         companyId, homeId: home.id, serial: t.serial, model: t.model, volumeL: t.volumeL, heightM: t.heightM,
         sensorCount: t.sensorCount, heatSource: t.heatSource, hpOutputW: t.hpOutputW, immersionW: t.immersionW,
         declaredLossW: t.declaredLossW, targetC: t.targetC, hysteresisK: t.hysteresisK, commissionedAt: new Date(Date.now() - 400 * 86_400_000),
+        deviceTokenHash: demoTokenHash(t.serial),
       });
     }
     const passwordHash = await hashPassword(env().DEMO_PASSWORD);

@@ -15,6 +15,8 @@ export interface RunConfig {
   authSecret: string;
   demoPassword: string;
   simulatorTanks: number;
+  /** Key of the demo fleet's device tokens (HMAC of each serial), shared by the seed and the simulator. */
+  deviceTokenSeed: string;
 }
 
 const root = new URL('../..', import.meta.url).pathname;
@@ -22,8 +24,17 @@ const num = (v: string | undefined, d: number) => (v && Number.isFinite(Number(v
 
 /** AUTH_SECRET from the environment, or one generated on first start and kept under .data/. */
 function authSecret(dataDir: string): string {
-  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
-  const file = join(dataDir, 'auth-secret');
+  return keptSecret(dataDir, 'auth-secret', process.env.AUTH_SECRET);
+}
+
+/** DEVICE_TOKEN_SEED from the environment, or one generated on first start and kept as .data/device-seed. */
+function deviceTokenSeed(dataDir: string): string {
+  return keptSecret(dataDir, 'device-seed', process.env.DEVICE_TOKEN_SEED);
+}
+
+function keptSecret(dataDir: string, name: string, fromEnv: string | undefined): string {
+  if (fromEnv) return fromEnv;
+  const file = join(dataDir, name);
   if (!existsSync(file)) {
     mkdirSync(dataDir, { recursive: true });
     writeFileSync(file, randomBytes(32).toString('base64url'), { mode: 0o600 });
@@ -43,6 +54,7 @@ export function startConfig(): RunConfig {
     authSecret: authSecret(dataDir),
     demoPassword: process.env.DEMO_PASSWORD ?? 'heatlayer-demo',
     simulatorTanks: num(process.env.SIMULATOR_TANKS, 240),
+    deviceTokenSeed: deviceTokenSeed(dataDir),
   };
 }
 
@@ -60,6 +72,7 @@ export function testConfig(): RunConfig {
     authSecret: randomBytes(32).toString('base64url'),
     demoPassword: 'heatlayer-demo',
     simulatorTanks: 0,
+    deviceTokenSeed: randomBytes(32).toString('base64url'),
   };
 }
 
@@ -79,5 +92,6 @@ export function processEnv(c: RunConfig, pgUrl: string, mode: 'development' | 'p
     DEMO_PASSWORD: c.demoPassword,
     SIMULATOR_TANKS: String(c.simulatorTanks),
     HEATLAYER_DATA_DIR: c.dataDir,
+    DEVICE_TOKEN_SEED: c.deviceTokenSeed,
   };
 }

@@ -7,6 +7,7 @@ export async function prepare(c: RunConfig, opts: { throwaway: boolean }): Promi
   const server = await startPostgres({ port: c.pgPort, dataDir: defaultDataDir(c.pgPort, opts.throwaway), fresh: opts.throwaway });
   process.env.DATABASE_URL = server.url;
   process.env.DEMO_PASSWORD = c.demoPassword;
+  process.env.DEVICE_TOKEN_SEED = c.deviceTokenSeed;
   // Imported late: the database client reads DATABASE_URL when first used.
   const { runMigrations } = await import('../migrate');
   const { seedIfEmpty } = await import('../seed');

@@ -28,6 +28,16 @@ export const envSchema = z.object({
   SIMULATOR_TANKS: z.coerce.number().int().min(0).max(1_000_000).default(240),
   SIMULATOR_SPEED: z.coerce.number().positive().max(10_000).default(1),
   SIMULATOR_BACKFILL_DAYS: z.coerce.number().min(0).max(60).default(14),
+  /** Key of the demo fleet's device tokens, HMAC-SHA256(key, serial); scripts/lib/config.ts keeps one in .data/device-seed. */
+  DEVICE_TOKEN_SEED: z.string().min(16).optional(),
+  /** Password of the broker's service account (ingest worker, web); derived from AUTH_SECRET when unset. */
+  MQTT_SERVICE_PASSWORD: z.string().min(16).optional(),
+  /** Raw readings are kept this long (daily partitions dropped by pg_partman); older readings are refused. */
+  READINGS_RETENTION_DAYS: z.coerce.number().int().min(15).max(3650).default(90),
+  /** 15-minute and hourly aggregates are kept this long. */
+  ROLLUPS_RETENTION_DAYS: z.coerce.number().int().min(30).max(36500).default(1825),
+  /** Broker: messages processed in parallel (aedes' default of 100 throttles a reconnecting fleet). */
+  BROKER_CONCURRENCY: z.coerce.number().int().min(1).max(100_000).default(2000),
   LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error']).default('info'),
 });
 
