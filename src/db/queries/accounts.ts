@@ -81,12 +81,6 @@ export async function findMember(companyId: string, userId: string): Promise<Sta
   return row ?? null;
 }
 
-export async function countAdmins(companyId: string): Promise<number> {
-  const [{ n }] = await db().select({ n: sql<number>`count(*)::int` }).from(memberships)
-    .where(and(eq(memberships.companyId, companyId), eq(memberships.role, 'admin')));
-  return n;
-}
-
 /** Householders linked to a home (the home must already be known to be in scope). */
 export async function listHomeHouseholders(homeId: string): Promise<{ userId: string; email: string; name: string | null }[]> {
   return db().select({ userId: users.id, email: users.email, name: users.name }).from(homeMembers)

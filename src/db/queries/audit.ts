@@ -1,4 +1,5 @@
-import { and, desc, eq, lt } from 'drizzle-orm';
+import { and, desc, eq, lt, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
 import { db } from '..';
 import { auditLog, users, type AuditEntry } from '../schema';
 
@@ -26,16 +27,19 @@ export async function recordAudit(entry: AuditRecord, tx: Pick<ReturnType<typeof
   });
 }
 
-export type AuditRow = AuditEntry & { actorEmail: string | null; actorName: string | null };
+export type AuditRow = AuditEntry & { actorEmail: string | null; actorName: string | null; subjectEmail: string | null };
+
+const subjectUser = alias(users, 'subject_user');
 
 /** A company's audit log, newest first, `limit` entries older than `beforeId`. */
 export async function listAudit(companyId: string, opts: { limit?: number; beforeId?: number } = {}): Promise<AuditRow[]> {
   const rows = await db()
-    .select({ entry: auditLog, actorEmail: users.email, actorName: users.name })
+    .select({ entry: auditLog, actorEmail: users.email, actorName: users.name, subjectEmail: subjectUser.email })
     .from(auditLog)
     .leftJoin(users, eq(users.id, auditLog.actorUserId))
+    .leftJoin(subjectUser, eq(auditLog.subject, sql`'user:' || ${subjectUser.id}`))
     .where(and(eq(auditLog.companyId, companyId), opts.beforeId ? lt(auditLog.id, opts.beforeId) : undefined))
     .orderBy(desc(auditLog.id))
     .limit(Math.min(opts.limit ?? 50, 500));
-  return rows.map((r) => ({ ...r.entry, actorEmail: r.actorEmail, actorName: r.actorName }));
+  return rows.map((r) => ({ ...r.entry, actorEmail: r.actorEmail, actorName: r.actorName, subjectEmail: r.subjectEmail }));
 }
