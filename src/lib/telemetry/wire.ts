@@ -18,6 +18,13 @@ export type Channel = 'telemetry' | 'status' | 'commands' | 'replies';
 /** Topics: telemetry, status (retained online/offline, also the last will) and replies go up; commands come down. */
 export const topicFor = (serial: string, channel: Channel): string => `${PREFIX}/${serial}/${channel}`;
 
+/** Heatlayer's own MQTT topics and the ingest worker's client id (its persistent session). */
+export const INGEST_CLIENT_ID = 'heatlayer-ingest';
+/** Retained `online` while an ingest worker is subscribed; its last will says `offline`. */
+export const INGEST_STATUS_TOPIC = `heatlayer/${WIRE_VERSION}/service/ingest/status`;
+/** Published by the web after a token rotation (payload: the serial); the broker ends that tank's sessions. */
+export const CREDENTIALS_ROTATED_TOPIC = `heatlayer/${WIRE_VERSION}/service/credentials-rotated`;
+
 /** Topic filters the ingest side subscribes to. */
 export const ingestFilters = {
   telemetry: `${PREFIX}/+/telemetry`,

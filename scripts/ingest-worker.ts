@@ -1,0 +1,60 @@
+// The ingest worker process (`npm start` and the tests start it): MQTT → validation → PostgreSQL,
+// plus the periodic jobs that belong with the data: rollups, partition upkeep and retention.
+import { closeDb, getPool } from '../src/db';
+import { refreshRollups, runRetention, setReadingsRetention } from '../src/db/queries/rollups';
+import { env } from '../src/lib/server/env';
+import { SERVICE_USERNAME, servicePassword } from '../src/lib/telemetry/device-token';
+import { IngestWorker } from '../src/lib/telemetry/ingest-worker.server';
+
+const ROLLUP_EVERY_MS = 30_000;
+const RETENTION_EVERY_MS = 3_600_000;
+const DEAD_LETTER_DAYS = 30;
+
+async function main(): Promise<void> {
+  const e = env();
+  const worker = new IngestWorker({
+    mqttUrl: e.MQTT_URL, username: SERVICE_USERNAME, password: servicePassword(e), pool: getPool(), retentionDays: e.READINGS_RETENTION_DAYS,
+  });
+  worker.start();
+
+  let retentionSet = false;
+  let lastRetention = 0;
+  const jobs = async () => {
+    try {
+      if (!retentionSet) { await setReadingsRetention(e.READINGS_RETENTION_DAYS); retentionSet = true; }
+      if (Date.now() - lastRetention > RETENTION_EVERY_MS) {
+        await runRetention({ rollupDays: e.ROLLUPS_RETENTION_DAYS, deadLetterDays: DEAD_LETTER_DAYS });
+        lastRetention = Date.now();
+      }
+      // Catch up in slices so one call never holds a long transaction (a backfill leaves many buckets).
+      for (let i = 0; i < 50 && (await refreshRollups(2000)) > 0; i++);
+    } catch (err) {
+      console.error(`[ingest] periodic job failed (will retry): ${err instanceof Error ? err.message : String(err)}`);
+    }
+  };
+  const timer = setInterval(() => void jobs(), ROLLUP_EVERY_MS);
+  setTimeout(() => void jobs(), 5_000).unref();
+
+  const report = setInterval(() => {
+    const s = worker.stats;
+    if (s.messages > 0) console.log(`[ingest] ${s.messages} messages, ${s.inserted} readings stored, ${s.duplicates} duplicates, ${s.deadLetters} dead letters, ${worker.buffered} buffered`);
+  }, 60_000);
+
+  let stopping = false;
+  const stop = async () => {
+    if (stopping) return;
+    stopping = true;
+    clearInterval(timer);
+    clearInterval(report);
+    await worker.stop();
+    await closeDb();
+    process.exit(0);
+  };
+  process.on('SIGTERM', () => void stop());
+  process.on('SIGINT', () => void stop());
+}
+
+main().catch((err) => {
+  console.error('[ingest] failed to start:', err instanceof Error ? err.message : err);
+  process.exit(1);
+});
