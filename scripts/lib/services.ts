@@ -3,6 +3,9 @@
 import type { RunConfig } from './config';
 import { createConnection } from 'node:net';
 import { httpOk, waitFor, type ServiceSpec } from './processes';
+import { demoTanks } from '../../src/lib/demo/scenario';
+import { servicePassword } from '../../src/lib/telemetry/device-token';
+import { brokerAcceptsService, ingestWorkerOnline, tankOnline } from '../../src/lib/telemetry/probes';
 
 /** Answers when something accepts TCP connections on 127.0.0.1:port. */
 function tcpOpen(port: number): Promise<boolean> {
@@ -33,13 +36,33 @@ export function webService(c: RunConfig): ServiceSpec {
   };
 }
 
+const tsxProcess = (name: string, script: string) => ({ name, command: process.execPath, args: ['--import', 'tsx', script] });
+const mqttUrl = (c: RunConfig) => `mqtt://127.0.0.1:${c.mqttPort}`;
+
+/** The MQTT broker (aedes), ready when it accepts the service account. */
+export function brokerService(c: RunConfig): ServiceSpec {
+  return { ...tsxProcess('broker', 'scripts/broker.ts'), ready: () => waitFor('The MQTT broker', () => brokerAcceptsService(mqttUrl(c), servicePassword(process.env))) };
+}
+
+/** The ingest worker, ready when it has subscribed and says so on its retained status topic. */
+export function ingestService(c: RunConfig): ServiceSpec {
+  return { ...tsxProcess('ingest', 'scripts/ingest-worker.ts'), ready: () => waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env))) };
+}
+
+/** The demo fleet simulator, ready when its first tank is online (its backfill then runs on, with progress lines). */
+export function simulatorService(c: RunConfig): ServiceSpec[] {
+  if (c.simulatorTanks <= 0) return [];
+  const first = demoTanks()[0].serial;
+  return [{ ...tsxProcess('simulator', 'simulator/index.ts'), ready: () => waitFor('The fleet simulator', () => tankOnline(mqttUrl(c), servicePassword(process.env), first)) }];
+}
+
 /** Every process `npm start` runs, in order. */
 export function productServices(c: RunConfig): ServiceSpec[] {
-  return [...fakeMail(c), webService(c)];
+  return [...fakeMail(c), brokerService(c), ingestService(c), webService(c), ...simulatorService(c)];
 }
 
 /** The processes the test suite needs running beside it. */
 export function testServices(c: RunConfig): ServiceSpec[] {
   // TRUST_PROXY: tests act as several client addresses through X-Forwarded-For (sign-in throttle).
-  return [...fakeMail(c), { ...webService(c), env: { TRUST_PROXY: '1' } }];
+  return [...fakeMail(c), brokerService(c), ingestService(c), { ...webService(c), env: { TRUST_PROXY: '1' } }];
 }
