@@ -1,0 +1,42 @@
+import { listCommands } from '../../../../db/queries/commands';
+import { findTankInScope } from '../../../../db/queries/telemetry';
+import { HttpError, requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { endpoint } from '../../../../lib/server/endpoint';
+import { json } from '../../../../lib/server/http';
+import { sendCommand } from '../../../../lib/telemetry/commands.server';
+import { commandRequestSchema, zodFieldErrors } from '../../../../lib/telemetry/wire';
+
+async function tankFor(locals: App.Locals, id: string | undefined) {
+  const viewer = requireViewer(locals);
+  const tank = await findTankInScope(scopeOf(viewer), id ?? '');
+  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
+  return { viewer, tank };
+}
+
+/** GET /api/tanks/{id}/commands: the tank's recent commands and how far each got. */
+export const GET = endpoint(async ({ locals, params }) => {
+  const { tank } = await tankFor(locals, params.id);
+  return json({ commands: await listCommands(tank.id) });
+});
+
+/**
+ * POST /api/tanks/{id}/commands: `{ kind: 'boost', minutes }`, `{ kind: 'set_target', targetC,
+ * hysteresisK? }` or `{ kind: 'set_schedule', windows: [{ from, to }] }`. Householders may boost
+ * and schedule their own tank; the storage target is for staff (it matters for legionella control).
+ */
+export const POST = endpoint(async ({ locals, params, request }) => {
+  const { viewer, tank } = await tankFor(locals, params.id);
+  let body: unknown;
+  try {
+    body = await request.json();
+  } catch {
+    throw new HttpError(400, 'InvalidJson', 'The body must be JSON.', [{ field: '(body)', message: 'must be valid JSON.' }]);
+  }
+  const parsed = commandRequestSchema.safeParse(body);
+  if (!parsed.success) throw new HttpError(400, 'InvalidCommand', 'The command has invalid fields; see "fields".', zodFieldErrors(parsed.error));
+  if (parsed.data.kind === 'set_target' && viewer.role === 'householder') {
+    throw new HttpError(403, 'NotAllowedForRole', 'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.');
+  }
+  const sent = await sendCommand({ tank, request: parsed.data, actorUserId: viewer.userId });
+  return json(sent, 202);
+});
