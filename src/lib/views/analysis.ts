@@ -1,0 +1,72 @@
+// Standing loss from quiet periods and legionella exposure over a window, for the tank view.
+import { erpClass, legionellaExposure, standingLoss, ThermalInputError, type CoolingSample } from '../thermal';
+import { attentionThresholds } from './attention';
+import type { TankAnalysis } from './contracts';
+import { complete, layerThicknesses, type TankShape } from './layers';
+import type { SeriesRow } from './series';
+
+/**
+ * Air around an indoor cylinder, °C, assumed for the cooling fit: the ambient of the standing-loss
+ * test in EN 12897 (20 °C, from memory). The page shows the assumption.
+ */
+export const ASSUMED_AMBIENT_C = 20;
+/** Shortest quiet stretch worth fitting, hours (the thermal core's default is 4). */
+export const MIN_QUIET_H = 4;
+
+function meanTemp(layersC: readonly number[], weights: readonly number[] | undefined): number {
+  if (!weights) return layersC.reduce((a, b) => a + b, 0) / layersC.length;
+  const total = weights.reduce((a, b) => a + b, 0);
+  return layersC.reduce((a, t, i) => a + t * weights[i]!, 0) / total;
+}
+
+/** Stretches with no heating and no draw and every sensor reading, longest first. */
+export function quietPeriods(rows: readonly SeriesRow[], maxGapMs = 15 * 60_000): SeriesRow[][] {
+  const out: SeriesRow[][] = [];
+  let run: SeriesRow[] = [];
+  const flush = () => { if (run.length > 2) out.push(run); run = []; };
+  for (const r of rows) {
+    const quiet = r.compressor === 0 && (r.immersion ?? 0) === 0 && (r.drawLpm ?? 0) === 0 && complete(r.layersC);
+    const last = run[run.length - 1];
+    if (!quiet || (last && r.t - last.t > maxGapMs)) flush();
+    if (quiet) run.push(r);
+  }
+  flush();
+  return out.sort((a, b) => (b[b.length - 1]!.t - b[0]!.t) - (a[a.length - 1]!.t - a[0]!.t));
+}
+
+export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { declaredLossW: number | null }, window: { from: Date; to: Date }): TankAnalysis {
+  const weights = layerThicknesses(tank.sensorHeightsM, tank.heightM);
+  const declaredClass = tank.declaredLossW !== null ? erpClass({ volumeL: tank.volumeL, standingLossW: tank.declaredLossW }) : null;
+  let standing: TankAnalysis['standingLoss'] = null;
+  let note = `No quiet stretch of ${MIN_QUIET_H} h or more (no heating, no hot water drawn) in this window.`;
+  for (const period of quietPeriods(rows)) {
+    const hours = (period[period.length - 1]!.t - period[0]!.t) / 3_600_000;
+    if (hours < MIN_QUIET_H) break;
+    // One sample every 5 minutes is plenty for a curve with a time constant of days.
+    const samples: CoolingSample[] = [];
+    for (const r of period) if (samples.length === 0 || r.t - samples[samples.length - 1]!.t >= 5 * 60_000) samples.push({ t: r.t, meanC: meanTemp(r.layersC as number[], weights) });
+    try {
+      const fit = standingLoss(samples, { volumeL: tank.volumeL, ambientC: ASSUMED_AMBIENT_C, minHours: MIN_QUIET_H });
+      standing = {
+        uaWPerK: fit.uaWPerK, lossWAt45K: fit.lossWAt45K, kWhPer24hAt45K: fit.kWhPer24hAt45K,
+        impliedClass: erpClass({ volumeL: tank.volumeL, standingLossW: fit.lossWAt45K }), declaredClass,
+        periodFrom: new Date(period[0]!.t).toISOString(), periodTo: new Date(period[period.length - 1]!.t).toISOString(),
+        ambientC: ASSUMED_AMBIENT_C, rmsResidualK: fit.rmsResidualK,
+      };
+      note = `Fitted to ${hours.toFixed(1)} h without heating or draws, assuming ${ASSUMED_AMBIENT_C} °C around the cylinder.`;
+      break;
+    } catch (err) {
+      if (!(err instanceof ThermalInputError)) throw err;
+      note = `The quiet stretches in this window could not be fitted: ${err.message}`;
+    }
+  }
+  const usable = rows.filter((r) => complete(r.layersC) && (r.layersC as number[]).length > 0);
+  const sameLength = usable.filter((r) => r.layersC.length === (usable[0]?.layersC.length ?? 0));
+  let legionella: TankAnalysis['legionella'] = null;
+  if (sameLength.length > 0) {
+    const holdMin = attentionThresholds.legionellaHoldHours * 60;
+    const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC: attentionThresholds.legionellaC, holdMin, heightsM: weights });
+    legionella = { thresholdC: attentionThresholds.legionellaC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
+  }
+  return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella };
+}

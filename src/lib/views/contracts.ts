@@ -1,0 +1,194 @@
+// Query strings the views API accepts (zod, validated at the edge) and the JSON it answers.
+// Server-only: islands import the types with `import type`, so zod stays out of their bundles.
+import { z } from 'zod';
+import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } from './attention';
+import { heatSourceValues } from './labels';
+import type { HeatSource } from '../../db/schema/homes';
+import type { ColumnFigures } from './layers';
+
+export const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
+export type TankSortKey = (typeof tankSortKeys)[number];
+
+const optionalText = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`).optional().transform((v) => (v ? v : undefined));
+
+export const tanksQuerySchema = z.object({
+  q: optionalText(100),
+  status: z.enum(tankStatuses).optional(),
+  alert: z.enum(attentionKinds).optional(),
+  town: optionalText(100),
+  heatSource: z.enum(heatSourceValues).optional(),
+  sort: z.enum(tankSortKeys).default('attention'),
+  dir: z.enum(['asc', 'desc']).optional(),
+  page: z.coerce.number({ invalid_type_error: 'page must be a whole number from 1.' }).int('page must be a whole number from 1.').min(1, 'page must be a whole number from 1.').default(1),
+  pageSize: z.coerce.number().int('pageSize must be a whole number.').min(1, 'pageSize must be between 1 and 200.').max(200, 'pageSize must be between 1 and 200.').default(25),
+}).strict();
+export type TanksQuery = z.infer<typeof tanksQuerySchema>;
+
+export const resolutions = ['raw', '15m', '1h'] as const;
+export type Resolution = (typeof resolutions)[number];
+/** Seconds a rollup step spans. */
+export const resolutionStepS: Record<Exclude<Resolution, 'raw'>, number> = { '15m': 900, '1h': 3600 };
+/** Longest span each resolution serves, so one answer stays small (raw: about 11,500 readings at one a minute). */
+export const maxSpanMs: Record<Resolution, number> = { raw: 8 * 86_400_000, '15m': 62 * 86_400_000, '1h': 400 * 86_400_000 };
+
+/** The step that keeps a range to a few hundred to a couple of thousand points. */
+export function autoResolution(spanMs: number): Resolution {
+  if (spanMs <= 36 * 3_600_000) return 'raw';
+  if (spanMs <= 10 * 86_400_000) return '15m';
+  return '1h';
+}
+
+const isoTime = (field: string) => z.string().datetime({ offset: true, message: `${field} must be an ISO 8601 date-time with a time zone, e.g. 2026-03-01T07:00:00Z.` });
+
+/** from/to (ISO 8601, default the last 24 h) and resolution (raw, 15m, 1h or auto). */
+export const rangeQuerySchema = z.object({
+  from: isoTime('from').optional(),
+  to: isoTime('to').optional(),
+  resolution: z.enum(['auto', ...resolutions]).default('auto'),
+}).strict().transform((v, ctx) => {
+  const to = v.to ? new Date(v.to) : new Date();
+  const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
+  if (from >= to) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+    return z.NEVER;
+  }
+  const span = to.getTime() - from.getTime();
+  const resolution: Resolution = v.resolution === 'auto' ? autoResolution(span) : v.resolution;
+  if (span > maxSpanMs[resolution]) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['resolution'], message: `resolution ${resolution} serves at most ${maxSpanMs[resolution] / 86_400_000} days; choose a coarser step or a shorter range.` });
+    return z.NEVER;
+  }
+  return { from, to, resolution };
+});
+export type RangeQuery = z.output<typeof rangeQuerySchema>;
+
+/** Events in a range (default the last 24 h). */
+export const eventsQuerySchema = z.object({ from: isoTime('from').optional(), to: isoTime('to').optional() }).strict().transform((v, ctx) => {
+  const to = v.to ? new Date(v.to) : new Date();
+  const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
+  if (from >= to) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+    return z.NEVER;
+  }
+  if (to.getTime() - from.getTime() > 62 * 86_400_000) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['from'], message: 'Events are served for at most 62 days at a time.' });
+    return z.NEVER;
+  }
+  return { from, to };
+});
+
+/** A query string as a plain object (repeated keys: the last wins). */
+export const searchParams = (url: URL): Record<string, string> => Object.fromEntries(url.searchParams.entries());
+
+// ---- answers ---------------------------------------------------------------------------------
+
+export interface TankListItem {
+  id: string;
+  serial: string;
+  model: string;
+  volumeL: number;
+  heatSource: HeatSource;
+  home: { id: string; reference: string; town: string; addressLine: string } | null;
+  lastSeenAt: string | null;
+  soc: number | null;
+  v40L: number | null;
+  topC: number | null;
+  status: TankStatus;
+  attention: AttentionKind[];
+}
+export interface TankListResponse { items: TankListItem[]; total: number; page: number; pageSize: number }
+
+export interface AttentionItem { kind: AttentionKind; label: string; detail: string }
+
+export interface TankDetail {
+  id: string;
+  serial: string;
+  model: string;
+  volumeL: number;
+  heightM: number;
+  sensorCount: number;
+  positionsM: number[];
+  heatSource: HeatSource;
+  hpOutputW: number;
+  immersionRatingW: number;
+  targetC: number;
+  hysteresisK: number;
+  home: { id: string; reference: string; addressLine: string; town: string; postcode: string; occupants: number; hasSolar: boolean } | null;
+  latest: {
+    ts: string | null; lastSeenAt: string | null; online: boolean | null; layersC: (number | null)[];
+    flowC: number | null; returnC: number | null; compressor: boolean | null; immersionW: number | null; powerW: number | null; drawLpm: number | null;
+  } | null;
+  figures: ColumnFigures | null;
+  /** Energy still to add to bring every layer to the target, kWh (thermal core). */
+  toFullKWh: number | null;
+  status: TankStatus;
+  attention: AttentionItem[];
+  commissioning: {
+    commissionedAt: string | null; heatSource: HeatSource; targetC: number; hysteresisK: number; hpOutputW: number;
+    immersionRatingW: number; sensorCount: number; declaredLossW: number | null; declaredClass: string | null;
+  };
+  analysis: TankAnalysis;
+}
+
+export interface TankAnalysis {
+  windowFrom: string;
+  windowTo: string;
+  standingLoss: {
+    uaWPerK: number; lossWAt45K: number; kWhPer24hAt45K: number; impliedClass: string; declaredClass: string | null;
+    periodFrom: string; periodTo: string; ambientC: number; rmsResidualK: number;
+  } | null;
+  standingLossNote: string;
+  legionella: { thresholdC: number; holdMin: number; minutesAtOrAbove: number[]; longestStretchMin: number[]; heldFraction: number; readings: number } | null;
+}
+
+export interface ReadingsResponse {
+  tankId: string;
+  from: string;
+  to: string;
+  resolution: Resolution;
+  sensorCount: number;
+  positionsM: number[];
+  /** Epoch ms of each reading (raw) or bucket start (rollups). */
+  t: number[];
+  /** °C per layer, bottom to top: layers[layer][i]. */
+  layers: (number | null)[][];
+  soc: (number | null)[];
+  v40L: (number | null)[];
+  /** 1/0 per raw reading; the share of the bucket for rollups. */
+  compressor: (number | null)[];
+  immersion: (number | null)[];
+  drawLpm: (number | null)[];
+  flowC: (number | null)[];
+}
+
+export type TimelineKind = 'compressor_run' | 'immersion_run' | 'draw' | 'command';
+export interface TimelineEvent {
+  kind: TimelineKind;
+  startedAt: string;
+  endedAt: string | null;
+  energyWh: number | null;
+  litres: number | null;
+  complete: boolean;
+  /** Compressor runs only: this start came sooner after the previous one than the short-cycle gap. */
+  shortCycle: boolean;
+  /** Commands: what and how far it got. */
+  command?: { id: string; kind: string; state: string; params: Record<string, unknown> };
+}
+export interface EventsResponse { tankId: string; from: string; to: string; items: TimelineEvent[]; shortCycleStarts: number; minStartGapMin: number }
+
+export interface FleetSummary {
+  tanks: number;
+  reporting: number;
+  offline: number;
+  needingAttention: number;
+  byAttention: Record<AttentionKind, number>;
+  /** Tanks by state of charge in tenths: bins[0] is 0–10 %, … bins[9] 90–100 %. */
+  socBins: number[];
+  /** Tanks by V40 in 50-litre steps; the last bin is open-ended. */
+  v40Bins: { fromL: number; toL: number | null; count: number }[];
+  meanSoc: number | null;
+  totalV40L: number;
+  /** The tanks to deal with first, most urgent first. */
+  queue: TankListItem[];
+  computedAt: string;
+}

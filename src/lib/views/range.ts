@@ -1,0 +1,25 @@
+// The tank view's time ranges: presets and a custom span, as from/to for the readings API.
+export const rangePresets = ['6h', '24h', '7d', '30d'] as const;
+export type RangePreset = (typeof rangePresets)[number];
+export const presetLabels: Record<RangePreset, string> = { '6h': '6 hours', '24h': '24 hours', '7d': '7 days', '30d': '30 days' };
+const presetMs: Record<RangePreset, number> = { '6h': 6 * 3_600_000, '24h': 86_400_000, '7d': 7 * 86_400_000, '30d': 30 * 86_400_000 };
+
+export type RangeChoice = { preset: RangePreset } | { preset: 'custom'; from: number; to: number };
+
+/** from/to in epoch ms; presets end at `now` rounded down to the minute, so polls share a cache key per minute. */
+export function rangeBounds(choice: RangeChoice, now: number): { from: number; to: number } {
+  if (choice.preset === 'custom') return { from: choice.from, to: choice.to };
+  const to = Math.floor(now / 60_000) * 60_000 + 60_000;
+  return { from: to - presetMs[choice.preset], to };
+}
+
+/** A custom range from two datetime-local strings, or an error naming the field. */
+export function parseCustomRange(fromLocal: string, toLocal: string): { from: number; to: number } | { field: 'from' | 'to'; message: string } {
+  const from = Date.parse(fromLocal);
+  const to = Date.parse(toLocal);
+  if (!Number.isFinite(from)) return { field: 'from', message: 'Enter a start date and time.' };
+  if (!Number.isFinite(to)) return { field: 'to', message: 'Enter an end date and time.' };
+  if (to <= from) return { field: 'to', message: 'The end must be after the start.' };
+  if (to - from > 62 * 86_400_000) return { field: 'to', message: 'Choose at most 62 days.' };
+  return { from, to };
+}
