@@ -10,6 +10,8 @@ export interface RunConfig {
   pgPort: number;
   mqttPort: number;
   smtpPort: number;
+  /** The fake S3 server (s3rver) for uploads and documents, when S3_ENDPOINT names no real one. */
+  s3Port: number;
   /** Where this copy keeps generated secrets and captured mail. */
   dataDir: string;
   authSecret: string;
@@ -50,6 +52,7 @@ export function startConfig(): RunConfig {
     pgPort: num(process.env.PG_PORT, 54329),
     mqttPort: num(process.env.MQTT_PORT, 18830),
     smtpPort: num(process.env.SMTP_PORT, 2525),
+    s3Port: num(process.env.S3_PORT, 4569),
     dataDir,
     authSecret: authSecret(dataDir),
     demoPassword: process.env.DEMO_PASSWORD ?? 'heatlayer-demo',
@@ -68,6 +71,7 @@ export function testConfig(): RunConfig {
     webPort: base + 1,
     mqttPort: base + 2,
     smtpPort: base + 3,
+    s3Port: base + 5,
     dataDir,
     authSecret: randomBytes(32).toString('base64url'),
     demoPassword: 'heatlayer-demo',
@@ -86,6 +90,7 @@ export function processEnv(c: RunConfig, pgUrl: string, mode: 'development' | 'p
     DATABASE_URL: pgUrl,
     MQTT_PORT: String(c.mqttPort),
     SMTP_PORT: String(c.smtpPort),
+    S3_PORT: String(c.s3Port),
     AUTH_SECRET: c.authSecret,
     AUTH_URL: process.env.AUTH_URL ?? `http://localhost:${c.webPort}`,
     AUTH_TRUST_HOST: 'true',

@@ -27,6 +27,17 @@ export function mailService(c: RunConfig): ServiceSpec {
 }
 const fakeMail = (c: RunConfig): ServiceSpec[] => (process.env.SMTP_URL ? [] : [mailService(c)]);
 
+/** The local fake S3 server for photos and documents; not started when S3_ENDPOINT names a real one. */
+export function s3Service(c: RunConfig): ServiceSpec {
+  return {
+    name: 's3',
+    command: process.execPath,
+    args: ['--import', 'tsx', 'scripts/s3-server.ts'],
+    ready: () => waitFor('The fake S3 server', () => tcpOpen(c.s3Port)),
+  };
+}
+const fakeS3 = (c: RunConfig): ServiceSpec[] => (process.env.S3_ENDPOINT ? [] : [s3Service(c)]);
+
 export function webService(c: RunConfig): ServiceSpec {
   return {
     name: 'web',
@@ -58,11 +69,11 @@ export function simulatorService(c: RunConfig): ServiceSpec[] {
 
 /** Every process `npm start` runs, in order. */
 export function productServices(c: RunConfig): ServiceSpec[] {
-  return [...fakeMail(c), brokerService(c), ingestService(c), webService(c), ...simulatorService(c)];
+  return [...fakeMail(c), ...fakeS3(c), brokerService(c), ingestService(c), webService(c), ...simulatorService(c)];
 }
 
 /** The processes the test suite needs running beside it. */
 export function testServices(c: RunConfig): ServiceSpec[] {
   // TRUST_PROXY: tests act as several client addresses through X-Forwarded-For (sign-in throttle).
-  return [...fakeMail(c), brokerService(c), ingestService(c), { ...webService(c), env: { TRUST_PROXY: '1' } }];
+  return [...fakeMail(c), ...fakeS3(c), brokerService(c), ingestService(c), { ...webService(c), env: { TRUST_PROXY: '1' } }];
 }

@@ -5,3 +5,4 @@ export * from './homes';
 export * from './accounts';
 export * from './audit';
 export * from './telemetry';
+export * from './commissioning';
