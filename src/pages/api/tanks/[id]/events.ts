@@ -1,0 +1,25 @@
+import { commandsInRange, eventsInRange } from '../../../../db/queries/readings';
+import { requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { endpoint } from '../../../../lib/server/endpoint';
+import { json } from '../../../../lib/server/http';
+import { attentionThresholds } from '../../../../lib/views/attention';
+import { eventsQuerySchema, searchParams, type EventsResponse, type TimelineEvent } from '../../../../lib/views/contracts';
+import { markShortCycles } from '../../../../lib/views/timeline';
+import { tankOr404 } from '../../../../lib/views/tank-detail.server';
+
+/** GET /api/tanks/{id}/events?from&to: compressor and immersion runs, draws and commands, oldest first. */
+export const GET = endpoint(async ({ locals, params, url }) => {
+  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
+  const tank = await tankOr404(scopeOf(viewer), params.id ?? '');
+  const { from, to } = eventsQuerySchema.parse(searchParams(url));
+  const [{ rows, startBefore }, commands] = await Promise.all([eventsInRange(tank.id, from, to), commandsInRange(tank.id, from, to)]);
+  const minGap = attentionThresholds.minStartGapMin;
+  const runs = markShortCycles(rows, minGap, startBefore);
+  const cmds: TimelineEvent[] = commands.map((c) => ({
+    kind: 'command', startedAt: c.createdAt.toISOString(), endedAt: c.appliedAt?.toISOString() ?? null, energyWh: null, litres: null,
+    complete: c.state === 'applied', shortCycle: false, command: { id: c.id, kind: c.kind, state: c.state, params: c.params },
+  }));
+  const items = [...runs, ...cmds].sort((a, b) => Date.parse(a.startedAt) - Date.parse(b.startedAt));
+  const body: EventsResponse = { tankId: tank.id, from: from.toISOString(), to: to.toISOString(), items, shortCycleStarts: runs.filter((r) => r.shortCycle).length, minStartGapMin: minGap };
+  return json(body);
+});

@@ -1,0 +1,186 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createAccount } from '../../support/accounts';
+import { closeTestDb } from '../../support/db';
+import { signIn, signInAs } from '../../support/session';
+import { createFixture, dropFixture, healthyLayersCc, type Fixture } from './fixtures';
+
+const base = () => process.env.TEST_BASE_URL!;
+let fx: Fixture;
+const cookies: Record<string, string> = {};
+
+async function get(path: string, who: keyof typeof cookies | null): Promise<Response> {
+  return fetch(`${base()}${path}`, { headers: who ? { cookie: cookies[who]! } : {} });
+}
+async function getJson<T = any>(path: string, who: string): Promise<T> {
+  const res = await get(path, who);
+  expect(res.status, `${path} as ${who}: ${res.status}`).toBe(200);
+  return res.json() as Promise<T>;
+}
+
+beforeAll(async () => {
+  fx = await createFixture();
+  const own = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: fx.healthy.homeId, label: 'views-home' });
+  [cookies.operator, cookies.engineer, cookies.householder, cookies.ownHouseholder, cookies.otherOperator] = await Promise.all([
+    signInAs(base(), 'operator'), signInAs(base(), 'engineer'), signInAs(base(), 'householder'),
+    signIn(base(), own.email, own.password), signInAs(base(), 'operator', 'orrin-bay'),
+  ]);
+  // The fleet's attention snapshot is shared for a few seconds; wait until it includes the new tanks.
+  const until = Date.now() + 45_000;
+  while ((await (await get(`/api/tanks?q=${fx.prefix}&alert=sensor_fault`, 'operator')).json()).total !== 1) {
+    if (Date.now() > until) throw new Error('The attention snapshot never included the fixture tanks.');
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}, 120_000);
+afterAll(async () => { if (fx) await dropFixture(fx); await closeTestDb(); });
+
+describe('GET /api/tanks', () => {
+  it('lists the company tanks with latest state, filtered by free text', async () => {
+    const body = await getJson(`/api/tanks?q=${fx.prefix}&sort=serial`, 'operator');
+    expect(body).toMatchObject({ total: 4, page: 1, pageSize: 25 });
+    expect(body.items.map((i: any) => i.serial)).toEqual(['A', 'B', 'C', 'D'].map((n) => `${fx.prefix}-${n}`));
+    const a = body.items[0];
+    expect(a).toMatchObject({ id: fx.healthy.id, model: 'C210 cylinder', volumeL: 210, heatSource: 'hp_plate', status: 'ok', attention: [], topC: 55 });
+    expect(a.home).toMatchObject({ town: 'Tarnfield', reference: `${fx.prefix}-H-A` });
+  });
+  it('filters by problem, status, town and heat source', async () => {
+    const serials = async (qs: string) => (await getJson(`/api/tanks?q=${fx.prefix}&sort=serial&${qs}`, 'operator')).items.map((i: any) => i.serial.slice(-1)).join('');
+    expect(await serials('alert=sensor_fault')).toBe('B');
+    expect(await serials('alert=short_cycling')).toBe('D');
+    expect(await serials('status=offline')).toBe('C');
+    expect(await serials('status=ok')).toBe('A');
+    expect(await serials('status=attention')).toBe('BD');
+    expect(await serials('town=Larkholt')).toBe('C');
+    expect(await serials('heatSource=immersion_only')).toBe('C');
+  });
+  it('sorts and pages on the server', async () => {
+    const p2 = await getJson(`/api/tanks?q=${fx.prefix}&sort=serial&dir=desc&pageSize=2&page=2`, 'operator');
+    expect(p2).toMatchObject({ total: 4, page: 2, pageSize: 2 });
+    expect(p2.items.map((i: any) => i.serial.slice(-1))).toEqual(['B', 'A']);
+    const ranked = await getJson(`/api/tanks?q=${fx.prefix}`, 'operator');
+    // Most urgent first: offline, then the sensor fault, then short-cycling, then the healthy one.
+    expect(ranked.items.map((i: any) => i.serial.slice(-1))).toEqual(['C', 'B', 'D', 'A']);
+    const past = await getJson(`/api/tanks?q=${fx.prefix}&page=9`, 'operator');
+    expect(past).toMatchObject({ items: [], total: 4 });
+  });
+  it('refuses a bad query string naming the field', async () => {
+    for (const [qs, field] of [['pageSize=0', 'pageSize'], ['page=abc', 'page'], ['sort=colour', 'sort'], ['alert=gremlins', 'alert'], ['heatSource=coal', 'heatSource']]) {
+      const res = await get(`/api/tanks?${qs}`, 'operator');
+      expect(res.status, qs).toBe(400);
+      const body = await res.json();
+      expect(body.error.fields.map((f: any) => f.field), qs).toContain(field);
+    }
+  });
+});
+
+describe('GET /api/tanks/{id}', () => {
+  it('gives the specification, latest layers and figures from the thermal core', async () => {
+    const t = await getJson(`/api/tanks/${fx.healthy.id}`, 'engineer');
+    const minute = new Date(fx.now.getTime() - 60_000).getUTCMinutes();
+    expect(t.latest.layersC).toEqual(healthyLayersCc(minute).map((c) => c / 100));
+    // V40 (EN 16147, cold 10 °C): layers of 52.5 L; 55 °C → 52.5·45/30 = 78.75 L, 48 °C → 52.5·38/30 = 66.5 L; 30-ish °C stops the count.
+    expect(t.figures.v40L).toBeCloseTo(78.75 + 66.5, 6);
+    expect(t.commissioning).toMatchObject({ declaredLossW: 57, targetC: 55, sensorCount: 4 });
+    expect(t.status).toBe('ok');
+    expect(t.analysis.legionella.readings).toBe(2880);
+  });
+  it('explains what is wrong with a faulty tank and gives no figures from a broken column', async () => {
+    const t = await getJson(`/api/tanks/${fx.faulty.id}`, 'operator');
+    expect(t.attention.map((a: any) => a.kind)).toEqual(['sensor_fault']);
+    expect(t.attention[0].detail).toMatch(/Sensor 2/);
+    expect(t.figures).toBeNull();
+  });
+});
+
+describe('GET /api/tanks/{id}/readings', () => {
+  it('serves every raw reading in a 6-hour range with exact layer values', async () => {
+    const to = fx.now.toISOString();
+    const from = new Date(fx.now.getTime() - 6 * 3_600_000).toISOString();
+    const s = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${from}&to=${to}`, 'engineer');
+    expect(s.resolution).toBe('raw');
+    expect(s.t).toHaveLength(360);
+    expect(s.layers).toHaveLength(4);
+    const i = s.t.findIndex((t: number) => new Date(t).getUTCMinutes() === 7);
+    expect(s.layers.map((l: number[]) => l[i])).toEqual([15, 30.7, 48, 55]);
+    expect(s.compressor[i]).toBe(1);
+  });
+  it('serves 15-minute rollups for 7 days and hourly ones for 30 days, or raw on request', async () => {
+    const to = fx.now.toISOString();
+    const week = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 7 * 86_400_000).toISOString()}&to=${to}`, 'engineer');
+    expect(week.resolution).toBe('15m');
+    expect(week.t.length).toBeGreaterThanOrEqual(668);
+    expect(week.t.length).toBeLessThanOrEqual(672);
+    expect(week.layers[3][0]).toBe(61.5);
+    expect(week.compressor[0]).toBeCloseTo(5 / 15, 9);
+    const month = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 30 * 86_400_000).toISOString()}&to=${to}`, 'engineer');
+    expect(month.resolution).toBe('1h');
+    expect(month.t.length).toBeGreaterThanOrEqual(190);
+    expect(month.t.length).toBeLessThanOrEqual(193);
+    const raw = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 3 * 86_400_000).toISOString()}&to=${to}&resolution=raw`, 'engineer');
+    expect(raw.t).toHaveLength(2880);
+  });
+  it('refuses a range it cannot serve, naming the field', async () => {
+    const r1 = await get(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 30 * 86_400_000).toISOString()}&resolution=raw`, 'engineer');
+    expect(r1.status).toBe(400);
+    expect((await r1.json()).error.fields[0].field).toBe('resolution');
+    const r2 = await get(`/api/tanks/${fx.healthy.id}/readings?from=tuesday`, 'engineer');
+    expect((await r2.json()).error.fields[0].field).toBe('from');
+    const r3 = await get(`/api/tanks/${fx.healthy.id}/readings?resolution=5m`, 'engineer');
+    expect((await r3.json()).error.fields[0].field).toBe('resolution');
+  });
+  it('exports the same range as CSV', async () => {
+    const from = new Date(fx.now.getTime() - 3_600_000).toISOString();
+    const res = await get(`/api/tanks/${fx.healthy.id}/export.csv?from=${from}&to=${fx.now.toISOString()}`, 'engineer');
+    expect(res.status).toBe(200);
+    expect(res.headers.get('content-type')).toMatch(/text\/csv/);
+    const lines = (await res.text()).trim().split('\r\n');
+    expect(lines[1]).toMatch(/^time_utc,layer_1_c,layer_2_c,layer_3_c,layer_4_c,/);
+    expect(lines).toHaveLength(2 + 60);
+  });
+});
+
+describe('GET /api/tanks/{id}/events', () => {
+  it('lists runs and draws and marks the short-cycle start', async () => {
+    const e = await getJson(`/api/tanks/${fx.cycling.id}/events`, 'engineer');
+    expect(e.items.map((i: any) => [i.kind, i.shortCycle])).toEqual([['compressor_run', false], ['compressor_run', true]]);
+    expect(e.shortCycleStarts).toBe(1);
+    const d = await getJson(`/api/tanks/${fx.healthy.id}/events`, 'engineer');
+    expect(d.items).toEqual([expect.objectContaining({ kind: 'draw', litres: 42.5 })]);
+  });
+});
+
+describe('GET /api/fleet/summary', () => {
+  it('counts the fleet and queues the tanks needing attention', async () => {
+    const s = await getJson('/api/fleet/summary', 'operator');
+    expect(s.tanks).toBeGreaterThanOrEqual(244);
+    expect(s.byAttention.sensor_fault).toBeGreaterThanOrEqual(1);
+    expect(s.socBins).toHaveLength(10);
+    expect(s.queue.length).toBeGreaterThan(0);
+    expect(s.queue[0].attention[0]).toBe('offline');
+  });
+});
+
+describe('who may see what', () => {
+  it('asks for sign-in, then checks role, then scope', async () => {
+    for (const p of ['/api/tanks', `/api/tanks/${fx.healthy.id}`, `/api/tanks/${fx.healthy.id}/readings`, `/api/tanks/${fx.healthy.id}/events`, '/api/fleet/summary']) {
+      expect((await get(p, null)).status, p).toBe(401);
+    }
+    expect((await get('/api/tanks', 'householder')).status).toBe(403);
+    expect((await get(`/api/tanks/${fx.healthy.id}/events`, 'householder')).status).toBe(403);
+    expect((await get('/api/fleet/summary', 'engineer')).status).toBe(403);
+    expect((await get('/api/fleet/summary', 'householder')).status).toBe(403);
+  });
+  it('answers 404 for a tank of another home or another company', async () => {
+    expect((await get(`/api/tanks/${fx.healthy.id}`, 'householder')).status).toBe(404);
+    expect((await get(`/api/tanks/${fx.healthy.id}/readings`, 'householder')).status).toBe(404);
+    expect((await get(`/api/tanks/${fx.healthy.id}`, 'otherOperator')).status).toBe(404);
+    expect((await get(`/api/tanks/${fx.healthy.id}/events`, 'otherOperator')).status).toBe(404);
+    expect((await get(`/api/tanks/not-a-uuid`, 'operator')).status).toBe(404);
+    expect((await getJson(`/api/tanks?q=${fx.prefix}`, 'otherOperator')).total).toBe(0);
+  });
+  it('lets a householder read their own tank', async () => {
+    const t = await getJson(`/api/tanks/${fx.healthy.id}`, 'ownHouseholder');
+    expect(t.serial).toBe(fx.healthy.serial);
+    const s = await getJson(`/api/tanks/${fx.healthy.id}/readings`, 'ownHouseholder');
+    expect(s.t.length).toBeGreaterThan(0);
+  });
+});
