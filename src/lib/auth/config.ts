@@ -49,7 +49,7 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
       // Wrong passwords and expired links are expected; they are in the audit log, not the server log.
       error(error) {
         const type = (error as { type?: string }).type;
-        if (type === 'CredentialsSignin' || type === 'Verification' || type === 'AccessDenied') return;
+        if (type === 'CredentialsSignin' || type === 'Verification' || type === 'AccessDenied' || type === 'MissingCSRF') return;
         console.error('[auth]', error);
       },
       warn() {},

@@ -1,3 +1,4 @@
+import { findMember } from '../../../db/queries/accounts';
 import { changeStaffRole, removeStaffMember, type MemberChange } from '../../../db/queries/members';
 import { roleChangeSchema } from '../../../lib/accounts/schemas';
 import { HttpError, requireViewer } from '../../../lib/server/authz';
@@ -15,6 +16,9 @@ function refuse(result: Extract<MemberChange, { ok: false }>): never {
 /** Change a staff member's role: { role }. */
 export const PATCH = endpoint(async ({ locals, params, request }) => {
   const viewer = requireViewer(locals, ['admin']);
+  // The member first: another company's id is "not found" whatever the body says.
+  const member = await findMember(viewer.companyId, params.id ?? '');
+  if (!member || member.role === 'householder') refuse({ ok: false, reason: 'not_found' });
   const { role } = await jsonBody(request, roleChangeSchema);
   const result = await changeStaffRole(viewer.companyId, params.id ?? '', role, viewer.userId);
   if (!result.ok) refuse(result);

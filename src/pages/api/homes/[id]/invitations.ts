@@ -20,6 +20,9 @@ export const GET = endpoint(async ({ locals, params }) => {
 /** Invite the householder of this home (at handover): { email, name? }. */
 export const POST = endpoint(async ({ locals, params, request }) => {
   const viewer = requireViewer(locals);
+  // The home first: a foreign id is "not found" whatever the body says.
+  const home = await getHomeInScope(scopeOf(viewer), params.id ?? '');
+  if (!home) throw new HttpError(404, 'NotFound', 'There is no such home.');
   const input = await jsonBody(request, householderInvitationSchema);
-  return json({ invitation: await inviteHouseholder(viewer, params.id ?? '', input) }, 201);
+  return json({ invitation: await inviteHouseholder(viewer, home.id, input) }, 201);
 });
