@@ -1,0 +1,219 @@
+// One simulated cylinder: the thermal-core tank model, its controller, its household and its
+// injected faults. step() advances one minute and returns what the tank's controller would report.
+// The figures here (weather, cold-water season, solar surplus, heat-pump behaviour) are demo
+// values chosen to look like real installs; they are never check values.
+import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
+import { seededRandom } from '../src/lib/demo/random';
+import { createTank, estimatedCop, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
+import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
+import { drawsForDay, type PlannedDraw } from './household';
+
+const MIN = 60_000;
+const DAY = 86_400_000;
+/** At most one hot-water compressor start an hour (common practice). */
+const MIN_START_GAP_MS = 60 * MIN;
+
+/** Outdoor air, °C: seasonal and daily swing (demo). */
+export function outdoorC(t: number): number {
+  const doy = (t % (365.25 * DAY)) / DAY;
+  const hour = (t % DAY) / 3_600_000;
+  return 10 - 7 * Math.cos((2 * Math.PI * (doy - 20)) / 365.25) + 4 * Math.sin((2 * Math.PI * (hour - 9)) / 24);
+}
+
+/** Mains cold water, °C: lags the seasons (demo). */
+export function coldWaterC(t: number): number {
+  const doy = (t % (365.25 * DAY)) / DAY;
+  return 10 - 4 * Math.cos((2 * Math.PI * (doy - 45)) / 365.25);
+}
+
+const inWindow = (minuteOfDay: number, from: string, to: string) => {
+  const f = Number(from.slice(0, 2)) * 60 + Number(from.slice(3));
+  const e = Number(to.slice(0, 2)) * 60 + Number(to.slice(3));
+  return f <= e ? minuteOfDay >= f && minuteOfDay < e : minuteOfDay >= f || minuteOfDay < e;
+};
+
+export interface SimTankSnapshot {
+  nodesC: number[];
+  hpOn: boolean;
+  lastStart: number;
+  tripUntil: number;
+  boostUntil: number;
+  targetC: number;
+  hysteresisK: number;
+  windows: { from: string; to: string }[];
+  seq: number;
+  stuckC: number | null;
+}
+
+export class SimTank {
+  readonly spec: TankSpec;
+  readonly faults: Set<FaultKind>;
+  private state: TankState;
+  private hpOn = false;
+  private immersionTopUp = false;
+  private lastStart = -Infinity;
+  private runStart = 0;
+  /** short_cycle: a high-pressure trip holds the compressor off until then. */
+  private tripUntil = 0;
+  private boostUntil = 0;
+  targetC: number;
+  hysteresisK: number;
+  windows: { from: string; to: string }[] = [];
+  private seq = 0;
+  private stuckC: number | null = null;
+  private drawDay = -1;
+  private plan: PlannedDraw[] = [];
+  private active: { remainingJ: number; flowLpm: number; mixC: number; until: number } | null = null;
+  private readonly rand: () => number;
+
+  constructor(readonly demo: DemoTank, faults: readonly FaultKind[] = demo.faults) {
+    this.faults = new Set(faults);
+    this.spec = {
+      volumeL: demo.volumeL, sensorCount: demo.sensorCount, heightM: demo.heightM, ambientC: 18,
+      // Declared standing loss is measured with the store 45 K above the room (EN 12897, from memory): UA = S / 45 K.
+      uaWPerK: demo.declaredLossW / 45,
+      heatSource: demo.heatSource, hpOutputW: demo.hpOutputW, immersionW: demo.immersionW,
+      immersionHeightFrac: demo.heatSource === 'immersion_only' ? 0.15 : 0.55,
+      maxFlowC: 65,
+    };
+    this.targetC = this.faults.has('low_setpoint') ? 45 : demo.targetC;
+    this.hysteresisK = demo.hysteresisK;
+    this.state = createTank(this.spec, this.targetC - 8);
+    this.rand = seededRandom(demo.serial.split('').reduce((h, c) => Math.imul(h ^ c.charCodeAt(0), 16777619), 2166136261) >>> 0);
+  }
+
+  snapshot(): SimTankSnapshot {
+    return { nodesC: [...this.state.nodesC], hpOn: this.hpOn, lastStart: this.lastStart, tripUntil: this.tripUntil, boostUntil: this.boostUntil,
+      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, seq: this.seq, stuckC: this.stuckC };
+  }
+
+  restore(s: SimTankSnapshot): void {
+    if (s.nodesC.length === this.state.nodesC.length) this.state = { nodesC: [...s.nodesC] };
+    Object.assign(this, { hpOn: s.hpOn, lastStart: s.lastStart ?? -Infinity, tripUntil: s.tripUntil, boostUntil: s.boostUntil, targetC: s.targetC, hysteresisK: s.hysteresisK, windows: s.windows, seq: s.seq, stuckC: s.stuckC });
+  }
+
+  /** Obeys a command; returns a reason when it cannot. */
+  apply(cmd: CommandRequest, now: number): string | null {
+    if (cmd.kind === 'boost') this.boostUntil = now + cmd.minutes * MIN;
+    else if (cmd.kind === 'set_target') {
+      this.targetC = cmd.targetC;
+      if (cmd.hysteresisK) this.hysteresisK = cmd.hysteresisK;
+    } else this.windows = cmd.windows;
+    return null;
+  }
+
+  get boosting(): boolean {
+    return this.boostUntil > 0;
+  }
+
+  /** One minute ending at `t` (epoch ms): controller, household draw, physics, then the reading. */
+  step(t: number): Reading {
+    const dtS = 60;
+    const sensors = sensorReadings(this.spec, this.state);
+    const n = sensors.length;
+    const controlC = sensors[Math.floor(n * 0.4)];
+    const topC = sensors[n - 1];
+    const minuteOfDay = Math.floor((t % DAY) / MIN);
+    const winter = outdoorC(t) < 12;
+    // In the heating season the heat pump serves the house first at the morning and evening peaks.
+    const spaceHeatingBusy = winter && (inWindow(minuteOfDay, '06:00', '08:00') || inWindow(minuteOfDay, '17:00', '20:00'));
+    const boost = this.boostUntil > t;
+    if (!boost && this.boostUntil > 0 && this.boostUntil <= t) this.boostUntil = 0;
+    const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(minuteOfDay, w.from, w.to));
+    const hasHp = this.spec.heatSource !== 'immersion_only' && this.spec.hpOutputW > 0;
+
+    // Heat pump (or boiler) thermostat with hysteresis and the one-start-an-hour rule.
+    if (hasHp) {
+      const shortCycle = this.faults.has('short_cycle');
+      if (this.hpOn) {
+        const tripped = shortCycle && t - this.runStart >= (4 + Math.floor(this.rand() * 3)) * MIN;
+        if (tripped) this.tripUntil = t + 6 * MIN;
+        if (controlC >= this.targetC || tripped || (spaceHeatingBusy && !boost)) this.hpOn = false;
+      } else {
+        const wants = controlC < this.targetC - this.hysteresisK || (boost && controlC < this.targetC);
+        const mayStart = shortCycle ? t >= this.tripUntil : t - this.lastStart >= MIN_START_GAP_MS;
+        if (wants && mayStart && (scheduled || boost) && !spaceHeatingBusy) {
+          this.hpOn = true;
+          this.lastStart = t;
+          this.runStart = t;
+        }
+      }
+    }
+
+    // Immersion: the only source of an immersion-only tank; otherwise a top-up while the heat
+    // pump is busy with the house, a boost when no heat pump can take it, solar surplus, or a fault.
+    let immersionOn = false;
+    if (this.faults.has('immersion_stuck')) immersionOn = true;
+    else if (!hasHp) {
+      if (this.immersionTopUp ? controlC >= this.targetC : controlC < this.targetC - this.hysteresisK) this.immersionTopUp = !this.immersionTopUp;
+      immersionOn = this.immersionTopUp && scheduled;
+    } else {
+      if (spaceHeatingBusy && topC < 42) this.immersionTopUp = true;
+      if (this.immersionTopUp && (topC >= 48 || !spaceHeatingBusy)) this.immersionTopUp = false;
+      immersionOn = this.immersionTopUp;
+    }
+    // A boost switches the element on (its own thermostat still caps it) as well as the heat pump.
+    if (boost) immersionOn = true;
+    if (!immersionOn && this.demo.hasSolar) {
+      const month = new Date(t).getUTCMonth();
+      const hour = (t % DAY) / 3_600_000;
+      if (month >= 3 && month <= 8 && hour > 10 && hour < 16) {
+        const surplusW = 2500 * Math.sin((Math.PI * (hour - 10)) / 6) * (0.4 + 0.6 * this.rand());
+        immersionOn = this.rand() < surplusW / this.spec.immersionW; // burst-fire diverter, by the minute
+      }
+    }
+
+    // Household draw.
+    const day = Math.floor(t / DAY);
+    if (day !== this.drawDay) {
+      this.drawDay = day;
+      this.plan = drawsForDay(this.demo.serial, this.demo.occupants, day * DAY);
+    }
+    while (this.plan.length > 0 && this.plan[0].at <= t) {
+      const d = this.plan.shift()!;
+      if (!this.active) this.active = { remainingJ: d.energyKWh * 3.6e6, flowLpm: d.flowLpm, mixC: d.mixC, until: t + 30 * MIN };
+    }
+    const coldC = coldWaterC(t);
+    let drawLpm = 0;
+    if (this.active) {
+      const span = Math.max(1, topC - coldC);
+      const hotFraction = Math.min(1, Math.max(0, (this.active.mixC - coldC) / span));
+      const needLitres = this.active.remainingJ / (4180 * span);
+      drawLpm = Math.min(this.active.flowLpm * hotFraction, needLitres);
+    }
+
+    const flowC = Math.min(65, this.targetC + 5);
+    const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC });
+    if (this.active) {
+      this.active.remainingJ -= out.drawnJ;
+      if (this.active.remainingJ <= 1000 || t >= this.active.until) this.active = null;
+    }
+
+    // What the controller reports.
+    const layers: (number | null)[] = sensorReadings(this.spec, this.state).map((c) => Math.round((c + (this.rand() - 0.5) * 0.1) * 100) / 100);
+    if (this.faults.has('sensor_open')) layers[2] = null;
+    if (this.faults.has('sensor_stuck')) {
+      this.stuckC ??= layers[n - 3];
+      layers[n - 3] = this.stuckC;
+    }
+    if (this.faults.has('sensors_swapped')) [layers[1], layers[n - 2]] = [layers[n - 2], layers[1]];
+    const hpW = out.hpHeatJ / dtS;
+    const cop = hpW > 0 ? estimatedCop({ sinkC: flowC, sourceC: outdoorC(t) }) : 1;
+    const reading: Reading = {
+      ts: t,
+      layersC: layers,
+      compressor: this.hpOn,
+      immersionW: Math.round(out.immersionHeatJ / dtS),
+      powerW: Math.round(hpW / cop + out.immersionHeatJ / dtS),
+      drawLpm: Math.round(drawLpm * 10) / 10,
+      seq: ++this.seq,
+    };
+    if (this.hpOn) {
+      const bottom = layers[0] ?? sensors[0];
+      reading.returnC = Math.round((bottom + 1) * 100) / 100;
+      reading.flowC = Math.round(Math.min(flowC, bottom + 1 + hpW / (0.25 * 4180)) * 100) / 100;
+      reading.pumpPct = 80;
+    }
+    return reading;
+  }
+}
