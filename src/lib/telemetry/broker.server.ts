@@ -16,6 +16,8 @@ export interface BrokerOptions {
   lookupTokenHash(serial: string): Promise<string | null>;
   /** Messages processed in parallel. aedes' default (100) makes a reconnecting fleet drain slowly. */
   concurrency?: number;
+  /** How long a subscriber's full socket is tolerated before it is cut off. */
+  drainTimeoutMs?: number;
   log?: (line: string) => void;
 }
 
@@ -41,8 +43,10 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
   const log = opts.log ?? ((line: string) => console.log(line));
   const aedes = await Aedes.createBroker({
     concurrency: opts.concurrency ?? 2000,
-    // A subscriber whose socket stays full this long is cut off (and its session kept).
-    drainTimeout: 30_000,
+    // A subscriber whose socket stays full this long is cut off (its session is kept). Long enough
+    // for the ingest worker, which stops reading on purpose while PostgreSQL is away: cutting it
+    // off would move the backlog into broker memory without any backpressure on the tanks.
+    drainTimeout: opts.drainTimeoutMs ?? 120_000,
     // Client ids: serial plus a suffix.
     maxClientsIdLength: 128,
     authenticate(client, username, password, done) {

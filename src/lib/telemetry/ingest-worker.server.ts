@@ -30,8 +30,10 @@ export interface IngestWorkerOptions {
   batchMaxReadings?: number;
   /** …or this long after its first message arrived. */
   batchMaxWaitMs?: number;
-  /** Messages held unacknowledged before the worker stops reading from the broker. */
+  /** Messages held unacknowledged before the worker stops reading from the broker… */
   bufferMaxMessages?: number;
+  /** …or payload bytes (backlog batches are large). */
+  bufferMaxBytes?: number;
   directory?: TankDirectory;
   log?: (line: string) => void;
 }
@@ -47,6 +49,7 @@ export class IngestWorker extends EventEmitter {
   private readonly directory: TankDirectory;
   private queue: Pending[] = [];
   private queuedReadings = 0;
+  private queuedBytes = 0;
   private flushing = false;
   private timer: NodeJS.Timeout | null = null;
   private epoch = 0;
@@ -56,7 +59,7 @@ export class IngestWorker extends EventEmitter {
   constructor(opts: IngestWorkerOptions) {
     super();
     this.o = {
-      clientId: INGEST_CLIENT_ID, batchMaxReadings: 2000, batchMaxWaitMs: 50, bufferMaxMessages: 20_000,
+      clientId: INGEST_CLIENT_ID, batchMaxReadings: 2000, batchMaxWaitMs: 50, bufferMaxMessages: 20_000, bufferMaxBytes: 64 * 1024 * 1024,
       log: (line) => console.log(line), ...opts,
     } as typeof this.o;
     this.writer = new TelemetryWriter(opts.pool);
@@ -104,11 +107,15 @@ export class IngestWorker extends EventEmitter {
   private receive(msg: InboundMessage): void {
     this.stats.messages++;
     this.queue.push({ msg, receivedAt: Date.now() });
-    // A batch message counts for what it holds; its exact count is known only once parsed.
-    this.queuedReadings += msg.payload.length > 4096 ? Math.ceil(msg.payload.length / 180) : 1;
-    if (this.queue.length >= this.o.bufferMaxMessages) this.consumer.pause();
+    this.queuedReadings += estimatedReadings(msg);
+    this.queuedBytes += msg.payload.length;
+    if (this.full()) this.consumer.pause();
     if (this.queuedReadings >= this.o.batchMaxReadings) void this.flush();
     else if (!this.timer) this.timer = setTimeout(() => { this.timer = null; void this.flush(); }, this.o.batchMaxWaitMs);
+  }
+
+  private full(fraction = 1): boolean {
+    return this.queue.length >= this.o.bufferMaxMessages * fraction || this.queuedBytes >= this.o.bufferMaxBytes * fraction;
   }
 
   /** The connection is gone: its messages will be redelivered, so forget them (never ack on a new connection). */
@@ -117,6 +124,7 @@ export class IngestWorker extends EventEmitter {
     if (this.queue.length) this.o.log(`[ingest] connection lost (${reason}); ${this.queue.length} unacknowledged messages will be redelivered`);
     this.queue = [];
     this.queuedReadings = 0;
+    this.queuedBytes = 0;
     this.consumer.resume();
   }
 
@@ -130,7 +138,7 @@ export class IngestWorker extends EventEmitter {
     let est = 0;
     while (take < this.queue.length && (take === 0 || est < this.o.batchMaxReadings)) {
       const m = this.queue[take++];
-      est += m.msg.payload.length > 4096 ? Math.ceil(m.msg.payload.length / 180) : 1;
+      est += estimatedReadings(m.msg);
     }
     const batch = this.queue.slice(0, take);
     let delay = 100;
@@ -144,6 +152,7 @@ export class IngestWorker extends EventEmitter {
           for (const p of batch) p.msg.ack();
           this.queue.splice(0, batch.length);
           this.queuedReadings = Math.max(0, this.queuedReadings - est);
+          this.queuedBytes = Math.max(0, this.queuedBytes - batch.reduce((n, p) => n + p.msg.payload.length, 0));
           this.stats.batches++;
           this.emit('committed', { ...info, ms: performance.now() - started, messages: batch.length, topics: batch.map((p) => p.msg.topic), payloads: batch.map((p) => p.msg.payload) } satisfies CommittedInfo);
           break;
@@ -156,7 +165,7 @@ export class IngestWorker extends EventEmitter {
       }
     } finally {
       this.flushing = false;
-      if (this.queue.length < this.o.bufferMaxMessages / 2) this.consumer.resume();
+      if (!this.full(0.5)) this.consumer.resume();
       if (this.queue.length > 0 && !this.stopped) {
         if (this.queuedReadings >= this.o.batchMaxReadings || epoch !== this.epoch) void this.flush();
         else if (!this.timer) this.timer = setTimeout(() => { this.timer = null; void this.flush(); }, this.o.batchMaxWaitMs);
@@ -229,6 +238,9 @@ export class IngestWorker extends EventEmitter {
     return { readings: items.length, inserted: result.inserted, duplicates: result.duplicates, deadLetters: dead.length };
   }
 }
+
+/** A batch message counts for what it holds (about 180 bytes a reading); its exact count is known only once parsed. */
+const estimatedReadings = (msg: InboundMessage) => (msg.payload.length > 4096 ? Math.ceil(msg.payload.length / 180) : 1);
 
 function deadLetter(tank: IngestTank, msg: InboundMessage, reasonCode: string, reason: string, fields: { field: string; message: string }[]): DeadLetterInput {
   return { tankId: tank.id, serial: tank.serial, transport: 'mqtt', topic: msg.topic, reasonCode, reason, fields, payload: msg.payload };
