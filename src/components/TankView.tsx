@@ -1,0 +1,144 @@
+import { useQuery } from '@tanstack/react-query';
+import { useEffect, useMemo, useState } from 'react';
+import { withQuery } from '../lib/query/provider';
+import { eventsQuery, exportUrl, readingsQuery, tankQuery } from '../lib/query/tanks.queries';
+import { temperatureColour } from '../lib/ui/temperature-scale';
+import { fmtAgo, fmtC, fmtL, fmtPct } from '../lib/views/format';
+import { heatSourceLabels } from '../lib/views/labels';
+import { rangeBounds, type RangeChoice } from '../lib/views/range';
+import { Heatmap } from './charts/Heatmap';
+import { LineChart, type LineSeries } from './charts/LineChart';
+import { TemperatureLegend } from './charts/TemperatureLegend';
+import { Timeline } from './charts/Timeline';
+import { tokens } from './charts/tokens';
+import { AnalysisPanel } from './tank/AnalysisPanel';
+import { CommissioningRecord } from './tank/CommissioningRecord';
+import { LayerReadout } from './tank/LayerReadout';
+import { RangePicker } from './tank/RangePicker';
+import { AttentionBadge } from './ui/AttentionBadge';
+import { Empty, ErrorNotice, Freshness, Loading, OfflineBanner } from './ui/States';
+import { useNow } from './ui/useOnline';
+
+const resolutionLabel = { raw: 'every reading', '15m': '15-minute means', '1h': 'hourly means' } as const;
+
+/** One tank in depth: layers over time, runs and draws, standing loss, legionella, commissioning. */
+function TankView({ tankId }: { tankId: string }) {
+  const now = useNow(10_000);
+  const [choice, setChoice] = useState<RangeChoice>({ preset: '24h' });
+  const bounds = rangeBounds(choice, now);
+  const live = choice.preset !== 'custom';
+  const tank = useQuery(tankQuery(tankId));
+  const readings = useQuery(readingsQuery(tankId, bounds.from, bounds.to, live));
+  const events = useQuery(eventsQuery(tankId, bounds.from, bounds.to, live));
+  const [selected, setSelected] = useState(-1);
+  const [follow, setFollow] = useState(true);
+  const n = readings.data?.t.length ?? 0;
+  useEffect(() => { if (follow || selected >= n) setSelected(n - 1); }, [n, follow, selected]);
+  const pick = (i: number) => { setSelected(i); setFollow(i === n - 1); };
+
+  const layerSeries = useMemo<LineSeries[]>(() => {
+    const s = readings.data;
+    if (!s) return [];
+    return s.layers.map((values, k) => ({ label: `S${k + 1}`, values, colour: temperatureColour(10 + (60 * k) / Math.max(1, s.layers.length - 1)), width: k === s.layers.length - 1 || k === 0 ? 2 : 1 }));
+  }, [readings.data]);
+  const chargeSeries = useMemo<LineSeries[]>(() => {
+    const s = readings.data;
+    if (!s) return [];
+    return [
+      { label: 'State of charge (%)', values: s.soc.map((x) => (x === null ? null : x * 100)), colour: tokens.tide.DEFAULT, width: 2 },
+      { label: 'V40 (L)', values: s.v40L, colour: tokens.kiln.DEFAULT, width: 2, scale: 'y2' },
+    ];
+  }, [readings.data]);
+
+  if (tank.isPending) return <Loading label="Loading the cylinder…" />;
+  if (tank.isError && !tank.data) return <ErrorNotice what="this cylinder" error={tank.error} onRetry={() => tank.refetch()} />;
+  const t = tank.data!;
+  const f = t.figures;
+  const layersNow = t.latest?.layersC ?? [];
+
+  return (
+    <div className="space-y-5">
+      <OfflineBanner updatedAt={tank.dataUpdatedAt} />
+      <header className="flex flex-wrap items-start gap-4">
+        <div className="mr-auto">
+          <p className="text-sm text-ink-muted"><a href="/tanks" className="underline-offset-2 hover:underline">Cylinders</a> /</p>
+          <h1 className="font-mono text-2xl font-semibold">{t.serial}</h1>
+          <p className="text-sm text-ink-soft">{t.model} · {heatSourceLabels[t.heatSource]}{t.home ? ` · ${t.home.reference}, ${t.home.addressLine}, ${t.home.town} ${t.home.postcode}` : ''}</p>
+        </div>
+        <Freshness updatedAt={tank.dataUpdatedAt} fetching={tank.isFetching} />
+      </header>
+
+      <section aria-label="Now" className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+        <div className="card">
+          <dl className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6">
+            {([
+              ['State of charge', fmtPct(f?.soc)], ['V40', fmtL(f?.v40L)], ['Stored heat', f ? `${f.storedKWh.toFixed(1)} kWh` : '—'],
+              ['MIX number', f ? f.mix.toFixed(2) : '—'], ['Thermocline', f?.thermoclineM !== null && f?.thermoclineM !== undefined ? `${f.thermoclineM.toFixed(2)} m` : '—'],
+              ['Last reading', fmtAgo(t.latest?.lastSeenAt, now)],
+            ] as const).map(([k, v]) => <div key={k}><dt className="text-xs text-ink-muted">{k}</dt><dd className="figure text-xl" data-figure={k}>{v}</dd></div>)}
+          </dl>
+          {!f && layersNow.length > 0 && <p className="mt-2 text-sm text-ochre">Figures need every sensor; at least one gives no reading.</p>}
+          <p className="mt-3 text-xs text-ink-muted">
+            Heat pump {t.latest?.compressor ? 'running' : 'off'} · immersion {(t.latest?.immersionW ?? 0) > 0 ? `on (${t.latest?.immersionW} W)` : 'off'} · flow {fmtC(t.latest?.flowC)} · return {fmtC(t.latest?.returnC)} · draw {t.latest?.drawLpm ?? 0} L/min
+          </p>
+        </div>
+        <div className="card">
+          <h2 className="text-sm font-semibold">{t.attention.length ? 'Needs attention' : 'No problems found'}</h2>
+          <ul className="mt-2 space-y-2">
+            {t.attention.map((a) => <li key={a.kind} className="text-sm"><AttentionBadge kind={a.kind} /> <span className="text-ink-soft">{a.detail}</span></li>)}
+          </ul>
+        </div>
+      </section>
+
+      <section aria-labelledby="layers-title" className="card min-w-0 space-y-4">
+        <div className="flex flex-wrap items-end gap-3">
+          <h2 id="layers-title" className="mr-auto text-lg font-semibold">Layers over time</h2>
+          <RangePicker value={choice} onChange={(c) => { setChoice(c); setFollow(true); }} bounds={bounds} />
+          <a className="btn-quiet" href={exportUrl(tankId, bounds.from, bounds.to)} download>Export CSV</a>
+        </div>
+        {readings.isPending ? <Loading label="Loading readings…" /> : readings.isError && !readings.data ? <ErrorNotice what="the readings" error={readings.error} onRetry={() => readings.refetch()} /> : readings.data && readings.data.t.length === 0 ? (
+          <Empty>No readings in this range.</Empty>
+        ) : readings.data ? (
+          <>
+            <p className="text-xs text-ink-muted">{readings.data.t.length.toLocaleString('en-GB')} points, {resolutionLabel[readings.data.resolution]}{readings.isFetching ? ' · updating…' : ''}</p>
+            <div className="grid gap-4 lg:grid-cols-[3fr_1fr]">
+              <div className="min-w-0">
+                <h3 className="sr-only">Stratification heatmap</h3>
+                <Heatmap s={readings.data} heightM={t.heightM} selected={selected} onIndex={pick} />
+                <TemperatureLegend />
+              </div>
+              <ol aria-label="Temperatures now, top first" className="min-w-0 space-y-0.5 text-sm">
+                {layersNow.map((_, k) => layersNow.length - 1 - k).map((k) => (
+                  <li key={k} className="flex items-center gap-2">
+                    <span aria-hidden="true" className="h-4 w-6 rounded-sm border border-line" style={{ background: layersNow[k] === null ? undefined : temperatureColour(layersNow[k]!) }} />
+                    <span className="text-ink-soft">Sensor {k + 1}</span><span className="figure ml-auto">{fmtC(layersNow[k])}</span>
+                  </li>
+                ))}
+              </ol>
+            </div>
+            <LayerReadout s={readings.data} index={selected} onIndex={pick} />
+            <div>
+              <h3 className="mb-1 text-sm font-semibold">Each sensor (°C)</h3>
+              <LineChart t={readings.data.t} from={bounds.from} to={bounds.to} series={layerSeries} yLabel="°C" />
+            </div>
+            <div>
+              <h3 className="mb-1 text-sm font-semibold">State of charge and V40</h3>
+              <LineChart t={readings.data.t} from={bounds.from} to={bounds.to} series={chargeSeries} yLabel="%" y2Label="L" yRange={[0, 100]} height={180} />
+            </div>
+          </>
+        ) : null}
+        <div>
+          <h3 className="mb-2 text-sm font-semibold">Runs, draws and commands</h3>
+          {events.isPending ? <Loading label="Loading runs and draws…" /> : events.isError && !events.data ? <ErrorNotice what="the runs and draws" error={events.error} onRetry={() => events.refetch()} /> : events.data ? (
+            events.data.items.length === 0 ? <Empty>No heat-pump runs, immersion runs, draws or commands in this range.</Empty> : <Timeline events={events.data} from={bounds.from} to={bounds.to} now={now} />
+          ) : null}
+        </div>
+      </section>
+
+      <AnalysisPanel t={t} />
+      <CommissioningRecord t={t} />
+    </div>
+  );
+}
+
+export default withQuery(TankView);
