@@ -35,8 +35,12 @@ export function demoDeviceToken(key: string, serial: string): string {
   return PREFIX + createHmac('sha256', key).update(serial, 'utf8').digest('base64url');
 }
 
-/** The MQTT username of Heatlayer's own processes (ingest worker, web). The colon keeps it out of the serial pattern. */
-export const SERVICE_USERNAME = 'heatlayer:service';
+/**
+ * The MQTT username of Heatlayer's own processes (ingest worker, web). The leading underscore
+ * keeps it out of the serial pattern (no tank can be called this) and is valid in a Mosquitto
+ * password file (a colon would not be).
+ */
+export const SERVICE_USERNAME = '_heatlayer-service';
 
 /** Password of the service account, derived from AUTH_SECRET unless MQTT_SERVICE_PASSWORD is set. */
 export function servicePassword(env: { AUTH_SECRET?: string; MQTT_SERVICE_PASSWORD?: string }): string {
