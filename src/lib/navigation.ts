@@ -6,6 +6,8 @@ export interface NavItem { href: string; label: string; roles: readonly Role[] }
 export const navItems: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
   { href: '/tanks', label: 'Cylinders', roles: ['admin', 'operator', 'engineer'] },
+  { href: '/commissioning', label: 'Commissioning', roles: ['admin', 'operator', 'engineer'] },
+  { href: '/service', label: 'Service', roles: ['admin', 'operator', 'engineer'] },
   { href: '/home', label: 'My hot water', roles: ['householder'] },
   { href: '/admin', label: 'Company', roles: ['admin'] },
 ];

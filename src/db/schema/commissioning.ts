@@ -78,8 +78,8 @@ export const commissioningAmendments = pgTable(
 );
 export type CommissioningAmendment = typeof commissioningAmendments.$inferSelect;
 
-export const visitKinds = ['annual_inspection', 'fault', 'repair', 'other'] as const;
-export type VisitKind = (typeof visitKinds)[number];
+import { visitKinds, type VisitKind } from '../../lib/commissioning/visit-kinds';
+export { visitKinds, type VisitKind };
 export const visitKindEnum = pgEnum('service_visit_kind', visitKinds);
 
 export interface VisitPart { name: string; quantity: number }

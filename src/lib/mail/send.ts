@@ -8,6 +8,8 @@ export interface OutgoingMail {
   html: string;
   /** The company the message is sent for; the captured-mail page shows an admin only their own. */
   companyId: string | null;
+  /** Files sent with the message (e.g. a commissioning record). */
+  attachments?: { filename: string; content: Buffer; contentType: string }[];
 }
 
 /** Header naming the company a message belongs to (an id, nothing secret). */
@@ -28,5 +30,6 @@ export async function sendMail(mail: OutgoingMail): Promise<void> {
     text: mail.text,
     html: mail.html,
     headers: mail.companyId ? { [companyHeader]: mail.companyId } : {},
+    attachments: mail.attachments,
   });
 }

@@ -35,6 +35,13 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/tanks': { GET: staff },
   '/tanks/[id]': { GET: staff },
   '/home': { GET: ['householder'] },
+  // commissioning, handover and service records
+  '/commissioning': { GET: staff },
+  '/commissioning/[id]': { GET: staff },
+  '/commissioning/import': { GET: ['admin'] },
+  '/admin/heat-pumps': { GET: ['admin'] },
+  '/service': { GET: staff },
+  '/service/tanks/[id]': { GET: staff },
   // endpoints
   '/api/health': { GET: 'public' },
   '/api/auth/[...auth]': { GET: 'public', POST: 'public' },
@@ -56,6 +63,22 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/tanks/[id]/events': { GET: staff },
   '/api/tanks/[id]/export.csv': { GET: staff },
   '/api/fleet/summary': { GET: desk },
+  '/api/commissioning': { GET: staff, POST: ['admin', 'engineer'] },
+  '/api/commissioning/[id]': { GET: staff, PATCH: ['admin', 'engineer'] },
+  '/api/commissioning/[id]/registration': { POST: ['admin', 'engineer'] },
+  '/api/commissioning/[id]/connection': { GET: staff },
+  '/api/commissioning/[id]/sign-off': { POST: ['admin', 'engineer'] },
+  '/api/commissioning/[id]/record.pdf': { GET: staff },
+  '/api/commissioning/[id]/amendments': { POST: ['admin', 'engineer'] },
+  '/api/commissioning/heat-pump-models': { GET: staff, POST: ['admin'] },
+  '/api/commissioning/heat-pump-models/[id]': { DELETE: ['admin'] },
+  '/api/uploads': { POST: staff },
+  '/api/uploads/[id]': { GET: everyone },
+  '/api/visits': { GET: staff, POST: staff },
+  '/api/visits/[id]': { GET: staff },
+  '/api/imports/installs': { POST: ['admin'] },
+  '/api/imports/installs/preview': { POST: ['admin'] },
+  '/api/imports/installs/template.csv': { GET: ['admin'] },
 };
 
 export { desk, everyone, staff };

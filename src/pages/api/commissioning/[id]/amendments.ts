@@ -1,0 +1,13 @@
+import { amend } from '../../../../lib/commissioning/flow.server';
+import { amendmentSchema } from '../../../../lib/commissioning/amendments';
+import { requireViewer } from '../../../../lib/server/authz';
+import { jsonBody } from '../../../../lib/server/body';
+import { endpoint } from '../../../../lib/server/endpoint';
+import { json } from '../../../../lib/server/http';
+
+/** Amends a signed record: { field, value, reason }; kept beside the original with who and when. */
+export const POST = endpoint(async ({ locals, params, request }) => {
+  const viewer = requireViewer(locals, ['admin', 'engineer']);
+  const input = await jsonBody(request, amendmentSchema);
+  return json({ amendment: await amend(viewer, params.id ?? '', input) }, 201);
+});

@@ -1,0 +1,21 @@
+import { findUploadInScope } from '../../../db/queries/commissioning';
+import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
+import { endpoint } from '../../../lib/server/endpoint';
+import { getObject } from '../../../lib/storage/objects.server';
+
+/** A stored photo or document; another company's (or another home's) is "not found". */
+export const GET = endpoint(async ({ locals, params }) => {
+  const viewer = requireViewer(locals);
+  const upload = await findUploadInScope(scopeOf(viewer), params.id ?? '');
+  if (!upload) throw new HttpError(404, 'NotFound', 'There is no such photo or document.');
+  const bytes = await getObject(upload.storageKey);
+  if (!bytes) throw new HttpError(404, 'NotFound', 'This file is no longer in storage.');
+  return new Response(new Uint8Array(bytes), {
+    headers: {
+      'content-type': upload.contentType,
+      'content-disposition': `inline; filename="${upload.filename.replace(/"/g, '')}"`,
+      'cache-control': 'private, max-age=3600',
+      'x-content-type-options': 'nosniff',
+    },
+  });
+});
