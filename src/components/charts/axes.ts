@@ -12,5 +12,12 @@ export function axis(extra: Partial<uPlot.Axis> = {}): uPlot.Axis {
 
 /** Time axis labels in the viewer's local time, day and month when the range spans days. */
 export const timeAxis = (spanMs: number): uPlot.Axis => axis({
-  values: (_u, splits) => splits.map((s) => new Date(s * 1000).toLocaleString('en-GB', spanMs > 10 * 86_400_000 ? { day: 'numeric', month: 'short' } : spanMs > 36 * 3_600_000 ? { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' } : { hour: '2-digit', minute: '2-digit' })),
+  // Ranges of a few days: the day above the time (uPlot draws "\n" as a second line).
+  values: (_u, splits) => splits.map((s) => {
+    const d = new Date(s * 1000);
+    const day = d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short' });
+    const time = d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
+    return spanMs > 10 * 86_400_000 ? day : spanMs > 36 * 3_600_000 ? `${day}\n${time}` : time;
+  }),
+  size: 44,
 });

@@ -86,9 +86,9 @@ async function computeSnapshot(scope: Scope): Promise<AttentionSnapshot> {
 }
 
 /** Kept this long before a request triggers a refresh (the views' live target is about 10 s). */
-const FRESH_MS = 5_000;
+const FRESH_MS = 10_000;
 /** Served while a refresh runs in the background, up to this age; older ones are waited for. */
-const STALE_MS = 30_000;
+const STALE_MS = 60_000;
 const snapshots = new Map<string, { snap?: AttentionSnapshot; pending?: Promise<AttentionSnapshot> }>();
 
 /** The attention snapshot of a scope: fresh, or stale while a refresh runs. */

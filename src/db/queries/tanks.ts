@@ -56,8 +56,7 @@ export async function listTanks(scope: Scope, q: TanksQuery): Promise<TankListRe
   const order = sql.join([sql`${sort.expr} ${sql.raw(dir)} nulls last`, sql`t.serial asc`], sql`, `);
   const res = await db().execute<ListRow>(sql`
     select t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
-      l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc, a.kinds,
-      count(*) over () as total
+      l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc, a.kinds, 0 as total
     from tanks t
     left join homes h on h.id = t.home_id
     left join tank_latest_state l on l.tank_id = t.id
@@ -67,16 +66,20 @@ export async function listTanks(scope: Scope, q: TanksQuery): Promise<TankListRe
     where ${sql.join(where, sql` and `)}
     order by ${order}
     limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`);
-  let total = res.rows.length > 0 ? Number(res.rows[0]!.total) : 0;
-  if (res.rows.length === 0 && q.page > 1) total = await countTanks(where, a);
+  // Counted apart from the page: a window count would make PostgreSQL build every row before the LIMIT.
+  const total = res.rows.length < q.pageSize && (q.page === 1 || res.rows.length > 0) ? (q.page - 1) * q.pageSize + res.rows.length : await countTanks(where, a, q);
   return { items: res.rows.map(toItem), total, page: q.page, pageSize: q.pageSize };
 }
 
-async function countTanks(where: SQL[], a: { ids: string; ranks: string; kinds: string }): Promise<number> {
+/** Tanks matching the filters; joins only what the filters read. */
+async function countTanks(where: SQL[], a: { ids: string; ranks: string; kinds: string }, q: TanksQuery): Promise<number> {
+  const homesJoin = q.q || q.town ? sql`left join homes h on h.id = t.home_id` : sql``;
+  const attentionJoin = q.status || q.alert
+    ? sql`left join unnest(string_to_array(${a.ids}, ',')::uuid[], string_to_array(${a.ranks}, ',')::int[], string_to_array(${a.kinds}, ','))
+      as a(tank_id, rank, kinds) on a.tank_id = t.id`
+    : sql``;
   const res = await db().execute<{ n: number }>(sql`
-    select count(*)::int as n from tanks t left join homes h on h.id = t.home_id
-    left join unnest(string_to_array(${a.ids}, ',')::uuid[], string_to_array(${a.ranks}, ',')::int[], string_to_array(${a.kinds}, ','))
-      as a(tank_id, rank, kinds) on a.tank_id = t.id
+    select count(*)::int as n from tanks t ${homesJoin} ${attentionJoin}
     where ${sql.join(where, sql` and `)}`);
   return res.rows[0]?.n ?? 0;
 }

@@ -1,0 +1,115 @@
+// `npm run bench:api`: seeds a 50,000-tank company in a throwaway PostgreSQL and prints p50/p95 and
+// answer sizes of the tank list (GET /api/tanks) and of a 7-day readings call, measured on the
+// handlers' query and shaping code (no HTTP, no sign-in), plus the cold fleet-attention snapshot.
+// Figures only: nothing here passes or fails.
+import { loadavg } from 'node:os';
+import { gzipSync } from 'node:zlib';
+import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
+
+const TANKS = Number(process.env.BENCH_TANKS ?? 50_000);
+const RUNS = Number(process.env.BENCH_RUNS ?? 40);
+const PORT = Number(process.env.BENCH_PG_PORT ?? 55790);
+
+const pct = (xs: number[], p: number) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
+async function time<T>(fn: () => Promise<T>): Promise<[number, T]> { const t = performance.now(); const r = await fn(); return [performance.now() - t, r]; }
+
+async function main() {
+  const server = await startPostgres({ port: PORT, dataDir: defaultDataDir(PORT, true), fresh: true });
+  process.env.DATABASE_URL = server.url;
+  try {
+    const { runMigrations } = await import('../../scripts/migrate');
+    await runMigrations();
+    const { db, closeDb } = await import('../../src/db');
+    const { sql } = await import('drizzle-orm');
+    const { listTanks } = await import('../../src/db/queries/tanks');
+    const { attentionSnapshot, clearAttentionSnapshots } = await import('../../src/db/queries/fleet');
+    const { readingsInRange } = await import('../../src/db/queries/readings');
+    const { toSeries } = await import('../../src/lib/views/series');
+    const { tanksQuerySchema } = await import('../../src/lib/views/contracts');
+    const d = db();
+
+    const seedStart = performance.now();
+    const [{ id: companyId }] = (await d.execute<{ id: string }>(sql`insert into companies (slug, name, email_domain) values ('bench', 'Bench Fleet', 'bench.example.com') returning id`)).rows;
+    await d.execute(sql`
+      insert into homes (company_id, reference, address_line, town, postcode)
+      select ${companyId}, 'BH-' || g, g || ' Bench Street', (array['Ashby Wend','Larkholt','Cobbmere','Tarnfield'])[1 + g % 4], 'WM1 1AA'
+      from generate_series(1, ${TANKS}) g`);
+    await d.execute(sql`
+      insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w)
+      select ${companyId}, h.id, 'BN-' || lpad(substr(h.reference, 4), 6, '0'), 'C210 cylinder', 210, 1.4, 12,
+        (case when random() < 0.1 then 'immersion_only' else 'hp_plate' end)::heat_source, 6000
+      from homes h where h.company_id = ${companyId}`);
+    // Latest state: 2 % silent, 1 % with an open sensor, the rest reporting a stratified column.
+    await d.execute(sql`
+      insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, soc, v40_l, online, compressor, immersion_w)
+      select t.id, now() - interval '1 minute', case when random() < 0.02 then now() - interval '3 hours' else now() - interval '1 minute' end,
+        case when random() < 0.01 then array[1500,2000,null,3000,3500,4000,4500,5000,5200,5400,5500,5600]::smallint[]
+             else array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[] end,
+        random(), 40 + random() * 200, true, false, 0
+      from tanks t where t.company_id = ${companyId}`);
+    // A day of compressor runs per tank, one start about every 3 h (some tanks every 40 min: short cycles).
+    await d.execute(sql`
+      insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, complete)
+      select t.id, 'compressor_run', now() - (k * case when (hashtext(t.id::text) % 50) = 0 then interval '40 minutes' else interval '3 hours' end),
+        now() - (k * case when (hashtext(t.id::text) % 50) = 0 then interval '40 minutes' else interval '3 hours' end) + interval '20 minutes', 500, true
+      from tanks t, generate_series(1, 8) k where t.company_id = ${companyId}`);
+    // One tank with 7 days of raw readings and 15-minute rollups for the readings call.
+    const [{ id: tankId }] = (await d.execute<{ id: string }>(sql`select id from tanks where company_id = ${companyId} order by serial limit 1`)).rows;
+    await d.execute(sql`
+      insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, draw_dlpm)
+      select ${tankId}, ts, array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[], extract(minute from ts) < 10, 0, 0
+      from generate_series(now() - interval '7 days', now(), interval '1 minute') ts`);
+    await d.execute(sql`
+      insert into rollups_15m (tank_id, bucket, samples, layers_avg_cc, top_min_cc, top_max_cc, compressor_samples, immersion_samples)
+      select ${tankId}, b, 15, array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[], 5500, 5700, 5, 0
+      from generate_series(date_trunc('hour', now()) - interval '7 days', now(), interval '15 minutes') b`);
+    await d.execute(sql`analyze`);
+    console.log(`seeded ${TANKS.toLocaleString('en-GB')} tanks, ${(8 * TANKS).toLocaleString('en-GB')} compressor runs and 7 days of one tank in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`);
+
+    console.log(`load average ${loadavg().map((x) => x.toFixed(1)).join(' / ')} on a shared machine: read the figures against it`);
+    const scope = { companyId, homeIds: null };
+    const cold: number[] = [];
+    for (let i = 0; i < 5; i++) { clearAttentionSnapshots(); cold.push((await time(() => attentionSnapshot(scope)))[0]); }
+    console.log(`attention snapshot (cold, every tank): p50 ${pct(cold, 50).toFixed(0)} ms, max ${Math.max(...cold).toFixed(0)} ms — kept 10 s, served stale up to 60 s while it refreshes`);
+
+    const cases: [string, Record<string, string>][] = [
+      ['first page, ranked by attention', {}],
+      ['page 40 by serial', { sort: 'serial', page: '40' }],
+      ['filter short-cycling', { alert: 'short_cycling' }],
+      ['free text + town', { q: 'BN-0012', town: 'Larkholt' }],
+      ['sort by V40, 100 a page', { sort: 'v40', pageSize: '100' }],
+    ];
+    await attentionSnapshot(scope);
+    for (const [name, qs] of cases) {
+      const q = tanksQuerySchema.parse(qs);
+      const ms: number[] = [];
+      let bytes = 0;
+      let total = 0;
+      for (let i = 0; i < RUNS; i++) {
+        const [t, body] = await time(async () => JSON.stringify(await listTanks(scope, q)));
+        ms.push(t);
+        bytes = Buffer.byteLength(body);
+        total = JSON.parse(body).total;
+      }
+      console.log(`GET /api/tanks ${name.padEnd(34)} p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${bytes.toLocaleString('en-GB')} B (${total.toLocaleString('en-GB')} matching)`);
+    }
+    const tank = { id: tankId, volumeL: 210, heightM: 1.4, targetC: 55, sensorCount: 12, positionsM: Array.from({ length: 12 }, (_, i) => ((i + 0.5) / 12) * 1.4) };
+    for (const resolution of ['15m', 'raw'] as const) {
+      const to = new Date();
+      const from = new Date(to.getTime() - 7 * 86_400_000);
+      const ms: number[] = [];
+      let body = '';
+      for (let i = 0; i < Math.min(RUNS, 15); i++) {
+        const [t, b] = await time(async () => JSON.stringify(toSeries(await readingsInRange(tankId, from, to, resolution), tank, { from, to, resolution })));
+        ms.push(t);
+        body = b;
+      }
+      console.log(`GET /api/tanks/{id}/readings 7 days, ${resolution.padEnd(3)}        p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B (${gzipSync(body).length.toLocaleString('en-GB')} B gzipped), ${JSON.parse(body).t.length.toLocaleString('en-GB')} points`);
+    }
+    await closeDb();
+  } finally {
+    stopPostgres(server.dataDir);
+  }
+}
+
+main().catch((err) => { console.error(err); process.exitCode = 1; });
