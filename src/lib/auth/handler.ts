@@ -29,7 +29,8 @@ export async function csrfTokenFor(context: Pick<APIContext, 'request' | 'url' |
     const eq = pair.indexOf('=');
     const name = pair.slice(0, eq).trim();
     if (!name.endsWith('authjs.csrf-token')) continue;
-    context.cookies.set(name, pair.slice(eq + 1), {
+    // Auth.js wrote the value URL-encoded; Astro encodes again on the way out, so decode it first.
+    context.cookies.set(name, decodeURIComponent(pair.slice(eq + 1)), {
       path: '/', httpOnly: true, sameSite: 'lax', secure: attrs.some((a) => a.trim().toLowerCase() === 'secure'),
     });
   }
