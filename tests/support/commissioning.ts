@@ -47,3 +47,60 @@ export function installRow(overrides: Partial<Record<string, string>> = {}): str
   };
   return installsHeader.split(',').map((c) => v[c] ?? '').join(',');
 }
+
+// ---- driving the commissioning API over HTTP ----
+
+export interface Api { base: string; cookie: string }
+
+export async function call(api: Api, method: string, path: string, body?: unknown): Promise<{ status: number; body: any }> {
+  const res = await fetch(`${api.base}${path}`, {
+    method, headers: { origin: api.base, cookie: api.cookie, ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
+    body: body !== undefined ? JSON.stringify(body) : undefined,
+  });
+  const text = await res.text();
+  let parsed: unknown = text;
+  try { parsed = JSON.parse(text); } catch { /* not JSON */ }
+  return { status: res.status, body: parsed };
+}
+
+/** Answers for every step of a new install (invented demo data, a fresh serial). */
+export function sampleAnswers(tag = randomUUID().slice(0, 8).toUpperCase()) {
+  return {
+    home: { addressLine: `${Math.floor(Math.random() * 90) + 10} Tarn Walk`, town: 'Tarnfield', postcode: 'WM7 4RT', occupants: '3', contactName: 'Jo Example', contactEmail: `jo-${tag.toLowerCase()}@example.com` },
+    cylinder: { serial: `C210-IT-${tag}`, model: 'C210 cylinder', volumeL: '210', heightM: '1.6', sensorCount: '6', exchanger: 'plate_ports', immersionW: '3000', declaredLossW: '1.6' },
+    heat_source: { heatSource: 'hp_plate', hpOutputW: '8000', ntcR25Ohm: '10000', ntcBetaK: '3977', callC: '6', satisfiedC: '47' },
+    target: { targetC: '60', hysteresisK: '5' },
+    controls: { externalControl: 'none' },
+    safety: { expansion: true, reliefValve: true, discharge: true, reducingValve: true, isolation: true, competentPerson: true },
+    signoff: { householderEmail: `jo-${tag.toLowerCase()}@example.com` },
+  };
+}
+
+/** A reading as a tank sends it over HTTP ingest (layers bottom to top, °C). */
+export async function sendReading(base: string, token: string, layersC: number[]): Promise<Response> {
+  return fetch(`${base}/api/ingest`, {
+    method: 'POST', headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+    body: JSON.stringify({ ts: new Date().toISOString(), layersC, compressor: false }),
+  });
+}
+
+/** Runs a whole commissioning through the API: every step, registration, first reading, sign-off. */
+export async function commissionOverHttp(api: Api, answers = sampleAnswers()): Promise<{ id: string; tankId: string; token: string; signOff: { status: number; body: any } }> {
+  const created = await call(api, 'POST', '/api/commissioning', {});
+  if (created.status !== 201) throw new Error(`POST /api/commissioning answered ${created.status}: ${JSON.stringify(created.body)}`);
+  const id = created.body.id as string;
+  for (const step of ['home', 'cylinder', 'heat_source', 'target', 'controls'] as const) {
+    const r = await call(api, 'PATCH', `/api/commissioning/${id}`, { step, values: answers[step] });
+    if (r.status !== 200) throw new Error(`Saving ${step} answered ${r.status}: ${JSON.stringify(r.body)}`);
+  }
+  const reg = await call(api, 'POST', `/api/commissioning/${id}/registration`, {});
+  if (reg.status !== 201) throw new Error(`Registration answered ${reg.status}: ${JSON.stringify(reg.body)}`);
+  const ingest = await sendReading(api.base, reg.body.token, [15, 22, 35, 48, 55, 58]);
+  if (ingest.status !== 202) throw new Error(`Ingest answered ${ingest.status}: ${await ingest.text()}`);
+  for (const step of ['safety', 'signoff'] as const) {
+    const r = await call(api, 'PATCH', `/api/commissioning/${id}`, { step, values: answers[step] });
+    if (r.status !== 200) throw new Error(`Saving ${step} answered ${r.status}: ${JSON.stringify(r.body)}`);
+  }
+  const signOff = await call(api, 'POST', `/api/commissioning/${id}/sign-off`, {});
+  return { id, tankId: reg.body.tankId, token: reg.body.token, signOff };
+}

@@ -80,8 +80,8 @@ function Wizard(props: Props) {
   }
 
   return (
-    <div className="grid gap-6 lg:grid-cols-[16rem_1fr]">
-      <nav aria-label="Commissioning steps">
+    <div className="grid gap-6 lg:grid-cols-[16rem_minmax(0,1fr)]">
+      <nav aria-label="Commissioning steps" className="min-w-0">
         <ol className="flex gap-1 overflow-x-auto text-sm lg:flex-col">
           {stepIds.map((s, i) => (
             <li key={s}>
@@ -94,7 +94,7 @@ function Wizard(props: Props) {
         </ol>
       </nav>
 
-      <form method="post" className="card space-y-5" noValidate onSubmit={(e) => { e.preventDefault(); if (step === 'signoff') void signOff(); else void save(); }}>
+      <form method="post" className="card min-w-0 space-y-5" noValidate onSubmit={(e) => { e.preventDefault(); if (step === 'signoff') void signOff(); else void save(); }}>
         <header>
           <p className="text-sm text-ink-muted">Step {index + 1} of {stepIds.length} · saved as a draft at every step</p>
           <h2 className="text-xl font-semibold">{stepTitles[step]}</h2>

@@ -13,7 +13,9 @@ import { HttpError, scopeOf } from '../server/authz';
 import type { Viewer } from '../server/viewer';
 import { getObject, putObject } from '../storage/objects.server';
 import { generateDeviceToken, hashDeviceToken } from '../telemetry/device-token';
-import { topicFor } from '../telemetry/wire';
+import { ingestDirectory } from '../telemetry/http-ingest.server';
+import { publishAsService } from '../telemetry/service-client.server';
+import { CREDENTIALS_ROTATED_TOPIC, topicFor } from '../telemetry/wire';
 import { amendableFields, amendedAnswers, fieldValue, type AmendableFieldId } from './amendments';
 import { handoverMail } from './handover-mail';
 import { recordView, type SignedRecord } from './record';
@@ -75,6 +77,13 @@ export async function registerForConnection(viewer: Viewer, id: string) {
     throw r.reason === 'locked' ? locked() : notFound();
   }
   const serial = v.answers.cylinder!.serial;
+  if (row.tankId) {
+    // A new token for a tank that had one: forget the old one here and end its broker sessions.
+    ingestDirectory().clear();
+    await publishAsService(CREDENTIALS_ROTATED_TOPIC, serial).catch((err) => {
+      console.error(`[commissioning] could not tell the broker that ${serial}'s token changed:`, err instanceof Error ? err.message : err);
+    });
+  }
   return {
     tankId: r.tankId, serial, token,
     notice: 'Enter this device token in the cylinder’s controller now: it is shown only once.',
@@ -151,7 +160,8 @@ async function finishHandover(viewer: Viewer, row: Commissioning): Promise<void>
 /** The stored PDF of a signed record, or null. */
 export async function recordPdf(viewer: Viewer, id: string): Promise<{ bytes: Buffer; serial: string } | null> {
   const row = await loadCommissioning(viewer, id);
-  if (row.status !== 'signed' || !row.pdfKey) return null;
+  if (row.status !== 'signed') throw new HttpError(409, 'NotSigned', 'This record is still a draft: its PDF is made when it is signed off.');
+  if (!row.pdfKey) return null;
   const bytes = await getObject(row.pdfKey);
   return bytes ? { bytes, serial: (row.record as unknown as SignedRecord).serial } : null;
 }

@@ -46,6 +46,7 @@ const targetsOf: Record<SampleKind, Target[]> = {
   spareTank: ['ownHome', 'otherHome', 'otherCompany'],
   invitation: ['ownCompany', 'otherCompany'],
   member: ['ownCompany', 'otherCompany'],
+  commissioning: ['ownCompany', 'otherCompany'],
 };
 
 const cookies = new Map<ViewerKey, string>();
@@ -76,6 +77,10 @@ async function sample(kind: SampleKind, target: Target): Promise<string> {
       return t.id;
     }
     case 'member': return (await createAccount({ company: companyOf(target), role: 'engineer', password: null, label: 'matrix' }) as TestAccount).id;
+    case 'commissioning': {
+      const [c] = await query<{ id: string }>('insert into commissionings (company_id) values ($1) returning id', [await companyId(companyOf(target))]);
+      return c.id;
+    }
     case 'invitation': {
       const [i] = await query<{ id: string }>(`insert into invitations (company_id, email, role, token_hash, expires_at)
         values ($1, $2, 'engineer', $3, now() + interval '1 day') returning id`, [await companyId(companyOf(target)), `matrix-${randomUUID()}@example.com`, randomUUID()]);

@@ -11,7 +11,7 @@
 import type { Role } from '../../../src/db/schema/companies';
 
 // tank: a seeded tank of the home; spareTank: a fresh tank in that home (for routes that change it).
-export type SampleKind = 'home' | 'tank' | 'spareTank' | 'invitation' | 'member';
+export type SampleKind = 'home' | 'tank' | 'spareTank' | 'invitation' | 'member' | 'commissioning';
 export type Who = 'anyone' | 'signedIn' | 'device' | readonly Role[];
 export interface MethodExpectation { who: Who; scope?: 'company' | 'home'; body?: unknown; ok?: readonly number[] }
 export type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -65,4 +65,28 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/tanks/[id]/export.csv': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/api/tanks/[id]/commands': { params: { id: 'spareTank' }, methods: { GET: { who: everyone, scope: 'home' }, POST: { who: everyone, scope: 'home' } } },
   '/api/tanks/[id]/device-token': { params: { id: 'spareTank' }, methods: { POST: { who: admin, scope: 'home' } } },
+
+  // commissioning, handover and service records (ids that name nothing answer 404 to those let in)
+  '/commissioning': { methods: { GET: { who: staff } } },
+  '/commissioning/[id]': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' } } },
+  '/commissioning/import': { methods: { GET: { who: admin } } },
+  '/admin/heat-pumps': { methods: { GET: { who: admin } } },
+  '/service': { methods: { GET: { who: staff } } },
+  '/service/tanks/[id]': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
+  '/api/commissioning': { methods: { GET: { who: staff }, POST: { who: ['admin', 'engineer'] } } },
+  '/api/commissioning/[id]': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' }, PATCH: { who: ['admin', 'engineer'], scope: 'company' } } },
+  '/api/commissioning/[id]/registration': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
+  '/api/commissioning/[id]/connection': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' } } },
+  '/api/commissioning/[id]/sign-off': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
+  '/api/commissioning/[id]/record.pdf': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' } } },
+  '/api/commissioning/[id]/amendments': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
+  '/api/commissioning/heat-pump-models': { methods: { GET: { who: staff }, POST: { who: admin } } },
+  '/api/commissioning/heat-pump-models/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { DELETE: { who: admin, ok: [404] } } },
+  '/api/uploads': { methods: { POST: { who: staff } } },
+  '/api/uploads/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: everyone, ok: [404] } } },
+  '/api/visits': { methods: { GET: { who: staff }, POST: { who: staff } } },
+  '/api/visits/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: staff, ok: [404] } } },
+  '/api/imports/installs': { methods: { POST: { who: admin } } },
+  '/api/imports/installs/preview': { methods: { POST: { who: admin } } },
+  '/api/imports/installs/template.csv': { methods: { GET: { who: admin } } },
 };

@@ -1,0 +1,65 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { baseUrl } from '../../support/browser';
+import { closeTestDb, query } from '../../support/db';
+import { signInAs } from '../../support/session';
+import { call, commissionOverHttp, jpegPhoto, type Api } from '../../support/commissioning';
+
+let engineer: Api;
+let orrin: Api;
+let tankId: string;
+beforeAll(async () => {
+  engineer = { base: baseUrl(), cookie: await signInAs(baseUrl(), 'engineer', 'kestrel-vale') };
+  orrin = { base: baseUrl(), cookie: await signInAs(baseUrl(), 'engineer', 'orrin-bay') };
+  const c = await commissionOverHttp(engineer);
+  if (c.signOff.status !== 200) throw new Error(JSON.stringify(c.signOff.body));
+  tankId = c.tankId;
+});
+afterAll(closeTestDb);
+
+const dueSerials = async (api: Api) => (await call(api, 'GET', '/api/visits?withinDays=30')).body.due as { tankId: string; state: string; dueAt: string }[];
+
+describe('service visits', () => {
+  it('lists a tank for its annual inspection a year after commissioning, then after its last inspection', async () => {
+    // Annual inspection of unvented cylinders (common practice).
+    expect((await dueSerials(engineer)).some((d) => d.tankId === tankId)).toBe(false);
+    await query("update tanks set commissioned_at = now() - interval '13 months' where id = $1", [tankId]);
+    await query("update commissionings set signed_at = now() - interval '13 months' where tank_id = $1", [tankId]);
+    const due = (await dueSerials(engineer)).find((d) => d.tankId === tankId);
+    expect(due?.state).toBe('overdue');
+    // Another company's desk does not see it.
+    expect((await dueSerials(orrin)).some((d) => d.tankId === tankId)).toBe(false);
+
+    const form = new FormData();
+    form.set('file', new Blob([new Uint8Array(await jpegPhoto(800, 600))], { type: 'image/jpeg' }), 'relief-valve.jpg');
+    form.set('tankId', tankId);
+    const up = await (await fetch(`${baseUrl()}/api/uploads`, { method: 'POST', headers: { origin: baseUrl(), cookie: engineer.cookie }, body: form })).json();
+
+    const visit = await call(engineer, 'POST', '/api/visits', {
+      tankId, kind: 'annual_inspection', visitedAt: new Date().toISOString(), findings: 'Relief valve operated and reseated; vessel recharged.',
+      parts: [{ name: 'anode', quantity: 1 }], readings: { topC: '58.5', inletPressureBar: '3.0', vesselPrechargeBar: '3.0', reliefValveTested: true },
+      resolvedAlerts: ['low pressure'], uploadIds: [up.upload.id],
+    });
+    expect(visit.status).toBe(201);
+    expect(visit.body.visit.readings).toMatchObject({ topC: 58.5, reliefValveTested: true, telemetryLayersC: [15, 22, 35, 48, 55, 58] });
+    const [photo] = await query<{ visit_id: string }>('select visit_id from uploads where id = $1', [up.upload.id]);
+    expect(photo.visit_id).toBe(visit.body.visit.id);
+    expect((await dueSerials(engineer)).some((d) => d.tankId === tankId)).toBe(false);
+
+    const page = await fetch(`${baseUrl()}/service/tanks/${tankId}`, { headers: { cookie: engineer.cookie } });
+    const html = await page.text();
+    expect(html).toContain('Relief valve operated and reseated');
+    expect(html).toContain('1 × anode');
+    expect(html).toContain('Commissioned');
+    expect((await fetch(`${baseUrl()}/service/tanks/${tankId}`, { headers: { cookie: orrin.cookie } })).status).toBe(404);
+  });
+
+  it('refuses a visit with bad readings naming the field, and stores nothing', async () => {
+    const before = (await query('select id from service_visits where tank_id = $1', [tankId])).length;
+    const r = await call(engineer, 'POST', '/api/visits', { tankId, kind: 'fault', visitedAt: new Date().toISOString(), findings: 'No hot water', readings: { inletPressureBar: '40' } });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields).toEqual([{ field: 'readings.inletPressureBar', message: 'The incoming pressure must be at most 16 bar.' }]);
+    expect((await query('select id from service_visits where tank_id = $1', [tankId])).length).toBe(before);
+    const foreign = await call(orrin, 'POST', '/api/visits', { tankId, kind: 'fault', visitedAt: new Date().toISOString(), findings: 'No hot water' });
+    expect(foreign.status).toBe(404);
+  });
+});
