@@ -11,6 +11,8 @@ const extraHosts = (process.env.ALLOWED_HOSTS ?? '').split(',').map((h) => h.tri
 
 export default defineConfig({
   output: 'server',
+  // Parallel test runs on other port blocks build into their own folder (scripts/lib/build.ts).
+  outDir: process.env.HEATLAYER_BUILD_DIR || './dist',
   adapter: node({ mode: 'standalone' }),
   integrations: [react(), tailwind({ applyBaseStyles: false })],
   security: {

@@ -16,6 +16,9 @@ interface VitestJson { numPassedTests: number; numFailedTests: number; numPendin
 
 async function main(): Promise<number> {
   const c = testConfig();
+  // A run on another port block (beside the default one) builds into a folder of its own, so that
+  // one run rebuilding never pulls the files from under another run's web server.
+  if (c.pgPort !== 55400 && !process.env.HEATLAYER_BUILD_DIR) process.env.HEATLAYER_BUILD_DIR = join(root, '.data', `build-${c.pgPort}`);
   rmSync(c.dataDir, { recursive: true, force: true });
   mkdirSync(c.dataDir, { recursive: true });
   const pgServer = await prepare(c, { throwaway: true });

@@ -17,12 +17,17 @@ function hashTree(path: string, h: ReturnType<typeof createHash>): void {
   }
 }
 
+/** Where the build lives: dist/, or a folder of its own for a test run on another port block. */
+export function buildDir(): string {
+  return process.env.HEATLAYER_BUILD_DIR || join(root, 'dist');
+}
+
 export function ensureBuild(): void {
   const h = createHash('sha256');
   for (const i of inputs) hashTree(join(root, i), h);
   const digest = h.digest('hex');
-  const marker = join(root, 'dist', '.heatlayer-build-hash');
-  if (existsSync(marker) && readFileSync(marker, 'utf8') === digest && existsSync(join(root, 'dist/server/entry.mjs'))) return;
+  const marker = join(buildDir(), '.heatlayer-build-hash');
+  if (existsSync(marker) && readFileSync(marker, 'utf8') === digest && existsSync(join(buildDir(), 'server/entry.mjs'))) return;
   console.log('[build] building the web app…');
   const r = spawnSync('npx', ['astro', 'build'], { cwd: root, stdio: 'inherit' });
   if (r.status !== 0) throw new Error('astro build failed; see the output above.');

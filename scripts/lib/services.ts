@@ -1,5 +1,7 @@
 // The product's long-running processes, in start order. Each later part of the product adds its
 // process here once; `npm start` runs them all, `npm test` the ones its tests need.
+import { join } from 'node:path';
+import { buildDir } from './build';
 import type { RunConfig } from './config';
 import { createConnection } from 'node:net';
 import { httpOk, waitFor, type ServiceSpec } from './processes';
@@ -42,7 +44,7 @@ export function webService(c: RunConfig): ServiceSpec {
   return {
     name: 'web',
     command: process.execPath,
-    args: ['dist/server/entry.mjs'],
+    args: [join(buildDir(), 'server/entry.mjs')],
     ready: () => waitFor('The web server', () => httpOk(`http://127.0.0.1:${c.webPort}/api/health`)),
   };
 }
@@ -75,5 +77,6 @@ export function productServices(c: RunConfig): ServiceSpec[] {
 /** The processes the test suite needs running beside it. */
 export function testServices(c: RunConfig): ServiceSpec[] {
   // TRUST_PROXY: tests act as several client addresses through X-Forwarded-For (sign-in throttle).
-  return [...fakeMail(c), ...fakeS3(c), brokerService(c), ingestService(c), { ...webService(c), env: { TRUST_PROXY: '1' } }];
+  // ALERTS_CLOCK_MS=0: alert tests run the alert clock on simulated time themselves.
+  return [...fakeMail(c), ...fakeS3(c), brokerService(c), { ...ingestService(c), env: { ALERTS_CLOCK_MS: '0' } }, { ...webService(c), env: { TRUST_PROXY: '1' } }];
 }
