@@ -1,7 +1,7 @@
 // The engineer's commissioning wizard: one step at a time, saved as a draft at every step so it
 // can be left and resumed (on another device too); the server validates every save.
 import { useQuery } from '@tanstack/react-query';
-import { useCallback, useState } from 'react';
+import { useCallback, useEffect, useState } from 'react';
 import { LEGIONELLA_GUIDANCE, SCALD_CAUTION, UNVENTED_CAUTION, ELECTRICAL_CAUTION } from '../../lib/commissioning/cautions';
 import {
   exchangerLabels, exchangers, heatSourceKinds, heatSourceLabels, isHeatPump, LEGIONELLA_STORE_C, safetyItems, stepIds, stepTitles, type HeatSourceKind, type StepId,
@@ -34,7 +34,10 @@ function Wizard(props: Props) {
   const [busy, setBusy] = useState(false);
   const [received, setReceived] = useState(props.received);
   const [signed, setSigned] = useState<{ pdf: string } | null>(null);
+  const [uploads, setUploads] = useState<UploadItem[]>(props.uploads);
 
+  // On a phone the step list scrolls sideways: keep the current step in view.
+  useEffect(() => { document.querySelector('[aria-current="step"]')?.scrollIntoView({ block: 'nearest', inline: 'center' }); }, [step]);
   const change = useCallback((name: string, value: unknown) => setValues((v) => ({ ...v, [name]: value })), []);
   const go = (to: StepId) => { setStep(to); setValues({ ...defaults(to, data), ...data[to] }); setErrors({}); setProblem(null); window.scrollTo?.(0, 0); };
 
@@ -144,8 +147,8 @@ function Wizard(props: Props) {
                   }} />
                 <div className="grid gap-4 sm:grid-cols-3">
                   <Field name="hpOutputW" label="Heat pump output" unit="W" type="number" {...f} />
-                  <Field name="ntcR25Ohm" label="Sensor input: R at 25 °C" unit="Ω" type="number" {...f} />
-                  <Field name="ntcBetaK" label="Sensor input: B value" unit="K" type="number" {...f} />
+                  <Field name="ntcR25Ohm" label="Sensor input: R at 25 °C" unit="Ω" type="number" readOnly={!!values.heatPumpModelId} {...f} />
+                  <Field name="ntcBetaK" label="Sensor input: B value" unit="K" type="number" readOnly={!!values.heatPumpModelId} {...f} />
                   <Field name="callC" label="Heat pump should read, to heat" unit="°C" type="number" hint="Well below the heat pump’s own hot-water start point." {...f} />
                   <Field name="satisfiedC" label="Heat pump should read, when satisfied" unit="°C" type="number" hint="Above the heat pump’s own hot-water stop point." {...f} />
                 </div>
@@ -193,7 +196,7 @@ function Wizard(props: Props) {
           </div>
         )}
 
-        {step === 'photos' && <UploadPanel target={{ commissioningId: props.id }} initial={props.uploads} />}
+        {step === 'photos' && <UploadPanel target={{ commissioningId: props.id }} initial={uploads} onChange={setUploads} />}
 
         {step === 'signoff' && (
           <div className="space-y-4">

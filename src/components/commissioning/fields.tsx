@@ -17,12 +17,13 @@ interface FieldProps {
   step?: string;
   inputMode?: 'numeric' | 'decimal' | 'text' | 'email' | 'tel';
   autoComplete?: string;
+  readOnly?: boolean;
 }
 
 const idOf = (name: string) => `f-${name.replace(/\W+/g, '-')}`;
 const str = (v: unknown) => (v === undefined || v === null ? '' : Array.isArray(v) ? v.join(', ') : String(v));
 
-export function Field({ name, label, values, errors, onChange, type = 'text', hint, unit, step, inputMode, autoComplete }: FieldProps) {
+export function Field({ name, label, values, errors, onChange, type = 'text', hint, unit, step, inputMode, autoComplete, readOnly }: FieldProps) {
   const id = idOf(name);
   const err = errors[name];
   const described = [hint ? `${id}-hint` : '', err ? `${id}-error` : ''].filter(Boolean).join(' ') || undefined;
@@ -30,8 +31,8 @@ export function Field({ name, label, values, errors, onChange, type = 'text', hi
     <div>
       <label htmlFor={id} className="label">{label}{unit && <span className="font-normal text-ink-muted"> ({unit})</span>}</label>
       <input id={id} name={name} type={type === 'number' ? 'text' : type} inputMode={inputMode ?? (type === 'number' ? 'decimal' : undefined)} step={step}
-        autoComplete={autoComplete} value={str(values[name])} onChange={(e) => onChange(name, e.target.value)}
-        aria-invalid={!!err} aria-describedby={described} className={`field ${err ? 'border-brick' : ''}`} />
+        autoComplete={autoComplete} readOnly={readOnly} value={str(values[name])} onChange={(e) => onChange(name, e.target.value)}
+        aria-invalid={!!err} aria-describedby={described} className={`field ${err ? 'border-brick' : ''} ${readOnly ? 'bg-paper-sunk' : ''}`} />
       {hint && <p id={`${id}-hint`} className="mt-1 text-xs text-ink-muted">{hint}</p>}
       {err && <p id={`${id}-error`} className="mt-1 text-sm text-brick">{err}</p>}
     </div>

@@ -28,6 +28,8 @@ const saveSchema = z.object({
 /** Saves one step of the draft: { step, values }. Field errors name `step.field`. */
 export const PATCH = endpoint(async ({ locals, params, request }) => {
   const viewer = requireViewer(locals, ['admin', 'engineer']);
+  // The record first: another company's id is "not found" whatever the body says.
+  await loadCommissioning(viewer, params.id ?? '');
   const { step, values } = await jsonBody(request, saveSchema);
   const row = await saveStep(viewer, params.id ?? '', step, values);
   return json({ id: row.id, step: row.step, data: row.data });
