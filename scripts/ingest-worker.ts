@@ -5,6 +5,7 @@ import { refreshRollups, runRetention, setReadingsRetention } from '../src/db/qu
 import { env } from '../src/lib/server/env';
 import { SERVICE_USERNAME, servicePassword } from '../src/lib/telemetry/device-token';
 import { IngestWorker } from '../src/lib/telemetry/ingest-worker.server';
+import { AlertClock, BatchEvaluator } from '../src/lib/alerts/runner.server';
 
 const ROLLUP_EVERY_MS = 30_000;
 const RETENTION_EVERY_MS = 3_600_000;
@@ -15,6 +16,11 @@ async function main(): Promise<void> {
   const worker = new IngestWorker({
     mqttUrl: e.MQTT_URL, username: SERVICE_USERNAME, password: servicePassword(e), pool: getPool(), retentionDays: e.READINGS_RETENTION_DAYS,
   });
+  // Alert rules run on each committed batch's tanks, and on a clock for the time-based ones.
+  const alerts = new BatchEvaluator();
+  worker.on('committed', (info: { inserted: number; topics: string[] }) => { if (info.inserted > 0) alerts.evaluateOnBatch(info.topics); });
+  const alertClock = new AlertClock(e.ALERTS_CLOCK_MS);
+  alertClock.start();
   worker.start();
 
   let retentionSet = false;
@@ -46,7 +52,9 @@ async function main(): Promise<void> {
     stopping = true;
     clearInterval(timer);
     clearInterval(report);
+    alertClock.stop();
     await worker.stop();
+    await alerts.idle();
     await closeDb();
     process.exit(0);
   };

@@ -46,6 +46,8 @@ export const envSchema = z.object({
   ROLLUPS_RETENTION_DAYS: z.coerce.number().int().min(30).max(36500).default(1825),
   /** Broker: messages processed in parallel (aedes' default of 100 throttles a reconnecting fleet). */
   BROKER_CONCURRENCY: z.coerce.number().int().min(1).max(100_000).default(2000),
+  /** How often the ingest worker runs the time-based alert rules and sends alert e-mails, ms; 0 turns the clock off (the tests drive it themselves). */
+  ALERTS_CLOCK_MS: z.coerce.number().int().min(0).max(3_600_000).default(60_000),
   LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error']).default('info'),
 });
 

@@ -1,0 +1,411 @@
+// Alerts: evaluating a tank's new readings and the clock inside one transaction per tank (rule
+// state, alert rows and the point evaluated to commit together, so each reading is judged once),
+// the inbox's list and actions, thresholds, notification preferences and the notification log.
+import { sql, type SQL } from 'drizzle-orm';
+import { db } from '..';
+import type { Scope } from '../../lib/server/authz';
+import { evaluateClock, evaluateReadings, type EngineState, type TankFacts, type Transition } from '../../lib/alerts/engine';
+import { resolveThresholds, type ThresholdOverrides, type Thresholds } from '../../lib/alerts/thresholds';
+import type { AlertEvidence, AlertKind, AlertSeverity, AlertState } from '../../lib/alerts/types';
+import { fromStored } from '../../lib/telemetry/writer.server';
+import type { Reading } from '../../lib/telemetry/wire';
+import type { NotificationChannel } from '../schema/alerts';
+import { isUuid } from './scope';
+
+type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
+
+const DAY = 86_400_000;
+/** A tank the rules have never seen is evaluated from this far back at most (the longest rule window and a day). */
+const FIRST_LOOKBACK_MS = 8 * DAY;
+/** Readings read per round trip. */
+const CHUNK = 5000;
+
+// ---------------------------------------------------------------- thresholds (cached briefly: the worker reads them per batch)
+
+const thresholdCache = new Map<string, { at: number; th: Thresholds }>();
+const THRESHOLD_TTL_MS = 30_000;
+
+export async function getThresholdOverrides(companyId: string): Promise<Record<string, unknown>> {
+  const res = await db().execute<{ settings: Record<string, unknown> }>(sql`select settings from alert_thresholds where company_id = ${companyId}`);
+  return res.rows[0]?.settings ?? {};
+}
+
+export async function thresholdsFor(companyId: string): Promise<Thresholds> {
+  const hit = thresholdCache.get(companyId);
+  if (hit && Date.now() - hit.at < THRESHOLD_TTL_MS) return hit.th;
+  const th = resolveThresholds(await getThresholdOverrides(companyId));
+  thresholdCache.set(companyId, { at: Date.now(), th });
+  return th;
+}
+
+/** Stores a company's changes (already validated) in place of the previous ones. */
+export async function saveThresholdOverrides(companyId: string, overrides: ThresholdOverrides, userId: string): Promise<void> {
+  await db().execute(sql`
+    insert into alert_thresholds (company_id, settings, updated_at, updated_by) values (${companyId}, ${JSON.stringify(overrides)}::jsonb, now(), ${userId})
+    on conflict (company_id) do update set settings = excluded.settings, updated_at = now(), updated_by = excluded.updated_by`);
+  thresholdCache.delete(companyId);
+}
+
+// ---------------------------------------------------------------- evaluation
+
+type TankRow = {
+  id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: string; declared_loss_w: number | null; occupants: number | null;
+  evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null;
+};
+
+async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
+  await tx.execute(sql`insert into alert_tank_state (tank_id) select id from tanks where id = ${tankId} on conflict do nothing`);
+  const res = await tx.execute<TankRow>(sql`
+    select t.id, t.company_id, t.volume_l, t.sensor_count, t.heat_source, t.declared_loss_w, h.occupants,
+      (extract(epoch from s.evaluated_to) * 1000)::int8 as evaluated_ms, s.state,
+      (extract(epoch from l.ts) * 1000)::int8 as latest_ms
+    from alert_tank_state s join tanks t on t.id = s.tank_id left join homes h on h.id = t.home_id
+    left join tank_latest_state l on l.tank_id = t.id
+    where s.tank_id = ${tankId} for update of s`);
+  return res.rows[0] ?? null;
+}
+
+const factsOf = (r: TankRow): TankFacts => ({
+  volumeL: r.volume_l, sensorCount: r.sensor_count, hasHeatPump: r.heat_source !== 'immersion_only',
+  declaredLossW: r.declared_loss_w, occupants: r.occupants ?? 2,
+});
+
+async function openKindsOf(tx: Tx, tankId: string): Promise<Set<AlertKind>> {
+  const res = await tx.execute<{ kind: AlertKind }>(sql`select kind from alerts where tank_id = ${tankId} and state <> 'resolved'`);
+  return new Set(res.rows.map((r) => r.kind));
+}
+
+type ReadingRow = { ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null };
+
+async function readingsAfter(tx: Tx, tankId: string, afterMs: number, limit: number): Promise<Reading[]> {
+  const res = await tx.execute<ReadingRow>(sql`
+    select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm
+    from readings where tank_id = ${tankId} and ts > ${new Date(afterMs).toISOString()}::timestamptz order by ts limit ${limit}`);
+  return res.rows.map((x) => fromStored({
+    tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
+    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm,
+  }));
+}
+
+export interface AppliedTransition { alertId: string; tankId: string; companyId: string; kind: AlertKind; type: Transition['type']; at: number }
+
+async function applyTransitions(tx: Tx, tank: TankRow, th: Thresholds, transitions: readonly Transition[]): Promise<AppliedTransition[]> {
+  const out: AppliedTransition[] = [];
+  for (const t of transitions) {
+    if (t.type === 'open') {
+      // The partial unique index keeps one unresolved alert per tank and kind, whatever races.
+      const res = await tx.execute<{ id: string }>(sql`
+        insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at)
+        values (${tank.company_id}, ${tank.id}, ${t.kind}, ${th.severity[t.kind]}, 'open', ${JSON.stringify(t.evidence)}::jsonb, ${new Date(t.at).toISOString()}::timestamptz)
+        on conflict (tank_id, kind) where state <> 'resolved' do nothing returning id`);
+      if (res.rows[0]) out.push({ alertId: res.rows[0].id, tankId: tank.id, companyId: tank.company_id, kind: t.kind, type: 'open', at: t.at });
+    } else {
+      const res = await tx.execute<{ id: string }>(sql`
+        update alerts set state = 'resolved', resolved_at = greatest(opened_at, ${new Date(t.at).toISOString()}::timestamptz), updated_at = now()
+        where tank_id = ${tank.id} and kind = ${t.kind} and state <> 'resolved' returning id`);
+      for (const r of res.rows) out.push({ alertId: r.id, tankId: tank.id, companyId: tank.company_id, kind: t.kind, type: 'resolve', at: t.at });
+    }
+  }
+  return out;
+}
+
+async function saveState(tx: Tx, tankId: string, state: EngineState): Promise<void> {
+  await tx.execute(sql`
+    update alert_tank_state set state = ${JSON.stringify(state)}::jsonb,
+      evaluated_to = ${state.lastTs === null ? null : new Date(state.lastTs).toISOString()}::timestamptz, updated_at = now()
+    where tank_id = ${tankId}`);
+}
+
+/**
+ * Runs the rules over the readings of `tankId` stored since it was last evaluated (each reading
+ * once: a replayed batch finds nothing new). Returns the alerts it opened or resolved.
+ */
+export async function evaluateTankReadings(tankId: string): Promise<AppliedTransition[]> {
+  return db().transaction(async (tx) => {
+    const tank = await lockTank(tx, tankId);
+    if (!tank) return [];
+    const th = await thresholdsFor(tank.company_id);
+    const open = await openKindsOf(tx, tankId);
+    let state = tank.state;
+    let after = tank.evaluated_ms !== null ? Number(tank.evaluated_ms) : tank.latest_ms !== null ? Number(tank.latest_ms) - FIRST_LOOKBACK_MS : null;
+    if (after === null) return [];
+    const applied: AppliedTransition[] = [];
+    for (;;) {
+      const readings = await readingsAfter(tx, tankId, after, CHUNK);
+      if (readings.length === 0) break;
+      const res = evaluateReadings(state, readings, factsOf(tank), th, open);
+      state = res.state;
+      for (const a of await applyTransitions(tx, tank, th, res.transitions)) {
+        applied.push(a);
+        if (a.type === 'open') open.add(a.kind); else open.delete(a.kind);
+      }
+      after = readings[readings.length - 1]!.ts;
+      if (readings.length < CHUNK) break;
+    }
+    if (state) await saveState(tx, tankId, state);
+    return applied;
+  });
+}
+
+/** Runs the time-based rules of one tank at `now` (epoch ms). */
+export async function evaluateTankClock(tankId: string, now: number): Promise<AppliedTransition[]> {
+  return db().transaction(async (tx) => {
+    const tank = await lockTank(tx, tankId);
+    if (!tank) return [];
+    const th = await thresholdsFor(tank.company_id);
+    const open = await openKindsOf(tx, tankId);
+    const res = evaluateClock(tank.state, now, factsOf(tank), th, open, tank.latest_ms === null ? null : Number(tank.latest_ms));
+    const applied = await applyTransitions(tx, tank, th, res.transitions);
+    await saveState(tx, tankId, res.state);
+    return applied;
+  });
+}
+
+/** Tanks that have reported, optionally of one company, with whether readings wait for the rules. */
+export async function tanksForClock(companyId?: string): Promise<{ id: string; behind: boolean }[]> {
+  const res = await db().execute<{ id: string; behind: boolean }>(sql`
+    select t.id, coalesce(l.ts > s.evaluated_to or s.evaluated_to is null, false) as behind
+    from tanks t join tank_latest_state l on l.tank_id = t.id and l.ts is not null
+    left join alert_tank_state s on s.tank_id = t.id
+    ${companyId ? sql`where t.company_id = ${companyId}` : sql``}`);
+  return res.rows;
+}
+
+/** Tank ids by serial (the ingest worker's batches name tanks by serial). */
+export async function tankIdsBySerial(serials: readonly string[]): Promise<{ id: string; serial: string }[]> {
+  if (serials.length === 0) return [];
+  const res = await db().execute<{ id: string; serial: string }>(sql`select id, serial from tanks where serial = any(string_to_array(${serials.join(',')}, ','))`);
+  return res.rows;
+}
+
+// ---------------------------------------------------------------- the inbox
+
+export const alertsPageSize = 50;
+
+export interface AlertFilters {
+  kind?: AlertKind; severity?: AlertSeverity; state?: AlertState | 'active'; assignee?: string | 'none'; town?: string; tankId?: string; page?: number;
+}
+
+export interface AlertListItem {
+  id: string; kind: AlertKind; severity: AlertSeverity; state: AlertState; evidence: AlertEvidence;
+  openedAt: string; acknowledgedAt: string | null; acknowledgedBy: string | null; resolvedAt: string | null; resolvedBy: string | null; autoResolved: boolean;
+  note: string | null; assignee: { id: string; name: string | null; email: string } | null;
+  tank: { id: string; serial: string }; home: { id: string; reference: string; town: string; addressLine: string } | null;
+}
+
+type AlertRowSql = {
+  id: string; kind: AlertKind; severity: AlertSeverity; state: AlertState; evidence: AlertEvidence; opened_at: Date; acknowledged_at: Date | null;
+  ack_name: string | null; resolved_at: Date | null; res_name: string | null; resolved_by: string | null; note: string | null;
+  assignee_id: string | null; assignee_name: string | null; assignee_email: string | null; tank_id: string; serial: string;
+  home_id: string | null; reference: string | null; town: string | null; address_line: string | null; total: string;
+};
+
+function scopeSql(scope: Scope): SQL {
+  if (scope.homeIds === null) return sql`a.company_id = ${scope.companyId}`;
+  if (scope.homeIds.length === 0) return sql`false`;
+  return sql`a.company_id = ${scope.companyId} and t.home_id = any(string_to_array(${scope.homeIds.join(',')}, ',')::uuid[])`;
+}
+
+const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+
+function toItem(r: AlertRowSql): AlertListItem {
+  return {
+    id: r.id, kind: r.kind, severity: r.severity, state: r.state, evidence: r.evidence, openedAt: iso(r.opened_at)!,
+    acknowledgedAt: iso(r.acknowledged_at), acknowledgedBy: r.ack_name, resolvedAt: iso(r.resolved_at), resolvedBy: r.res_name,
+    autoResolved: r.resolved_at !== null && r.resolved_by === null, note: r.note,
+    assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name, email: r.assignee_email! } : null,
+    tank: { id: r.tank_id, serial: r.serial },
+    home: r.home_id ? { id: r.home_id, reference: r.reference!, town: r.town!, addressLine: r.address_line! } : null,
+  };
+}
+
+const severityOrder = sql`case a.severity when 'critical' then 0 when 'warning' then 1 else 2 end`;
+
+async function selectAlerts(where: SQL, order: SQL, limit: number, offset: number): Promise<AlertRowSql[]> {
+  const res = await db().execute<AlertRowSql>(sql`
+    select a.id, a.kind, a.severity, a.state, a.evidence, a.opened_at, a.acknowledged_at, ack.name as ack_name, a.resolved_at, a.resolved_by,
+      res.name as res_name, a.note, a.assignee_id, asg.name as assignee_name, asg.email as assignee_email,
+      t.id as tank_id, t.serial, h.id as home_id, h.reference, h.town, h.address_line, count(*) over () as total
+    from alerts a join tanks t on t.id = a.tank_id left join homes h on h.id = t.home_id
+    left join "user" ack on ack.id = a.acknowledged_by left join "user" res on res.id = a.resolved_by left join "user" asg on asg.id = a.assignee_id
+    where ${where} order by ${order} limit ${limit} offset ${offset}`);
+  return res.rows;
+}
+
+export async function listAlerts(scope: Scope, f: AlertFilters): Promise<{ items: AlertListItem[]; total: number; page: number; pageSize: number }> {
+  const where: SQL[] = [scopeSql(scope)];
+  if (f.kind) where.push(sql`a.kind = ${f.kind}`);
+  if (f.severity) where.push(sql`a.severity = ${f.severity}`);
+  if (f.state === 'active' || f.state === undefined) where.push(sql`a.state <> 'resolved'`);
+  else where.push(sql`a.state = ${f.state}`);
+  if (f.assignee === 'none') where.push(sql`a.assignee_id is null`);
+  else if (f.assignee) where.push(sql`a.assignee_id = ${f.assignee}`);
+  if (f.town) where.push(sql`h.town = ${f.town}`);
+  if (f.tankId && isUuid(f.tankId)) where.push(sql`a.tank_id = ${f.tankId}`);
+  const page = Math.max(1, f.page ?? 1);
+  const rows = await selectAlerts(sql.join(where, sql` and `), sql`${severityOrder}, a.opened_at desc, a.id`, alertsPageSize, (page - 1) * alertsPageSize);
+  return { items: rows.map(toItem), total: rows[0] ? Number(rows[0].total) : 0, page, pageSize: alertsPageSize };
+}
+
+export async function getAlert(scope: Scope, id: string): Promise<AlertListItem | null> {
+  if (!isUuid(id)) return null;
+  const [r] = await selectAlerts(sql`${scopeSql(scope)} and a.id = ${id}`, sql`a.id`, 1, 0);
+  return r ? toItem(r) : null;
+}
+
+/**
+ * The open and acknowledged alerts of a scope, most urgent first: what the fleet triage lists.
+ * One row per tank with its kinds in the inbox's order of urgency.
+ */
+export async function listOpenAlertsForCompany(scope: Scope): Promise<{ tankId: string; kinds: AlertKind[]; worst: AlertSeverity; since: string }[]> {
+  const res = await db().execute<{ tank_id: string; kinds: string; worst: number; since: Date }>(sql`
+    select a.tank_id, string_agg(a.kind::text, ' ' order by ${severityOrder}, a.opened_at) as kinds, min(${severityOrder}) as worst, min(a.opened_at) as since
+    from alerts a join tanks t on t.id = a.tank_id
+    where ${scopeSql(scope)} and a.state <> 'resolved'
+    group by a.tank_id order by worst, since`);
+  return res.rows.map((r) => ({ tankId: r.tank_id, kinds: r.kinds.split(' ') as AlertKind[], worst: (['critical', 'warning', 'info'] as const)[r.worst]!, since: new Date(r.since).toISOString() }));
+}
+
+/** Unresolved alerts of a scope counted by kind and by severity. */
+export async function countOpenAlerts(scope: Scope): Promise<{ byKind: Partial<Record<AlertKind, number>>; bySeverity: Partial<Record<AlertSeverity, number>>; total: number }> {
+  const res = await db().execute<{ kind: AlertKind; severity: AlertSeverity; n: number }>(sql`
+    select a.kind, a.severity, count(*)::int as n from alerts a join tanks t on t.id = a.tank_id
+    where ${scopeSql(scope)} and a.state <> 'resolved' group by a.kind, a.severity`);
+  const byKind: Partial<Record<AlertKind, number>> = {};
+  const bySeverity: Partial<Record<AlertSeverity, number>> = {};
+  let total = 0;
+  for (const r of res.rows) { byKind[r.kind] = (byKind[r.kind] ?? 0) + r.n; bySeverity[r.severity] = (bySeverity[r.severity] ?? 0) + r.n; total += r.n; }
+  return { byKind, bySeverity, total };
+}
+
+/** Acknowledges the open alerts among `ids` (others are left as they are); returns the ids changed. */
+export async function acknowledgeAlerts(scope: Scope, ids: readonly string[], userId: string, note: string | null): Promise<string[]> {
+  const valid = ids.filter(isUuid);
+  if (valid.length === 0) return [];
+  const res = await db().execute<{ id: string }>(sql`
+    update alerts a set state = 'acknowledged', acknowledged_at = now(), acknowledged_by = ${userId}, note = coalesce(${note}, a.note), updated_at = now()
+    from tanks t where t.id = a.tank_id and ${scopeSql(scope)} and a.state = 'open' and a.id = any(string_to_array(${valid.join(',')}, ',')::uuid[])
+    returning a.id`);
+  return res.rows.map((r) => r.id);
+}
+
+/** Resolves one alert by hand; false when it is not in scope or already resolved. */
+export async function resolveAlert(scope: Scope, id: string, userId: string, note: string | null): Promise<boolean> {
+  if (!isUuid(id)) return false;
+  const res = await db().execute<{ id: string }>(sql`
+    update alerts a set state = 'resolved', resolved_at = now(), resolved_by = ${userId}, note = coalesce(${note}, a.note), updated_at = now()
+    from tanks t where t.id = a.tank_id and ${scopeSql(scope)} and a.state <> 'resolved' and a.id = ${id} returning a.id`);
+  return res.rows.length > 0;
+}
+
+/** Assigns an alert to a staff member of its company (null: nobody); false when either is not found. */
+export async function assignAlert(scope: Scope, id: string, assigneeId: string | null): Promise<boolean> {
+  if (!isUuid(id)) return false;
+  if (assigneeId !== null) {
+    const m = await db().execute(sql`select 1 from memberships where user_id = ${assigneeId} and company_id = ${scope.companyId} and role <> 'householder'`);
+    if (m.rows.length === 0) return false;
+  }
+  const res = await db().execute<{ id: string }>(sql`
+    update alerts a set assignee_id = ${assigneeId}, updated_at = now() from tanks t
+    where t.id = a.tank_id and ${scopeSql(scope)} and a.id = ${id} returning a.id`);
+  return res.rows.length > 0;
+}
+
+/** Staff who may be assigned alerts. */
+export async function listAssignableStaff(companyId: string): Promise<{ id: string; name: string | null; email: string; role: string }[]> {
+  const res = await db().execute<{ id: string; name: string | null; email: string; role: string }>(sql`
+    select u.id, u.name, u.email, m.role from memberships m join "user" u on u.id = m.user_id
+    where m.company_id = ${companyId} and m.role <> 'householder' order by u.name nulls last, u.email`);
+  return res.rows;
+}
+
+// ---------------------------------------------------------------- notifications
+
+export interface Recipient { userId: string; email: string; name: string | null }
+
+export async function staffWithRole(companyId: string, role: 'operator' | 'admin'): Promise<Recipient[]> {
+  const res = await db().execute<{ id: string; email: string; name: string | null }>(sql`
+    select u.id, u.email, u.name from memberships m join "user" u on u.id = m.user_id where m.company_id = ${companyId} and m.role = ${role}`);
+  return res.rows.map((r) => ({ userId: r.id, email: r.email, name: r.name }));
+}
+
+/** The householders of a tank's home who have not opted out of notices. */
+export async function householdersToNotify(tankId: string): Promise<Recipient[]> {
+  const res = await db().execute<{ id: string; email: string; name: string | null }>(sql`
+    select u.id, u.email, u.name from tanks t join home_members hm on hm.home_id = t.home_id join "user" u on u.id = hm.user_id
+    join memberships m on m.user_id = u.id and m.company_id = t.company_id and m.role = 'householder'
+    left join notification_preferences p on p.user_id = u.id
+    where t.id = ${tankId} and coalesce(p.householder_notices, true)`);
+  return res.rows.map((r) => ({ userId: r.id, email: r.email, name: r.name }));
+}
+
+export interface NotifiableAlert { id: string; companyId: string; companyName: string; tankId: string; serial: string; homeId: string | null; homeLabel: string | null; kind: AlertKind; severity: AlertSeverity; state: AlertState; openedAt: Date; resolvedAt: Date | null; evidence: AlertEvidence }
+
+type NotifiableRow = { id: string; company_id: string; company_name: string; tank_id: string; serial: string; home_id: string | null; address_line: string | null; town: string | null; kind: AlertKind; severity: AlertSeverity; state: AlertState; opened_at: Date; resolved_at: Date | null; evidence: AlertEvidence };
+const notifiable = (r: NotifiableRow): NotifiableAlert => ({
+  id: r.id, companyId: r.company_id, companyName: r.company_name, tankId: r.tank_id, serial: r.serial, homeId: r.home_id,
+  homeLabel: r.address_line ? `${r.address_line}, ${r.town}` : null, kind: r.kind, severity: r.severity, state: r.state,
+  openedAt: new Date(r.opened_at), resolvedAt: r.resolved_at ? new Date(r.resolved_at) : null, evidence: r.evidence,
+});
+const notifiableSelect = sql`
+  select a.id, a.company_id, c.name as company_name, a.tank_id, t.serial, h.id as home_id, h.address_line, h.town, a.kind, a.severity, a.state, a.opened_at, a.resolved_at, a.evidence
+  from alerts a join companies c on c.id = a.company_id join tanks t on t.id = a.tank_id left join homes h on h.id = t.home_id`;
+
+/**
+ * Unresolved alerts opened since `since` that have not been through `channel` yet: severe ones
+ * for the operators' immediate notice, or the householder kinds for the home's notice.
+ */
+export async function alertsAwaiting(channel: 'immediate' | 'householder', since: Date, opts: { kinds?: readonly AlertKind[]; companyId?: string } = {}): Promise<NotifiableAlert[]> {
+  const res = await db().execute<NotifiableRow>(sql`${notifiableSelect}
+    where a.state <> 'resolved' and a.opened_at >= ${since.toISOString()}::timestamptz
+      ${channel === 'immediate' ? sql`and a.severity = 'critical'` : sql``}
+      ${opts.kinds ? sql`and a.kind = any(string_to_array(${opts.kinds.join(',')}, ',')::alert_kind[])` : sql``}
+      ${opts.companyId ? sql`and a.company_id = ${opts.companyId}` : sql``}
+      and not exists (select 1 from alert_notifications n where n.alert_id = a.id and n.channel = ${channel})
+    order by a.company_id, a.opened_at`);
+  return res.rows.map(notifiable);
+}
+
+/** What a company's daily digest covers: alerts opened in [from, to), and how many are still unresolved. */
+export async function digestContent(companyId: string, from: Date, to: Date): Promise<{ opened: NotifiableAlert[]; stillOpen: number }> {
+  const res = await db().execute<NotifiableRow>(sql`${notifiableSelect}
+    where a.company_id = ${companyId} and a.opened_at >= ${from.toISOString()}::timestamptz and a.opened_at < ${to.toISOString()}::timestamptz
+    order by case a.severity when 'critical' then 0 when 'warning' then 1 else 2 end, a.opened_at`);
+  const open = await db().execute<{ n: number }>(sql`select count(*)::int as n from alerts where company_id = ${companyId} and state <> 'resolved'`);
+  return { opened: res.rows.map(notifiable), stillOpen: open.rows[0]?.n ?? 0 };
+}
+
+export async function companiesWithAlerts(): Promise<{ id: string; name: string }[]> {
+  const res = await db().execute<{ id: string; name: string }>(sql`select c.id, c.name from companies c where exists (select 1 from alerts a where a.company_id = c.id) order by c.name`);
+  return res.rows;
+}
+
+/** Claims a notice before sending it; false when it was already sent (or claimed by another process). */
+export async function claimNotification(n: { companyId: string; alertId: string | null; userId: string | null; email: string; channel: NotificationChannel; dedupeKey: string; subject: string }): Promise<boolean> {
+  const res = await db().execute<{ id: number }>(sql`
+    insert into alert_notifications (company_id, alert_id, user_id, email, channel, dedupe_key, subject)
+    values (${n.companyId}, ${n.alertId}, ${n.userId}, ${n.email}, ${n.channel}, ${n.dedupeKey}, ${n.subject})
+    on conflict (dedupe_key) do nothing returning id`);
+  return res.rows.length > 0;
+}
+
+/** Gives a claimed notice back when sending failed, so the next run tries again. */
+export async function releaseNotification(dedupeKey: string): Promise<void> {
+  await db().execute(sql`delete from alert_notifications where dedupe_key = ${dedupeKey}`);
+}
+
+export async function notificationsOf(alertId: string): Promise<{ email: string; channel: NotificationChannel; sentAt: string }[]> {
+  const res = await db().execute<{ email: string; channel: NotificationChannel; sent_at: Date }>(sql`select email, channel, sent_at from alert_notifications where alert_id = ${alertId} order by sent_at`);
+  return res.rows.map((r) => ({ email: r.email, channel: r.channel, sentAt: new Date(r.sent_at).toISOString() }));
+}
+
+export async function getNoticePreference(userId: string): Promise<boolean> {
+  const res = await db().execute<{ on: boolean }>(sql`select householder_notices as on from notification_preferences where user_id = ${userId}`);
+  return res.rows[0]?.on ?? true;
+}
+
+export async function setNoticePreference(userId: string, on: boolean): Promise<void> {
+  await db().execute(sql`
+    insert into notification_preferences (user_id, householder_notices, updated_at) values (${userId}, ${on}, now())
+    on conflict (user_id) do update set householder_notices = excluded.householder_notices, updated_at = now()`);
+}
