@@ -85,6 +85,14 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await page.fill('#f-declaredLossW', '1.6');
     await saveStep(page, 'Heat source and sensor input');
 
+    // Resumable: a reload (or another device) opens the draft where it was left, answers kept.
+    await page.reload();
+    await waitForIslands(page);
+    await page.getByRole('heading', { level: 2, name: 'Heat source and sensor input' }).waitFor();
+    await page.getByRole('button', { name: /2\s*Cylinder/ }).click();
+    await expect(page.inputValue('#f-serial')).resolves.toBe(serial);
+    await page.getByRole('button', { name: /3\s*Heat source and sensor input/ }).click();
+
     // 3. Heat source, from the company's list of models; the settings come from the thermal core
     await page.selectOption('#f-heatSource', 'hp_plate');
     await page.selectOption('#f-heatPumpModelId', { label: `${modelName} (8.0 kW, NTC 10 kΩ, B 3977 K)` });
