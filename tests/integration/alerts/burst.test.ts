@@ -1,0 +1,54 @@
+// The same readings arriving many times and all at once (a device replaying its backlog while the
+// worker is redelivered the same batch) open one alert, not several; thresholds a company sets
+// apply from the next evaluation.
+import { afterAll, describe, expect, it } from 'vitest';
+import { getPool } from '../../../src/db';
+import { evaluateTankReadings, saveThresholdOverrides } from '../../../src/db/queries/alerts';
+import { TelemetryWriter, type IngestItem } from '../../../src/lib/telemetry/writer.server';
+import { runClock } from '../../../src/lib/alerts/runner.server';
+import { query } from '../../support/db';
+import { MIN, addTank, alertsOf, createCompany, dropCompany, openKinds, startDaysAgo, type AlertCompany } from './harness';
+
+let company: AlertCompany | undefined;
+afterAll(async () => { await dropCompany(company); }, 60_000);
+
+describe('a burst of readings', () => {
+  it('opens one alert however often and however concurrently the readings arrive', async () => {
+    company = await createCompany();
+    const t = await addTank(company, 3, ['sensor_open']);
+    const start = startDaysAgo(10);
+    const items: IngestItem[] = [];
+    for (let i = 0; i < 120; i++) {
+      items.push({ tank: { id: t.id, serial: t.serial, companyId: company.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(start + i * MIN) });
+    }
+    const writer = new TelemetryWriter(getPool());
+    await Promise.all([1, 2, 3, 4].map(() => writer.write({ readings: items })));
+    await Promise.all([1, 2, 3, 4, 5].map(() => evaluateTankReadings(t.id)));
+    await writer.write({ readings: items.slice(60) });
+    await evaluateTankReadings(t.id);
+    const alerts = await alertsOf([t.id]);
+    expect(alerts.map((a) => [a.kind, a.state])).toEqual([['sensor_fault', 'open']]);
+    const [s] = await query<{ ms: string }>(`select (extract(epoch from evaluated_to) * 1000)::int8 as ms from alert_tank_state where tank_id = $1`, [t.id]);
+    expect(Number(s!.ms)).toBe(start + 119 * MIN);
+  });
+
+  it('applies a company threshold at its edge: silent for exactly the limit is on line, a moment longer is offline', async () => {
+    const t = await addTank(company!, 27);
+    const start = startDaysAgo(9);
+    const writer = new TelemetryWriter(getPool());
+    const items: IngestItem[] = [0, 1, 2].map((i) => ({ tank: { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(start + i * MIN) }));
+    await writer.write({ readings: items });
+    await evaluateTankReadings(t.id);
+    const last = start + 2 * MIN;
+    await saveThresholdOverrides(company!.id, { offlineAfterMin: 30 }, company!.operator.id);
+    await query('update tank_latest_state set ts = $2 where tank_id = $1', [t.id, new Date(last)]);
+    // "No reading for longer than" the limit: exactly 30 min silent is still on line (common practice edge).
+    await runClock(last + 30 * MIN, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual([]);
+    await runClock(last + 30 * MIN + 1, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual(['offline']);
+    const [a] = (await alertsOf([t.id])).filter((x) => x.kind === 'offline');
+    expect(a!.opened_at.getTime()).toBe(last + 30 * MIN);
+    expect(a!.evidence.facts.offlineAfterMin).toBe(30);
+  });
+});
