@@ -30,7 +30,7 @@ export class SimDevice {
     const status = topicFor(this.serial, 'status');
     this.client = await mqtt.connectAsync(this.o.mqttUrl, {
       clientId: this.serial, username: this.serial, password: this.o.token, protocolVersion: 4, clean: false,
-      reconnectPeriod: 2000, connectTimeout: 10_000, keepalive: 60,
+      reconnectPeriod: 2000, connectTimeout: 10_000, keepalive: 60, reconnectOnConnackError: true,
       will: { topic: status, payload: Buffer.from('offline'), qos: 1, retain: true },
     });
     this.client.on('connect', () => void this.client?.publishAsync(status, 'online', { qos: 1, retain: true }).catch(() => undefined));

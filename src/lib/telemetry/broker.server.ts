@@ -6,7 +6,7 @@ import { createServer, type Server } from 'node:net';
 import { Aedes, type AuthenticateError, type Client } from 'aedes';
 import { clientIdAllowed, looksLikeSerial, mayPublish, maySubscribe, type Principal } from './acl';
 import { SERVICE_USERNAME, tokenMatches } from './device-token';
-import { CREDENTIALS_ROTATED_TOPIC, INGEST_CLIENT_ID, parseTopic } from './wire';
+import { CREDENTIALS_ROTATED_TOPIC, INGEST_CLIENT_ID, ingestFilters, parseTopic } from './wire';
 
 export interface BrokerOptions {
   host?: string;
@@ -41,6 +41,10 @@ function authError(message: string, returnCode: 3 | 4 | 5): AuthenticateError {
 
 export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker> {
   const log = opts.log ?? ((line: string) => console.log(line));
+  // This broker keeps sessions in memory: a fresh one knows no subscriber, and a reading published
+  // before the ingest worker subscribes would reach no one. So tanks are admitted only once an
+  // ingest session exists (it then lives on, queuing for the worker, while the worker reconnects).
+  let ingestSubscribed = false;
   const aedes = await Aedes.createBroker({
     concurrency: opts.concurrency ?? 2000,
     // A subscriber whose socket stays full this long is cut off (its session is kept). Long enough
@@ -68,6 +72,7 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
           return done(authError('Credentials cannot be checked right now.', 3), false);
         }
         if (!tokenMatches(pass, hash)) return done(authError('Bad serial or device token.', 4), false);
+        if (!ingestSubscribed) return done(authError('The ingest side is not subscribed yet; try again shortly.', 3), false);
         const p: Principal = { kind: 'device', serial: username };
         if (!clientIdAllowed(p, client.id)) return done(authError(`The client id must be the serial (${username}) or start with "${username}-".`, 5), false);
         principals.set(client, p);
@@ -90,6 +95,7 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
         log(`[broker] refused: ${client?.id ?? '?'} may not subscribe to ${sub.topic}`);
         return done(null, null); // SUBACK failure code for this filter
       }
+      if (p.kind === 'service' && sub.topic === ingestFilters.telemetry && sub.qos > 0 && !client!.clean) ingestSubscribed = true;
       done(null, sub);
     },
   });
