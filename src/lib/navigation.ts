@@ -5,6 +5,7 @@ export interface NavItem { href: string; label: string; roles: readonly Role[] }
 /** The app shell's navigation: each person sees the parts of the product their role uses. */
 export const navItems: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
+  { href: '/alerts', label: 'Alerts', roles: ['admin', 'operator', 'engineer'] },
   { href: '/tanks', label: 'Cylinders', roles: ['admin', 'operator', 'engineer'] },
   { href: '/commissioning', label: 'Commissioning', roles: ['admin', 'operator', 'engineer'] },
   { href: '/service', label: 'Service', roles: ['admin', 'operator', 'engineer'] },

@@ -42,6 +42,10 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/admin/heat-pumps': { GET: ['admin'] },
   '/service': { GET: staff },
   '/service/tanks/[id]': { GET: staff },
+  // alerts: the staff inbox, householders' notice setting, thresholds
+  '/alerts': { GET: staff },
+  '/alerts/preferences': { GET: 'signedIn' },
+  '/admin/alert-settings': { GET: ['admin'] },
   // endpoints
   '/api/health': { GET: 'public' },
   '/api/auth/[...auth]': { GET: 'public', POST: 'public' },
@@ -63,6 +67,11 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/tanks/[id]/events': { GET: staff },
   '/api/tanks/[id]/export.csv': { GET: staff },
   '/api/fleet/summary': { GET: desk },
+  '/api/alerts': { GET: staff },
+  '/api/alerts/acknowledge': { POST: staff },
+  '/api/alerts/[id]': { GET: staff, PATCH: staff },
+  '/api/alerts/thresholds': { GET: ['admin'], PUT: ['admin'] },
+  '/api/alerts/preferences': { GET: 'signedIn', PUT: 'signedIn' },
   '/api/commissioning': { GET: staff, POST: ['admin', 'engineer'] },
   '/api/commissioning/[id]': { GET: staff, PATCH: ['admin', 'engineer'] },
   '/api/commissioning/[id]/registration': { POST: ['admin', 'engineer'] },

@@ -63,7 +63,7 @@ export function shortCycleFinding(s: ShortCycleState, at: number, th: Thresholds
     active: true,
     since: recent[th.shortCycleViolations - 1]!.at,
     evidence: {
-      summary: `${recent.length} short cycles in ${th.shortCycleWindowH} h (${gaps} starts less than ${th.shortCycleMinGapMin} min after the one before, ${short} runs shorter than ${th.shortCycleMinRunMin} min), the latest at ${fmtTime(recent[recent.length - 1]!.at)}.`,
+      summary: `${recent.length} short cycles in ${th.shortCycleWindowH} h (${gaps} start${gaps === 1 ? '' : 's'} less than ${th.shortCycleMinGapMin} min after the one before, ${short} run${short === 1 ? '' : 's'} shorter than ${th.shortCycleMinRunMin} min), the latest at ${fmtTime(recent[recent.length - 1]!.at)}.`,
       facts: { violations: recent.length, gapStarts: gaps, shortRuns: short, minStartGapMin: th.shortCycleMinGapMin, minRunMin: th.shortCycleMinRunMin, windowH: th.shortCycleWindowH },
       events: recent.slice(-12).map((v) => ({ kind: 'compressor_run', start: v.start, end: v.kind === 'short_run' ? v.at : null, detail: v.kind === 'gap' ? `started ${v.minutes} min after the previous start` : `ran ${v.minutes} min` })),
       at: recent[0]!.start,
