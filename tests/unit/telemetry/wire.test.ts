@@ -52,3 +52,12 @@ describe('topics', () => {
     expect(parseTopic('heatlayer/v2/tanks/A/telemetry')).toBeNull();
   });
 });
+
+describe('docs/wire-contract.schema.json', () => {
+  it('is what the zod schemas generate (regenerate it when the contract changes)', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { wireJsonSchema } = await import('../../../src/lib/telemetry/json-schema');
+    const committed = JSON.parse(readFileSync(new URL('../../../docs/wire-contract.schema.json', import.meta.url), 'utf8'));
+    expect(committed).toEqual(JSON.parse(JSON.stringify(wireJsonSchema())));
+  });
+});
