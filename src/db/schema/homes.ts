@@ -59,7 +59,7 @@ export const tanks = pgTable(
     declaredLossW: real('declared_loss_w'),
     targetC: real('target_c').notNull().default(55),
     hysteresisK: real('hysteresis_k').notNull().default(5),
-    /** Argon2id hash of the device's secret; the secret itself is shown once and never stored. */
+    /** SHA-256 of the device token (see src/lib/telemetry/device-token.ts); the token itself is shown once and never stored. */
     deviceTokenHash: text('device_token_hash'),
     deviceTokenIssuedAt: timestamp('device_token_issued_at', { withTimezone: true }),
     commissionedAt: timestamp('commissioned_at', { withTimezone: true }),
