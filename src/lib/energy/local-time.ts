@@ -17,7 +17,7 @@ function formatter(timeZone: string): Intl.DateTimeFormat {
         timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit',
         hour: '2-digit', minute: '2-digit', second: '2-digit',
       });
-    } catch (cause) {
+    } catch {
       throw new EnergyInputError('timeZone', `timeZone is ${timeZone}: it must be an IANA time-zone name such as Europe/London.`);
     }
     formatters.set(timeZone, f);

@@ -41,11 +41,6 @@ export interface DpResult {
 
 const EPS = 1e-9;
 
-/** True when (s1, c1) is strictly better than (s2, c2): less shortfall, or as little and cheaper. */
-export function better(s1: number, c1: number, s2: number, c2: number): boolean {
-  return s1 < s2 - EPS || (s1 <= s2 + EPS && c1 < c2 - EPS);
-}
-
 /** Memory after `action` from (running, m); null when the action is a start the spacing forbids. */
 export function nextMemory(running: boolean, m: number, action: PlanAction, k: number): { running: boolean; m: number } | null {
   const hp = (action & 2) !== 0;
@@ -116,7 +111,7 @@ export function solveDp(model: PlanModel, settings: DpSettings): DpResult {
           const idx = tNext[row + ai]! * M + nmi;
           const s = tShort[row + ai]! + shortNext[idx]!;
           const c = tCost[row + ai]! + memCost[memRow + ai]! + costNext[idx]!;
-          // better(s, c, bestS, bestC), inlined: this loop is the planner's hot path.
+          // Less shortfall, or as little and cheaper (lexicographic, within EPS).
           if (s < bestS - EPS || (s <= bestS + EPS && c < bestC - EPS)) { bestS = s; bestC = c; bestA = ai; }
         }
         shortCur[jj * M + mi] = bestS;
