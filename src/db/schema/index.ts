@@ -7,3 +7,4 @@ export * from './audit';
 export * from './telemetry';
 export * from './commissioning';
 export * from './alerts';
+export * from './energy';
