@@ -1,10 +1,11 @@
 import { sql, type SQL } from 'drizzle-orm';
 import { db } from '..';
 import type { Scope } from '../../lib/server/authz';
-import { attentionFor, attentionPriority, attentionThresholds as th, type AttentionFacts, type AttentionKind } from '../../lib/views/attention';
+import { attentionKinds, attentionPriority, attentionThresholds as th, type AttentionFacts, type AttentionKind } from '../../lib/views/attention';
 import { hasHeatPump } from '../../lib/views/labels';
 import { layersFromCc } from '../../lib/views/layers';
 import type { HeatSource } from '../schema/homes';
+import { listOpenAlertsForCompany } from './alerts';
 
 /**
  * Who needs attention across a scope, and why. The facts come from the latest-state table and from
@@ -72,16 +73,20 @@ export function scopeWhere(scope: Scope): SQL {
   return sql`t.company_id = ${scope.companyId} and t.home_id = any(string_to_array(${scope.homeIds.join(',')}, ',')::uuid[])`;
 }
 
+/**
+ * What needs attention is what the alert rules raised and nobody has resolved yet (src/lib/alerts,
+ * with their hysteresis and the company's thresholds), so the triage and the alert inbox always
+ * agree. Alert kinds the triage has no column for (heat loss, an advisory) stay in the inbox.
+ */
 async function computeSnapshot(scope: Scope): Promise<AttentionSnapshot> {
   const now = Date.now();
-  const facts = await attentionFacts(scopeWhere(scope), new Date(now));
+  const [facts, open] = await Promise.all([attentionFacts(scopeWhere(scope), new Date(now)), listOpenAlertsForCompany(scope)]);
   const byTank = new Map<string, AttentionEntry>();
-  let reporting = 0;
-  for (const f of facts) {
-    const kinds = attentionFor(f, now);
-    if (!kinds.includes('offline')) reporting++;
-    if (kinds.length > 0) byTank.set(f.tankId, { tankId: f.tankId, kinds, rank: attentionPriority[kinds[0]!] });
+  for (const a of open) {
+    const kinds = a.kinds.filter((k): k is AttentionKind => (attentionKinds as readonly string[]).includes(k)).sort((x, y) => attentionPriority[x] - attentionPriority[y]);
+    if (kinds.length > 0) byTank.set(a.tankId, { tankId: a.tankId, kinds, rank: attentionPriority[kinds[0]!] });
   }
+  const reporting = facts.filter((f) => !byTank.get(f.tankId)?.kinds.includes('offline')).length;
   return { at: now, byTank, scanned: facts.length, socs: facts.map((f) => f.soc), v40s: facts.map((f) => f.v40L), reporting };
 }
 

@@ -69,6 +69,11 @@ export async function createFixture(company: DemoCompanySlug = 'kestrel-vale', t
   }
   // Draws of the healthy tank in the last day.
   await query(`insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, litres, complete) values ($1, 'draw', $2::timestamptz - interval '5 hours', $2::timestamptz - interval '4 hours 52 minutes', 0, 42.5, true)`, [healthy.id, now]);
+  // The fleet triage lists the alerts the rules raised; these are the ones they raise for these tanks.
+  for (const [t, kind, severity] of [[faulty, 'sensor_fault', 'warning'], [silent, 'offline', 'warning'], [cycling, 'short_cycling', 'warning']] as const) {
+    await query(`insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at) values ($1, $2, $3, $4, 'open', $5, $6)`,
+      [cid, t.id, kind, severity, JSON.stringify({ summary: `${kind} (fixture)`, facts: {}, at: now.getTime() }), now]);
+  }
   return { prefix, now, healthy, faulty, silent, cycling };
 }
 
