@@ -4,7 +4,7 @@ import { baseUrl } from '../../support/browser';
 import { closeTestDb, query } from '../../support/db';
 import { waitForMail } from '../../support/mail';
 import { signInAs } from '../../support/session';
-import { call, commissionOverHttp, pdfText, sampleAnswers, sendReading, type Api } from '../../support/commissioning';
+import { call, commissionOverHttp, jpegPhoto, pdfText, sampleAnswers, sendReading, type Api } from '../../support/commissioning';
 
 let engineer: Api;
 let operator: Api;
@@ -79,6 +79,11 @@ describe('commissioning records over the API', () => {
     const edit = await call(engineer, 'PATCH', `/api/commissioning/${id}`, { step: 'target', values: { targetC: '65', hysteresisK: '5' } });
     expect([edit.status, edit.body.error.code]).toEqual([409, 'RecordLocked']);
     expect((await call(engineer, 'POST', `/api/commissioning/${id}/sign-off`, {})).status).toBe(409);
+    const form = new FormData();
+    form.set('file', new Blob([new Uint8Array(await jpegPhoto(64, 64))], { type: 'image/jpeg' }), 'late.jpg');
+    form.set('commissioningId', id);
+    const late = await fetch(`${baseUrl()}/api/uploads`, { method: 'POST', headers: { origin: baseUrl(), cookie: engineer.cookie }, body: form });
+    expect([late.status, (await late.json()).error.code]).toEqual([409, 'RecordLocked']);
 
     const bad = await call(engineer, 'POST', `/api/commissioning/${id}/amendments`, { field: 'target.targetC', value: '90', reason: 'typo' });
     expect([bad.status, bad.body.error.fields]).toEqual([422, [{ field: 'value', message: 'At most 75 °C.' }]]);

@@ -31,6 +31,7 @@ export const POST = endpoint(async ({ locals, request }) => {
   if (commissioningId) {
     const c = await getCommissioning(viewer.companyId, commissioningId);
     if (!c) throw new HttpError(404, 'NotFound', 'There is no such commissioning record.');
+    if (c.status === 'signed') throw new HttpError(409, 'RecordLocked', 'This commissioning record is signed and locked. Add the photo to the tank’s service history instead.');
     tankId = c.tankId;
   } else if (!(await findTankInScope(scopeOf(viewer), tankId!))) {
     throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
