@@ -1,7 +1,8 @@
 // Seeds the invented demo scenario into an empty database (does nothing if companies exist).
 import { sql } from 'drizzle-orm';
 import { closeDb, db } from '../src/db';
-import { companies, homeMembers, homes, memberships, tanks, users } from '../src/db/schema';
+import { companies, homeMembers, homes, memberships, tanks, tariffs, users } from '../src/db/schema';
+import { parseTariff, type Tariff } from '../src/lib/energy';
 import { demoAccounts, demoCompanies, demoTanks } from '../src/lib/demo/scenario';
 import { env } from '../src/lib/server/env';
 import { hashPassword } from '../src/lib/server/password';
@@ -23,6 +24,22 @@ async function provisionDemoDeviceTokens(): Promise<void> {
     where t.serial = x.serial and t.device_token_hash is null`);
 }
 
+/**
+ * Kestrel Vale's default tariffs: flat until April 2026, then day/night. The prices are invented for
+ * the demo (not any supplier's), and go through the same validation as the tariff form.
+ */
+function demoDefaultTariffs(): Tariff[] {
+  const inputs = [
+    { kind: 'flat', name: 'Wendmoor Standard (demo)', unit: 'p/kWh', import: 24.5, export: 15, validFrom: '2025-01-01T00:00:00Z', validTo: '2026-04-01T00:00:00Z' },
+    { kind: 'day_night', name: 'Wendmoor Night Saver (demo)', unit: 'p/kWh', timeZone: 'Europe/London', nightStart: '00:30', nightEnd: '05:30', dayImport: 27, nightImport: 8.5, export: 15, validFrom: '2026-04-01T00:00:00Z' },
+  ];
+  return inputs.map((i) => {
+    const r = parseTariff(i);
+    if (!r.ok) throw new Error(`Demo tariff ${i.name} is invalid: ${r.errors.map((e) => e.message).join(' ')}`);
+    return r.tariff;
+  });
+}
+
 export async function seedIfEmpty(): Promise<boolean> {
   const d = db();
   const [{ n }] = await d.select({ n: sql<number>`count(*)::int` }).from(companies);
@@ -35,6 +52,9 @@ export async function seedIfEmpty(): Promise<boolean> {
     for (const c of demoCompanies) {
       const [row] = await tx.insert(companies).values({ slug: c.slug, name: c.name, emailDomain: c.emailDomain }).returning();
       companyIds.set(c.slug, row.id);
+    }
+    for (const t of demoDefaultTariffs()) {
+      await tx.insert(tariffs).values({ companyId: companyIds.get('kestrel-vale')!, homeId: null, kind: t.kind, name: t.name ?? null, validFrom: new Date(t.validFromMs), validTo: t.validToMs === null ? null : new Date(t.validToMs), prices: t });
     }
     const firstHome = new Map<string, string>();
     for (const t of demoTanks()) {

@@ -88,6 +88,11 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/imports/installs': { POST: ['admin'] },
   '/api/imports/installs/preview': { POST: ['admin'] },
   '/api/imports/installs/template.csv': { GET: ['admin'] },
+  // energy: tariffs (company defaults for admins, a home's for staff), cost accounting, charge planning
+  '/api/tariffs': { GET: staff, POST: staff },
+  '/api/tanks/[id]/energy': { GET: everyone },
+  '/api/tanks/[id]/plan': { POST: everyone },
+  '/api/tanks/[id]/plan/send': { POST: everyone },
 };
 
 export { desk, everyone, staff };

@@ -97,4 +97,9 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/imports/installs': { methods: { POST: { who: admin } } },
   '/api/imports/installs/preview': { methods: { POST: { who: admin } } },
   '/api/imports/installs/template.csv': { methods: { GET: { who: admin } } },
+  // The empty body is refused (400: homeId must be given, null for a company default); plans answer 409 while there is no tariff or no layers.
+  '/api/tariffs': { methods: { GET: { who: staff }, POST: { who: staff } } },
+  '/api/tanks/[id]/energy': { params: { id: 'tank' }, methods: { GET: { who: everyone, scope: 'home' } } },
+  '/api/tanks/[id]/plan': { params: { id: 'tank' }, methods: { POST: { who: everyone, scope: 'home' } } },
+  '/api/tanks/[id]/plan/send': { params: { id: 'spareTank' }, methods: { POST: { who: everyone, scope: 'home' } } },
 };

@@ -1,0 +1,126 @@
+// Energy, tariffs and planning for the endpoints: load what is stored, hand it to the energy core,
+// answer in API shapes. Expected refusals are HttpErrors; the core's own checks stay inside it.
+import {
+  findEnergyTank, findHomeInScope, insertTariff, lastCompressorStart, listEnergyReadings, listTariffs, tariffsForHome, type EnergyTank,
+} from '../../db/queries/energy';
+import { getLatestState } from '../../db/queries/telemetry';
+import type { TariffRow } from '../../db/schema';
+import { HttpError, type Scope } from '../server/authz';
+import type { Viewer } from '../server/viewer';
+import { sendCommand } from '../telemetry/commands.server';
+import { accountDays, readingWindow } from './account';
+import { HOME_TIME_ZONE, type EnergyQuery, type EnergyResponse, type PlanBody, type PlanResponse } from './contracts';
+import { accountingTank, energyReadings } from './inputs';
+import { PlanRefusal, planCharge, planInput, shapePlan } from './plan';
+import type { TariffProblem } from './tariff-upload';
+import type { Tariff } from '../energy';
+import { json } from '../server/http';
+
+/** The request's JSON body ({} when empty), or 400. */
+export async function jsonBody(request: Request): Promise<unknown> {
+  const text = await request.text();
+  if (!text.trim()) return {};
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new HttpError(400, 'InvalidJson', 'The body must be JSON.', [{ field: '(body)', message: 'must be valid JSON.' }]);
+  }
+}
+
+/** Days of history the planner learns demand from. */
+const DEMAND_HISTORY_DAYS = 14;
+
+/** The tank, or 404 (outside the viewer's scope or no such id): checked before the body is read. */
+export async function tankOr404(scope: Scope, id: string | undefined): Promise<EnergyTank> {
+  const tank = await findEnergyTank(scope, id ?? '');
+  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
+  return tank;
+}
+
+export async function tankEnergy(scope: Scope, tankId: string | undefined, q: EnergyQuery): Promise<EnergyResponse> {
+  const tank = await tankOr404(scope, tankId);
+  const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
+  const w = readingWindow(q.from, q.to, HOME_TIME_ZONE);
+  const rows = await listEnergyReadings(tank.id, new Date(w.startMs), new Date(w.endMs));
+  const { days, months } = accountDays(energyReadings(rows), accountingTank(tank), tariffs, q.from, q.to, HOME_TIME_ZONE);
+  const sum = (f: (d: (typeof days)[number]) => number) => days.reduce((a, d) => a + f(d), 0);
+  const hpHeat = sum((d) => d.heatPumpHeatKWh);
+  const hpElec = sum((d) => d.heatPumpElectricityKWh);
+  return {
+    from: q.from, to: q.to, timeZone: HOME_TIME_ZONE, tariffSource: source, days, months,
+    totals: {
+      costPence: sum((d) => d.costPence),
+      electricityKWh: sum((d) => d.heatPumpElectricityKWh + d.immersionGridElectricityKWh),
+      drawnLitres40: sum((d) => d.drawnLitres40), heatInKWh: sum((d) => d.heatInKWh),
+      dhwCop: hpElec > 0 ? hpHeat / hpElec : null, days: days.length,
+    },
+  };
+}
+
+/** A plan for the tank from now, or a refusal naming what is missing. */
+export async function tankPlan(scope: Scope, tankId: string | undefined, body: PlanBody, nowMs = Date.now()): Promise<{ tank: EnergyTank; plan: PlanResponse }> {
+  const tank = await tankOr404(scope, tankId);
+  const latest = await getLatestState(tank.id);
+  const layers = latest?.layersCc;
+  if (!layers || layers.length === 0 || layers.some((c) => c === null)) {
+    throw new HttpError(409, 'NoLatestLayers', 'The tank has not sent a complete set of layer temperatures yet, so there is nothing to plan from. Try again once it reports.');
+  }
+  const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
+  if (source === 'none') throw new HttpError(409, 'NoTariff', 'Neither this home nor the company has a tariff: add one before planning.', [{ field: 'tariff', message: 'No tariff.' }]);
+  const history = await listEnergyReadings(tank.id, new Date(nowMs - DEMAND_HISTORY_DAYS * 86_400_000), new Date(nowMs));
+  const lastStart = await lastCompressorStart(tank.id);
+  try {
+    const input = planInput({
+      tank, layersC: layers.map((c) => c! / 100), history: energyReadings(history), tariffs,
+      compressor: { running: latest?.compressor === true, lastStartMs: lastStart?.getTime() ?? null },
+      nowMs, hours: body.hours, comfortFloorL40: body.comfortFloorL40, timeZone: HOME_TIME_ZONE,
+    });
+    return { tank, plan: shapePlan(input, planCharge(input), HOME_TIME_ZONE, source) };
+  } catch (err) {
+    if (err instanceof PlanRefusal) throw new HttpError(err.code === 'NoTariffInForce' ? 409 : 422, err.code, err.message, [{ field: err.field, message: err.message }]);
+    throw err;
+  }
+}
+
+/** Plans, then sends the plan's daily windows to the tank as a set_schedule command. */
+export async function sendPlan(viewer: Viewer, scope: Scope, tankId: string | undefined, body: PlanBody) {
+  const { tank, plan } = await tankPlan(scope, tankId, body);
+  if (plan.windows === null) {
+    throw new HttpError(409, 'NothingToSchedule', 'The plan does not heat the tank in the next 24 hours (it holds enough already), so there is no schedule to send. The tank keeps its current schedule.');
+  }
+  const sent = await sendCommand({ tank, request: { kind: 'set_schedule', windows: plan.windows }, actorUserId: viewer.userId });
+  return { plan, ...sent };
+}
+
+/** Where a new tariff goes: a company default (admins) or one of the viewer's homes (staff). */
+export async function tariffOwner(viewer: Viewer, scope: Scope, homeId: string | null | undefined): Promise<string | null> {
+  if (!homeId) {
+    if (viewer.role !== 'admin') throw new HttpError(403, 'NotAllowedForRole', 'Only a company admin sets the company’s default tariffs. Give a homeId to set one home’s tariff.');
+    return null;
+  }
+  if (!(await findHomeInScope(scope, homeId))) throw new HttpError(404, 'HomeNotFound', 'There is no such home.');
+  return homeId;
+}
+
+/** The 422 answer to a refused tariff: every problem in "fields", CSV ones also in "rows" by line. Nothing is stored. */
+export function tariffRefusal(problems: readonly TariffProblem[]): Response {
+  const n = problems.length;
+  return json({
+    error: {
+      code: 'TariffRefused',
+      message: `The tariff was not stored because of ${n} problem${n === 1 ? '' : 's'} (see "fields"; for a CSV upload "rows" gives each line). Correct them and send it again.`,
+      fields: problems.map((p) => ({ field: p.row === undefined ? p.field : `line ${p.row}: ${p.field}`, message: p.message })),
+      rows: problems.filter((p) => p.row !== undefined).map((p) => ({ row: p.row!, field: p.field, message: p.message })),
+    },
+  }, 422);
+}
+
+/** Stores a validated tariff and answers 201 with it. */
+export async function storeTariff(viewer: Viewer, homeId: string | null, tariff: Tariff): Promise<Response> {
+  return json({ tariff: await insertTariff({ companyId: viewer.companyId, homeId, tariff, createdBy: viewer.userId }) }, 201);
+}
+
+export async function tariffsVisible(scope: Scope, homeId: string | undefined): Promise<TariffRow[]> {
+  if (homeId !== undefined && !(await findHomeInScope(scope, homeId))) throw new HttpError(404, 'HomeNotFound', 'There is no such home.');
+  return listTariffs(scope.companyId, homeId ?? null);
+}
