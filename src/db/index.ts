@@ -17,6 +17,9 @@ export function getPool(): pg.Pool {
     pool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10, idleTimeoutMillis: 30_000 });
     // An idle client losing its connection (server restart) must not crash the process.
     pool.on('error', (err) => console.error('[db] idle client error:', err.message));
+    // Nor a checked-out one: without a listener its 'error' event would throw (the query in
+    // flight still rejects, and the pool drops the client when it is released with the error).
+    pool.on('connect', (client) => client.on('error', (err) => console.error('[db] client error:', err.message)));
   }
   return pool;
 }

@@ -125,6 +125,10 @@ export class TelemetryWriter {
     if (batch.readings.length === 0 && !batch.deadLetters?.length) return { inserted: 0, duplicates: 0, events: 0 };
     const client = await this.pool.connect();
     let broken = false;
+    // The server going away between two statements arrives as an 'error' event; note it (and never
+    // let it throw) so this connection is discarded rather than reused.
+    const onError = () => { broken = true; };
+    client.on('error', onError);
     try {
       await client.query('begin');
       const result = await this.writeInTransaction(client, batch);
@@ -135,6 +139,7 @@ export class TelemetryWriter {
       await client.query('rollback').catch(() => undefined);
       throw err;
     } finally {
+      client.off('error', onError);
       // A connection that failed mid-COPY may be unusable; do not hand it to the next batch.
       client.release(broken ? true : undefined);
       if (broken) staged.delete(client);
