@@ -1,0 +1,59 @@
+// Homes and tanks of their own for the energy tests, with readings, latest state and tariffs
+// written straight into the product's tables, so that every figure can be worked by hand.
+import { randomUUID } from 'node:crypto';
+import { query } from '../../support/db';
+import { companyId } from '../../support/accounts';
+import type { DemoCompanySlug } from '../../support/session';
+
+export interface EnergyTank { id: string; serial: string; homeId: string; companyId: string }
+
+const made: EnergyTank[] = [];
+
+/** A home (3 occupants) with one 210 L, 4-sensor cylinder whose declared standing loss gives UA = `declaredLossW` / 45 K. */
+export async function makeTank(company: DemoCompanySlug, opts: { declaredLossW?: number; heatSource?: string } = {}): Promise<EnergyTank> {
+  const cid = await companyId(company);
+  const tag = `EN${randomUUID().slice(0, 8).toUpperCase()}`;
+  const [home] = await query<{ id: string }>(
+    `insert into homes (company_id, reference, address_line, town, postcode, occupants) values ($1, $2, '1 Test Lane', 'Cobbmere', 'WM9 9ZZ', 3) returning id`, [cid, `${tag}-H`]);
+  const [tank] = await query<{ id: string }>(
+    `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, declared_loss_w, target_c, hysteresis_k, commissioned_at)
+     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 4, $4, 5000, 3000, $5, 55, 5, now() - interval '30 days') returning id`,
+    [cid, home!.id, tag, opts.heatSource ?? 'hp_plate', opts.declaredLossW ?? 45]);
+  const t = { id: tank!.id, serial: tag, homeId: home!.id, companyId: cid };
+  made.push(t);
+  return t;
+}
+
+/** The tank's newest reading as the pipeline keeps it (layers in °C, bottom to top). */
+export async function setLatest(t: EnergyTank, layersC: number[]): Promise<void> {
+  await query(
+    `insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, compressor, immersion_w, power_w, draw_dlpm, online)
+     values ($1, now(), now(), $2, false, 0, 0, 0, true)
+     on conflict (tank_id) do update set layers_cc = excluded.layers_cc, ts = excluded.ts`,
+    [t.id, layersC.map((c) => Math.round(c * 100))]);
+}
+
+/** A home tariff stored directly (already in the energy core's normalised form). */
+export async function setHomeTariff(t: EnergyTank, tariff: { kind: string; validFromMs: number; validToMs: number | null } & Record<string, unknown>): Promise<void> {
+  await query(`insert into tariffs (company_id, home_id, kind, valid_from, valid_to, prices) values ($1, $2, $3, $4, $5, $6)`,
+    [t.companyId, t.homeId, tariff.kind, new Date(tariff.validFromMs), tariff.validToMs === null ? null : new Date(tariff.validToMs), JSON.stringify(tariff)]);
+}
+
+export async function dropTanks(): Promise<void> {
+  const ids = made.map((t) => t.id);
+  await query('delete from readings where tank_id = any($1::uuid[])', [ids]);
+  await query('delete from tanks where id = any($1::uuid[])', [ids]);
+  await query('delete from homes where id = any($1::uuid[])', [made.map((t) => t.homeId)]);
+  made.length = 0;
+}
+
+export const base = (): string => process.env.TEST_BASE_URL!;
+
+export async function call(cookie: string, method: string, path: string, body?: unknown, contentType = 'application/json'): Promise<{ status: number; body: any }> {
+  const res = await fetch(`${base()}${path}`, {
+    method, headers: { cookie, origin: base(), ...(body !== undefined ? { 'content-type': contentType } : {}) },
+    ...(body !== undefined ? { body: typeof body === 'string' ? body : JSON.stringify(body) } : {}),
+  });
+  const text = await res.text();
+  return { status: res.status, body: text ? JSON.parse(text) : null };
+}
