@@ -8,6 +8,7 @@ import { defaultAssumptions, everydayEquivalents, plural } from '../lib/views/ev
 import { fmtAgo, fmtClock, fmtDuration } from '../lib/views/format';
 import { householdNotices } from '../lib/views/notices';
 import { refillEstimate } from '../lib/views/refill';
+import { HotWaterCost } from './energy/HotWaterCost';
 import { cn } from './ui/cn';
 import { ErrorNotice, Loading, OfflineBanner } from './ui/States';
 import { useNow } from './ui/useOnline';
@@ -140,6 +141,8 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
           <ul className="mt-1 text-sm">{schedule.windows.map((w, i) => <li key={i}>From {w.from} to {w.to}</li>)}</ul>
         ) : <p className="mt-1 text-sm">Whenever the water cools down: it keeps it at about {t.targetC} °C and heats again once it drops about {t.hysteresisK} degrees.</p>}
       </section>
+
+      <HotWaterCost tankId={tankId} />
 
       {notices.length > 0 && (
         <section aria-labelledby="notices-title" className="card">

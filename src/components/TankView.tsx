@@ -12,6 +12,7 @@ import { TemperatureLegend } from './charts/TemperatureLegend';
 import { Timeline } from './charts/Timeline';
 import { tokens } from './charts/tokens';
 import { AnalysisPanel } from './tank/AnalysisPanel';
+import { TankEnergyPanel } from './energy/TankEnergyPanel';
 import { CommissioningRecord } from './tank/CommissioningRecord';
 import { LayerReadout } from './tank/LayerReadout';
 import { RangePicker } from './tank/RangePicker';
@@ -136,6 +137,7 @@ function TankView({ tankId }: { tankId: string }) {
       </section>
 
       <AnalysisPanel t={t} />
+      <TankEnergyPanel tankId={tankId} />
       <CommissioningRecord t={t} />
     </div>
   );
