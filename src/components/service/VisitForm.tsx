@@ -3,8 +3,10 @@ import { visitKindLabels, visitKinds } from '../../lib/commissioning/visit-kinds
 import { Check, Field, Problem, Select, type Errors, type Values } from '../commissioning/fields';
 import { UploadPanel, type UploadItem } from '../commissioning/UploadPanel';
 
-/** Records a service visit: findings, parts, readings, resolved alerts and photos. */
-export default function VisitForm({ tankId }: { tankId: string }) {
+export interface OpenAlert { id: string; label: string; summary: string; since: string }
+
+/** Records a service visit: findings, parts, readings, the open alerts it resolved, and photos. */
+export default function VisitForm({ tankId, openAlerts = [] }: { tankId: string; openAlerts?: OpenAlert[] }) {
   const [values, setValues] = useState<Values>({ kind: 'annual_inspection', visitedAt: new Date().toISOString().slice(0, 10) });
   const [errors, setErrors] = useState<Errors>({});
   const [problem, setProblem] = useState<string | null>(null);
@@ -22,7 +24,7 @@ export default function VisitForm({ tankId }: { tankId: string }) {
     const body = {
       tankId, kind: values.kind, visitedAt: values.visitedAt, findings: values.findings ?? '', parts,
       readings: { topC: values.topC, bottomC: values.bottomC, inletPressureBar: values.inletPressureBar, vesselPrechargeBar: values.vesselPrechargeBar, reliefValveTested: values.reliefValveTested === true, dischargeChecked: values.dischargeChecked === true },
-      resolvedAlerts: String(values.resolvedAlerts ?? '').split(',').map((s) => s.trim()).filter(Boolean),
+      resolvedAlertIds: openAlerts.filter((a) => values[`alert-${a.id}`] === true).map((a) => a.id),
       uploadIds: photos.map((p) => p.id),
     };
     try {
@@ -58,7 +60,12 @@ export default function VisitForm({ tankId }: { tankId: string }) {
       </div>
       <Check name="reliefValveTested" label="Temperature and pressure relief valve manually tested" {...f} />
       <Check name="dischargeChecked" label="Discharge pipe and tundish checked" {...f} />
-      <Field name="resolvedAlerts" label="Alerts resolved by this visit (comma-separated)" {...f} />
+      {openAlerts.length > 0 && (
+        <fieldset className="space-y-2">
+          <legend className="label">Open alerts this visit resolved</legend>
+          {openAlerts.map((a) => <Check key={a.id} name={`alert-${a.id}`} label={`${a.label} (since ${a.since}): ${a.summary}`} {...f} />)}
+        </fieldset>
+      )}
       <UploadPanel target={{ tankId }} onChange={setPhotos} />
       <button type="submit" className="btn-primary w-full" disabled={busy}>{busy ? 'Saving…' : 'Record the visit'}</button>
     </form>

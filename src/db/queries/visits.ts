@@ -1,8 +1,8 @@
 // Named queries of service visits: the desk's list of inspections due, one tank's history, and
 // recording a visit (with its photos) in one transaction.
-import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, sql } from 'drizzle-orm';
 import { db } from '..';
-import { homes, serviceVisits, tanks, uploads, users, type ServiceVisit, type VisitKind, type VisitPart, type VisitReadings } from '../schema';
+import { alerts, homes, serviceVisits, tanks, uploads, users, type AlertRow, type ServiceVisit, type VisitKind, type VisitPart, type VisitReadings } from '../schema';
 import { INSPECTION_INTERVAL_MONTHS } from '../../lib/commissioning/service-due';
 import { recordAudit } from './audit';
 import { isUuid } from './scope';
@@ -53,10 +53,10 @@ export async function getVisit(companyId: string, id: string): Promise<VisitRow 
 
 export interface NewVisit {
   companyId: string; tankId: string; kind: VisitKind; visitedAt: Date; engineerUserId: string; findings: string;
-  parts: VisitPart[]; readings: VisitReadings; resolvedAlerts: string[]; uploadIds: string[];
+  parts: VisitPart[]; readings: VisitReadings; resolvedAlertIds: string[]; uploadIds: string[];
 }
 
-export type VisitOutcome = { ok: true; visit: ServiceVisit } | { ok: false; reason: 'uploads'; missing: string[] };
+export type VisitOutcome = { ok: true; visit: ServiceVisit } | { ok: false; reason: 'uploads' | 'alerts'; missing: string[] };
 
 /** Records a visit and attaches its photos (uploads of the same tank not yet on another visit), all or nothing. */
 export async function createVisit(v: NewVisit): Promise<VisitOutcome> {
@@ -69,12 +69,45 @@ export async function createVisit(v: NewVisit): Promise<VisitOutcome> {
       const missing = v.uploadIds.filter((id) => !found.has(id));
       if (missing.length) return { ok: false, reason: 'uploads', missing };
     }
+    if (v.resolvedAlertIds.length) {
+      const open = await tx.select({ id: alerts.id }).from(alerts)
+        .where(and(inArray(alerts.id, v.resolvedAlertIds), eq(alerts.companyId, v.companyId), eq(alerts.tankId, v.tankId), ne(alerts.state, 'resolved')))
+        .for('update');
+      const found = new Set(open.map((a) => a.id));
+      const missing = v.resolvedAlertIds.filter((id) => !found.has(id));
+      if (missing.length) return { ok: false, reason: 'alerts', missing };
+    }
     const [visit] = await tx.insert(serviceVisits).values({
       companyId: v.companyId, tankId: v.tankId, kind: v.kind, visitedAt: v.visitedAt, engineerUserId: v.engineerUserId,
-      findings: v.findings, parts: v.parts, readings: v.readings, resolvedAlerts: v.resolvedAlerts,
+      findings: v.findings, parts: v.parts, readings: v.readings, resolvedAlerts: v.resolvedAlertIds,
     }).returning();
+    if (v.resolvedAlertIds.length) {
+      const at = new Date();
+      await tx.update(alerts).set({ state: 'resolved', resolvedAt: at, resolvedBy: v.engineerUserId, note: sql`coalesce(${alerts.note}, ${`Resolved at a service visit on ${at.toISOString().slice(0, 10)}.`})`, updatedAt: at })
+        .where(inArray(alerts.id, v.resolvedAlertIds));
+    }
     if (v.uploadIds.length) await tx.update(uploads).set({ visitId: visit.id }).where(inArray(uploads.id, v.uploadIds));
     await recordAudit({ companyId: v.companyId, actorUserId: v.engineerUserId, action: 'service_visit.recorded', subject: `tank:${v.tankId}`, detail: { visitId: visit.id, kind: v.kind } }, tx);
     return { ok: true, visit };
   });
+}
+
+export type TankAlert = Pick<AlertRow, 'id' | 'kind' | 'severity' | 'state' | 'openedAt' | 'resolvedAt'> & { summary: string };
+
+const alertColumns = { id: alerts.id, kind: alerts.kind, severity: alerts.severity, state: alerts.state, openedAt: alerts.openedAt, resolvedAt: alerts.resolvedAt, evidence: alerts.evidence };
+const withSummary = (rows: (Omit<TankAlert, 'summary'> & { evidence: { summary?: string } })[]): TankAlert[] =>
+  rows.map(({ evidence, ...a }) => ({ ...a, summary: evidence?.summary ?? '' }));
+
+/** The tank's alerts not yet resolved, for the visit form to resolve. */
+export async function openAlertsForTank(companyId: string, tankId: string): Promise<TankAlert[]> {
+  if (!isUuid(tankId)) return [];
+  return withSummary(await db().select(alertColumns).from(alerts)
+    .where(and(eq(alerts.companyId, companyId), eq(alerts.tankId, tankId), ne(alerts.state, 'resolved'))).orderBy(asc(alerts.openedAt)));
+}
+
+/** Alerts by id (those a visit resolved), for its history. */
+export async function alertsByIds(companyId: string, ids: readonly string[]): Promise<TankAlert[]> {
+  const valid = ids.filter(isUuid);
+  if (!valid.length) return [];
+  return withSummary(await db().select(alertColumns).from(alerts).where(and(eq(alerts.companyId, companyId), inArray(alerts.id, valid))));
 }

@@ -108,7 +108,7 @@ export const serviceVisits = pgTable(
     findings: text('findings').notNull(),
     parts: jsonb('parts').$type<VisitPart[]>().notNull().default([]),
     readings: jsonb('readings').$type<VisitReadings>().notNull().default({}),
-    /** References of the alerts this visit resolved (as the desk names them). */
+    /** Ids of the alerts this visit resolved. */
     resolvedAlerts: text('resolved_alerts').array().notNull().default([]),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },

@@ -26,7 +26,8 @@ export const visitSchema = z.object({
     reliefValveTested: z.boolean().optional(),
     dischargeChecked: z.boolean().optional(),
   }).default({}),
-  resolvedAlerts: z.array(z.string().trim().min(1).max(120)).max(50).default([]),
+  /** The tank's open alerts this visit dealt with: they are resolved with it. */
+  resolvedAlertIds: z.array(z.string().uuid('Unknown alert.')).max(50).default([]),
   uploadIds: z.array(z.string().uuid('Unknown photo.')).max(30).default([]),
 });
 export type VisitInput = z.infer<typeof visitSchema>;

@@ -55,6 +55,9 @@ describe('service desk and administration in Chromium', () => {
     await query("update commissionings set signed_at = now() - interval '13 months' where tank_id = $1", [c.tankId]);
     const [{ serial }] = await query<{ serial: string }>('select serial from tanks where id = $1', [c.tankId]);
 
+    const [alert] = await query<{ id: string }>(`insert into alerts (company_id, tank_id, kind, severity, evidence, opened_at)
+      select company_id, id, 'heat_loss', 'warning', $2::jsonb, now() - interval '3 days' from tanks where id = $1 returning id`,
+      [c.tankId, JSON.stringify({ summary: 'Standing loss above the declared figure.', facts: {}, at: Date.now() })]);
     const ctx = await contextAs('engineer');
     const page = await ctx.newPage();
     await page.goto(`${baseUrl()}/service`);
@@ -69,12 +72,16 @@ describe('service desk and administration in Chromium', () => {
     await page.fill('#f-topC', '59');
     await page.fill('#f-inletPressureBar', '3.1');
     await page.check('#f-reliefValveTested');
+    await page.check(`#f-alert-${alert.id}`);
     await page.setInputFiles('#upload-file', { name: 'tundish.jpg', mimeType: 'image/jpeg', buffer: await jpegPhoto(900, 700) });
     await page.locator('[data-upload]').waitFor();
     await page.getByRole('button', { name: 'Record the visit' }).click();
     await page.locator('[data-history="visit"]').waitFor();
     await expect(page.locator('[data-history="visit"]').textContent()).resolves.toContain('1 × anode');
     await expect(page.locator('[data-history="visit"] img').count()).resolves.toBe(1);
+    await expect(page.locator('[data-history="visit"]').textContent()).resolves.toContain('Alerts resolved: Heat loss above declared');
+    const [resolved] = await query<{ state: string }>('select state from alerts where id = $1', [alert.id]);
+    expect(resolved.state).toBe('resolved');
     await screenshot(page, 'service-history');
     await page.goto(`${baseUrl()}/service`);
     expect(await page.locator(`[data-due="${serial}"]`).count()).toBe(0);
