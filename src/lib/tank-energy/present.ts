@@ -17,7 +17,11 @@ export function planColumns(plan: PlanResponse): { t: number[]; price: number[];
     v40: plan.steps.map((s) => s.expectedV40),
     baselineV40: plan.baselineV40,
     floor: plan.steps.map(() => plan.comfortFloorL40),
-    // Drawn at the floor line while a source runs, gaps elsewhere: a bar of "heating" along the chart.
-    heating: plan.steps.map((s) => (s.heatPump || s.immersion ? plan.comfortFloorL40 : null)),
+    // A thick bar along the floor line while a source runs: each heating step draws from its start to
+    // the next step's start (its end), so a single half hour shows as a segment, not a lone point.
+    heating: plan.steps.map((s, i) => {
+      const prev = plan.steps[i - 1];
+      return s.heatPump || s.immersion || (prev && (prev.heatPump || prev.immersion)) ? plan.comfortFloorL40 : null;
+    }),
   };
 }

@@ -3,7 +3,7 @@ import { localDayBounds } from '../../../src/lib/energy';
 import { createAccount } from '../../support/accounts';
 import { closeTestDb, query } from '../../support/db';
 import { signIn, signInAs } from '../../support/session';
-import { call, dropTanks, makeTank, setHomeTariff, type EnergyTank } from './fixtures';
+import { call, dropTanks, makeTank, setHomeTariff, writeHandWorkedDay, type EnergyTank } from './fixtures';
 
 let tank: EnergyTank;
 let day: string;
@@ -16,18 +16,7 @@ beforeAll(async () => {
   const { startMs } = localDayBounds(day, 'Europe/London');
   // Day/night: 10 p/kWh from 00:30 to 05:30 local, 30 p/kWh otherwise (test values).
   await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 0, validFromMs: startMs - 86_400_000, validToMs: null });
-  // One reading a minute for the whole local day plus the next midnight's, layers held at 20/40/50/60 °C:
-  // compressor at 1000 W from 01:00 to 02:00, immersion at 3000 W from 18:00 to 18:30, a draw of
-  // 10 L/min from 19:00 to 19:05.
-  await query(
-    `insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, power_w, draw_dlpm)
-     select $1, $2::timestamptz + make_interval(mins => m), array[2000, 4000, 5000, 6000]::smallint[],
-            m >= 60 and m < 120,
-            case when m >= 1080 and m < 1110 then 3000 else 0 end,
-            case when m >= 60 and m < 120 then 1000 when m >= 1080 and m < 1110 then 3000 else 0 end,
-            case when m >= 1140 and m < 1145 then 100 else 0 end
-     from generate_series(0, (extract(epoch from ($3::timestamptz - $2::timestamptz)) / 60)::int) as m`,
-    [tank.id, new Date(startMs), new Date(localDayBounds(day, 'Europe/London').endMs)]);
+  await writeHandWorkedDay(tank, day);
   const own = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: tank.homeId, label: 'energy-home' });
   [cookies.engineer, cookies.own, cookies.otherHouseholder, cookies.otherCompany] = await Promise.all([
     signInAs(process.env.TEST_BASE_URL!, 'engineer'), signIn(process.env.TEST_BASE_URL!, own.email, own.password),

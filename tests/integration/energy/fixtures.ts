@@ -4,6 +4,7 @@ import { randomUUID } from 'node:crypto';
 import { query } from '../../support/db';
 import { companyId } from '../../support/accounts';
 import type { DemoCompanySlug } from '../../support/session';
+import { localDayBounds } from '../../../src/lib/energy';
 
 export interface EnergyTank { id: string; serial: string; homeId: string; companyId: string }
 
@@ -37,6 +38,24 @@ export async function setLatest(t: EnergyTank, layersC: number[]): Promise<void>
 export async function setHomeTariff(t: EnergyTank, tariff: { kind: string; validFromMs: number; validToMs: number | null } & Record<string, unknown>): Promise<void> {
   await query(`insert into tariffs (company_id, home_id, kind, valid_from, valid_to, prices) values ($1, $2, $3, $4, $5, $6)`,
     [t.companyId, t.homeId, tariff.kind, new Date(tariff.validFromMs), tariff.validToMs === null ? null : new Date(tariff.validToMs), JSON.stringify(tariff)]);
+}
+
+/**
+ * One reading a minute for the whole local day `date` plus the next midnight's, layers held at
+ * 20/40/50/60 °C: compressor at 1000 W from 01:00 to 02:00, immersion at 3000 W from 18:00 to
+ * 18:30, a draw of 10 L/min from 19:00 to 19:05 (local times).
+ */
+export async function writeHandWorkedDay(t: EnergyTank, date: string): Promise<void> {
+  const { startMs, endMs } = localDayBounds(date, 'Europe/London');
+  await query(
+    `insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, power_w, draw_dlpm)
+     select $1, $2::timestamptz + make_interval(mins => m), array[2000, 4000, 5000, 6000]::smallint[],
+            m >= 60 and m < 120,
+            case when m >= 1080 and m < 1110 then 3000 else 0 end,
+            case when m >= 60 and m < 120 then 1000 when m >= 1080 and m < 1110 then 3000 else 0 end,
+            case when m >= 1140 and m < 1145 then 100 else 0 end
+     from generate_series(0, (extract(epoch from ($3::timestamptz - $2::timestamptz)) / 60)::int) as m`,
+    [t.id, new Date(startMs), new Date(endMs)]);
 }
 
 export async function dropTanks(): Promise<void> {
