@@ -1,7 +1,7 @@
 // Seeds the invented demo scenario into an empty database (does nothing if companies exist).
 import { sql } from 'drizzle-orm';
 import { closeDb, db } from '../src/db';
-import { companies, homeMembers, homes, memberships, tanks, tariffs, users } from '../src/db/schema';
+import { companies, homeMembers, homes, memberships, serviceVisits, tanks, tariffs, users } from '../src/db/schema';
 import { parseTariff, type Tariff } from '../src/lib/energy';
 import { demoAccounts, demoCompanies, demoTanks } from '../src/lib/demo/scenario';
 import { env } from '../src/lib/server/env';
@@ -64,12 +64,18 @@ export async function seedIfEmpty(): Promise<boolean> {
         occupants: t.occupants, hasSolar: t.hasSolar, contactName: t.contactName,
       }).returning({ id: homes.id });
       if (!firstHome.has(t.companySlug)) firstHome.set(t.companySlug, home.id);
-      await tx.insert(tanks).values({
+      const [tank] = await tx.insert(tanks).values({
         companyId, homeId: home.id, serial: t.serial, model: t.model, volumeL: t.volumeL, heightM: t.heightM,
         sensorCount: t.sensorCount, heatSource: t.heatSource, hpOutputW: t.hpOutputW, immersionW: t.immersionW,
-        declaredLossW: t.declaredLossW, targetC: t.targetC, hysteresisK: t.hysteresisK, commissionedAt: new Date(Date.now() - 400 * 86_400_000),
+        declaredLossW: t.declaredLossW, targetC: t.targetC, hysteresisK: t.hysteresisK, commissionedAt: new Date(Date.now() - t.commissionedDaysAgo * 86_400_000),
         deviceTokenHash: demoTokenHash(t.serial),
-      });
+      }).returning({ id: tanks.id });
+      if (t.inspectionsDaysAgo.length > 0) {
+        await tx.insert(serviceVisits).values(t.inspectionsDaysAgo.map((d) => ({
+          companyId, tankId: tank.id, kind: 'annual_inspection' as const, visitedAt: new Date(Date.now() - d * 86_400_000),
+          findings: 'Annual inspection (demo record): relief valves operated, expansion provision checked, no faults found.',
+        })));
+      }
     }
     const passwordHash = await hashPassword(env().DEMO_PASSWORD);
     for (const a of demoAccounts()) {

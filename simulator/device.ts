@@ -54,6 +54,27 @@ export class SimDevice {
     }
   }
 
+  /**
+   * Sends a backlog through the HTTP batch path (`POST /api/ingest`), one request per batch. The
+   * server answers only once a batch is committed, so a large backfill goes exactly as fast as
+   * the database takes it instead of piling up in the broker's memory. Retries with backoff while
+   * the server is busy or down; a refusal (4xx) is a bug and stops the backfill.
+   */
+  async postBatch(url: string, readings: readonly Reading[], batchSize: number = limits.maxBatch): Promise<void> {
+    for (let i = 0; i < readings.length; i += batchSize) {
+      const body = JSON.stringify({ readings: readings.slice(i, i + batchSize).map(wire) });
+      for (let attempt = 0; ; attempt++) {
+        const res = await fetch(url, {
+          method: 'POST', body, headers: { authorization: `Bearer ${this.o.token}`, 'content-type': 'application/json' },
+        }).catch(() => null);
+        if (res?.status === 202) { await res.arrayBuffer(); break; }
+        if (res && res.status < 500 && res.status !== 429) throw new Error(`${this.serial}: backfill refused with ${res.status}: ${await res.text()}`);
+        await res?.arrayBuffer().catch(() => undefined);
+        await new Promise((r) => setTimeout(r, Math.min(30_000, 500 * 2 ** attempt)));
+      }
+    }
+  }
+
   /** The network_outage fault: drop off the network (the broker publishes the last will). */
   goOffline(): void {
     if (this.offline || !this.client) return;

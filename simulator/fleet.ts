@@ -18,6 +18,8 @@ export interface FleetOptions {
   /** Simulated seconds per real second. */
   speed: number;
   backfillDays: number;
+  /** The HTTP batch endpoint for the backfill (`…/api/ingest`); null sends it over MQTT. */
+  ingestUrl: string | null;
   /** Where tank states are kept between runs. */
   stateFile: string | null;
   log: (line: string) => void;
@@ -95,10 +97,12 @@ export class Fleet {
     };
     for (let dayStart = from; dayStart < now && !this.stopped; dayStart += 86_400_000) {
       const dayEnd = Math.min(now, dayStart + 86_400_000);
-      await pool(this.devices, 16, async (d) => {
+      // Over HTTP a few requests at a time keep the writer busy without queueing behind it.
+      const url = this.o.ingestUrl;
+      await pool(this.devices, url ? 4 : 16, async (d) => {
         const readings: Reading[] = [];
         for (let t = dayStart; t < dayEnd; t += MIN) readings.push(d.tank.step(t));
-        await d.sendBatch(readings);
+        await (url ? d.postBatch(url, readings) : d.sendBatch(readings));
         sent += readings.length;
         report();
       });

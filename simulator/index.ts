@@ -16,6 +16,7 @@ async function main(): Promise<void> {
   const tanks = demoCompanies.flatMap((c) => all.filter((t) => t.companySlug === c.slug).slice(0, e.SIMULATOR_TANKS));
   const fleet = new Fleet({
     tanks, mqttUrl: e.MQTT_URL, tokenKey: e.DEVICE_TOKEN_SEED, speed: e.SIMULATOR_SPEED, backfillDays: e.SIMULATOR_BACKFILL_DAYS,
+    ingestUrl: `http://127.0.0.1:${e.PORT}/api/ingest`,
     stateFile: e.SIMULATOR_SPEED === 1 ? join(e.HEATLAYER_DATA_DIR, 'simulator-state.json') : null,
     log: (line) => console.log(line),
   });

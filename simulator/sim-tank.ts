@@ -12,6 +12,15 @@ const MIN = 60_000;
 const DAY = 86_400_000;
 /** At most one hot-water compressor start an hour (common practice). */
 const MIN_START_GAP_MS = 60 * MIN;
+/**
+ * Legionella pasteurisation: store water at 60 °C or above (HSE HSG274 Part 2). Heat-pump
+ * controllers that keep a lower everyday target run a periodic cycle instead; ours heats until the
+ * control sensor reads PASTEUR_C and holds it for PASTEUR_HOLD_MS. Twice a week (Sunday and
+ * Wednesday from 01:00 UTC), so that every 7-day window holds at least one complete cycle.
+ */
+const PASTEUR_C = 61;
+const PASTEUR_HOLD_MS = 70 * MIN;
+const PASTEUR_WEEKDAYS = new Set([0, 3]);
 
 /** Outdoor air, °C: seasonal and daily swing (demo). */
 export function outdoorC(t: number): number {
@@ -43,6 +52,8 @@ export interface SimTankSnapshot {
   windows: { from: string; to: string }[];
   seq: number;
   stuckC: number | null;
+  pasteurDay?: number;
+  pasteurHoldUntil?: number;
 }
 
 export class SimTank {
@@ -61,6 +72,10 @@ export class SimTank {
   windows: { from: string; to: string }[] = [];
   private seq = 0;
   private stuckC: number | null = null;
+  /** The day (days since the epoch) of the last pasteurisation cycle started, and its hold's end. */
+  private pasteurDay = -1;
+  private pasteurHoldUntil = 0;
+  private pasteurising = false;
   private drawDay = -1;
   private plan: PlannedDraw[] = [];
   private active: { remainingJ: number; flowLpm: number; mixC: number; until: number } | null = null;
@@ -84,12 +99,16 @@ export class SimTank {
 
   snapshot(): SimTankSnapshot {
     return { nodesC: [...this.state.nodesC], hpOn: this.hpOn, lastStart: this.lastStart, tripUntil: this.tripUntil, boostUntil: this.boostUntil,
-      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, seq: this.seq, stuckC: this.stuckC };
+      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, seq: this.seq, stuckC: this.stuckC,
+      pasteurDay: this.pasteurDay, pasteurHoldUntil: this.pasteurHoldUntil };
   }
 
   restore(s: SimTankSnapshot): void {
     if (s.nodesC.length === this.state.nodesC.length) this.state = { nodesC: [...s.nodesC] };
     Object.assign(this, { hpOn: s.hpOn, lastStart: s.lastStart ?? -Infinity, tripUntil: s.tripUntil, boostUntil: s.boostUntil, targetC: s.targetC, hysteresisK: s.hysteresisK, windows: s.windows, seq: s.seq, stuckC: s.stuckC });
+    this.pasteurDay = s.pasteurDay ?? -1;
+    this.pasteurHoldUntil = s.pasteurHoldUntil ?? 0;
+    this.pasteurising = this.pasteurHoldUntil > 0;
   }
 
   /** Obeys a command; returns a reason when it cannot. */
@@ -99,6 +118,30 @@ export class SimTank {
       this.targetC = cmd.targetC;
       if (cmd.hysteresisK) this.hysteresisK = cmd.hysteresisK;
     } else this.windows = cmd.windows;
+    return null;
+  }
+
+  /**
+   * The pasteurisation phase at `t`: 'heat' (bring the store up to PASTEUR_C), 'hold', or null.
+   * A tank with the low_setpoint fault has the cycle switched off, like a misconfigured install.
+   */
+  private pasteurisation(t: number, controlC: number): 'heat' | 'hold' | null {
+    if (this.faults.has('low_setpoint')) return null;
+    const day = Math.floor(t / DAY);
+    const weekday = (day + 4) % 7; // 1970-01-01 was a Thursday; 0 is Sunday
+    if (!this.pasteurising && PASTEUR_WEEKDAYS.has(weekday) && this.pasteurDay !== day && t % DAY >= 60 * MIN) {
+      this.pasteurising = true;
+      this.pasteurDay = day;
+      this.pasteurHoldUntil = 0;
+    }
+    if (!this.pasteurising) return null;
+    if (this.pasteurHoldUntil === 0) {
+      if (controlC < PASTEUR_C) return 'heat';
+      this.pasteurHoldUntil = t + PASTEUR_HOLD_MS;
+    }
+    if (t < this.pasteurHoldUntil) return 'hold';
+    this.pasteurising = false;
+    this.pasteurHoldUntil = 0;
     return null;
   }
 
@@ -121,6 +164,7 @@ export class SimTank {
     if (!boost && this.boostUntil > 0 && this.boostUntil <= t) this.boostUntil = 0;
     const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(minuteOfDay, w.from, w.to));
     const hasHp = this.spec.heatSource !== 'immersion_only' && this.spec.hpOutputW > 0;
+    const pasteur = this.pasteurisation(t, controlC);
 
     // Heat pump (or boiler) thermostat with hysteresis and the one-start-an-hour rule.
     if (hasHp) {
@@ -128,11 +172,12 @@ export class SimTank {
       if (this.hpOn) {
         const tripped = shortCycle && t - this.runStart >= (4 + Math.floor(this.rand() * 3)) * MIN;
         if (tripped) this.tripUntil = t + 6 * MIN;
-        if (controlC >= this.targetC || tripped || (spaceHeatingBusy && !boost)) this.hpOn = false;
+        const satisfied = pasteur === 'heat' ? controlC >= PASTEUR_C : controlC >= this.targetC;
+        if (satisfied || tripped || (spaceHeatingBusy && !boost) || pasteur === 'hold') this.hpOn = false;
       } else {
-        const wants = controlC < this.targetC - this.hysteresisK || (boost && controlC < this.targetC);
+        const wants = controlC < this.targetC - this.hysteresisK || (boost && controlC < this.targetC) || pasteur === 'heat';
         const mayStart = shortCycle ? t >= this.tripUntil : t - this.lastStart >= MIN_START_GAP_MS;
-        if (wants && mayStart && (scheduled || boost) && !spaceHeatingBusy) {
+        if (wants && mayStart && (scheduled || boost || pasteur === 'heat') && !spaceHeatingBusy) {
           this.hpOn = true;
           this.lastStart = t;
           this.runStart = t;
@@ -152,8 +197,9 @@ export class SimTank {
       if (this.immersionTopUp && (topC >= 48 || !spaceHeatingBusy)) this.immersionTopUp = false;
       immersionOn = this.immersionTopUp;
     }
-    // A boost switches the element on (its own thermostat still caps it) as well as the heat pump.
-    if (boost) immersionOn = true;
+    // A boost switches the element on (its own thermostat still caps it) as well as the heat pump;
+    // so does a pasteurisation cycle, and during its hold the element keeps the store at PASTEUR_C.
+    if (boost || pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C)) immersionOn = true;
     if (!immersionOn && this.demo.hasSolar) {
       const month = new Date(t).getUTCMonth();
       const hour = (t % DAY) / 3_600_000;
@@ -182,7 +228,7 @@ export class SimTank {
       drawLpm = Math.min(this.active.flowLpm * hotFraction, needLitres);
     }
 
-    const flowC = Math.min(65, this.targetC + 5);
+    const flowC = pasteur === 'heat' ? 65 : Math.min(65, this.targetC + 5);
     const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC });
     if (this.active) {
       this.active.remainingJ -= out.drawnJ;

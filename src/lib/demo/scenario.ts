@@ -55,6 +55,10 @@ export interface DemoTank {
   hysteresisK: number;
   tariff: 'flat' | 'time_of_use';
   faults: FaultKind[];
+  /** How long ago the cylinder was commissioned, days (spread over three years). */
+  commissionedDaysAgo: number;
+  /** Days ago of each annual inspection since (oldest first); a few tanks have missed their latest. */
+  inspectionsDaysAgo: number[];
 }
 
 const streets = ['Mill Lane', 'Church Row', 'Heron Close', 'Quarry Road', 'Orchard Way', 'Station Street', 'Beck Side', 'Willow Drive', 'Tanner Walk', 'Marsh Road'];
@@ -99,10 +103,21 @@ export function demoTanks(): DemoTank[] {
         hysteresisK: 5,
         tariff: rand() < 0.45 ? 'time_of_use' : 'flat',
         faults: company.slug === 'kestrel-vale' ? (defaultFaults[i] ?? []) : [],
+        ...serviceHistory(i),
       });
     }
   }
   return out;
+}
+
+/** Commissioning age and annual inspections for demo tank `i`: derived from the index alone. */
+function serviceHistory(i: number): { commissionedDaysAgo: number; inspectionsDaysAgo: number[] } {
+  const commissionedDaysAgo = 20 + ((i * 97) % 1100);
+  const inspectionsDaysAgo: number[] = [];
+  for (let k = 1; k * 365 < commissionedDaysAgo; k++) inspectionsDaysAgo.push(commissionedDaysAgo - k * 365 + ((i * 7) % 11) - 5);
+  // About one tank in seventeen has missed its latest inspection (overdue in the demo).
+  if (i % 17 === 5 && inspectionsDaysAgo.length > 0) inspectionsDaysAgo.pop();
+  return { commissionedDaysAgo, inspectionsDaysAgo: inspectionsDaysAgo.filter((d) => d > 0) };
 }
 
 export const demoRoles = ['admin', 'operator', 'engineer', 'householder'] as const;

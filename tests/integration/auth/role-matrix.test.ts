@@ -55,8 +55,8 @@ const homes: Record<'ownHome' | 'otherHome' | 'otherCompany', string> = { ownHom
 beforeAll(async () => {
   for (const v of viewers) if (v !== 'anonymous') cookies.set(v, await signInAs(baseUrl(), v, 'kestrel-vale'));
   const [own] = await query<{ id: string }>(`select hm.home_id as id from home_members hm join "user" u on u.id = hm.user_id where u.email = 'householder@kestrelvale.example.com'`);
-  const [other] = await query<{ id: string }>(`select h.id from homes h join companies c on c.id = h.company_id where c.slug = 'kestrel-vale' and h.id <> $1 order by h.reference desc limit 1`, [own.id]);
-  const [foreign] = await query<{ id: string }>(`select h.id from homes h join companies c on c.id = h.company_id where c.slug = 'orrin-bay' order by h.reference limit 1`);
+  const [other] = await query<{ id: string }>(`select h.id from homes h join companies c on c.id = h.company_id where c.slug = 'kestrel-vale' and h.id <> $1 and h.reference ~ '^KV-[0-9]{4}$' order by h.reference limit 1`, [own.id]);
+  const [foreign] = await query<{ id: string }>(`select h.id from homes h join companies c on c.id = h.company_id where c.slug = 'orrin-bay' and h.reference ~ '^OB-[0-9]{4}$' order by h.reference limit 1`);
   Object.assign(homes, { ownHome: own.id, otherHome: other.id, otherCompany: foreign.id });
 });
 
