@@ -26,6 +26,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/forgot-password': { GET: 'public' },
   '/reset-password': { GET: 'public' },
   '/accept-invitation': { GET: 'public' },
+  '/admin': { GET: ['admin'] },
   '/admin/staff': { GET: ['admin'] },
   '/admin/audit': { GET: ['admin'] },
   '/dev/mail': { GET: ['admin'] },
@@ -46,6 +47,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/alerts': { GET: staff },
   '/alerts/preferences': { GET: 'signedIn' },
   '/admin/alert-settings': { GET: ['admin'] },
+  '/admin/tariffs': { GET: ['admin'] },
   // endpoints
   '/api/health': { GET: 'public' },
   '/api/auth/[...auth]': { GET: 'public', POST: 'public' },

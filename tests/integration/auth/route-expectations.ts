@@ -35,6 +35,7 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   // Without a token these pages say the link is not valid, with 404.
   '/reset-password': { methods: { GET: { who: 'anyone', ok: [404] } } },
   '/accept-invitation': { methods: { GET: { who: 'anyone', ok: [404] } } },
+  '/admin': { methods: { GET: { who: admin } } },
   '/admin/staff': { methods: { GET: { who: admin } } },
   '/admin/audit': { methods: { GET: { who: admin } } },
   '/dev/mail': { methods: { GET: { who: admin } } },
@@ -86,6 +87,7 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/alerts': { methods: { GET: { who: staff } } },
   '/alerts/preferences': { methods: { GET: { who: 'signedIn' } } },
   '/admin/alert-settings': { methods: { GET: { who: admin } } },
+  '/admin/tariffs': { methods: { GET: { who: admin } } },
   '/api/alerts': { methods: { GET: { who: staff } } },
   '/api/alerts/acknowledge': { methods: { POST: { who: staff } } },
   '/api/alerts/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: staff, ok: [404] }, PATCH: { who: staff } } },
