@@ -61,3 +61,28 @@ describe('energy and planning in Chromium', () => {
     await screenshot(page, 'energy-home-cost');
   }, 90_000);
 });
+
+describe('tariffs page in Chromium', () => {
+  it('lists the company defaults, refuses a CSV line by line and adds a tariff', async () => {
+    // Orrin Bay starts with no default tariffs, so Kestrel Vale's plans and costs are left alone.
+    const page = await (await signedInContext(browser, await signInAs(baseUrl(), 'admin', 'orrin-bay'))).newPage();
+    await page.goto(`${baseUrl()}/admin/tariffs`);
+    await waitForIslands(page);
+    await page.getByText(/None yet|Orrin e2e default/).first().waitFor();
+    await page.getByLabel('Prices file').setInputFiles({
+      name: 'prices.csv', mimeType: 'text/csv',
+      buffer: Buffer.from('start,end,import,export,unit\n2030-01-01T00:00:00Z,2030-01-01T00:30:00Z,14,4,p/kWh\n2030-01-01T01:00:00Z,2030-01-01T01:30:00Z,14,4,p/kWh\n'),
+    });
+    await page.getByRole('button', { name: 'Upload' }).click();
+    await page.getByText(/no prices from 2030-01-01T00:30:00Z to 2030-01-01T01:00:00Z/).waitFor();
+    await expect(page.getByText('line 3: start').count()).resolves.toBe(1);
+    await page.getByLabel('Kind').selectOption('flat');
+    await page.getByLabel('Name').fill('Orrin e2e default');
+    await page.getByLabel('From').fill('2030-01-01');
+    await page.getByRole('button', { name: 'Add tariff' }).click();
+    await page.getByRole('status').getByText('Tariff added.').waitFor();
+    await page.getByText('Orrin e2e default').waitFor();
+    await screenshot(page, 'energy-admin-tariffs');
+    await query(`delete from tariffs where name = 'Orrin e2e default'`);
+  }, 90_000);
+});
