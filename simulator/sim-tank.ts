@@ -6,6 +6,8 @@ import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
 import { createTank, estimatedCop, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
+import { localMinuteOfDay } from '../src/lib/energy';
+import { HOME_TIME_ZONE } from '../src/lib/tank-energy/contracts';
 import { drawsForDay, type PlannedDraw } from './household';
 
 const MIN = 60_000;
@@ -162,7 +164,9 @@ export class SimTank {
     const spaceHeatingBusy = winter && (inWindow(minuteOfDay, '06:00', '08:00') || inWindow(minuteOfDay, '17:00', '20:00'));
     const boost = this.boostUntil > t;
     if (!boost && this.boostUntil > 0 && this.boostUntil <= t) this.boostUntil = 0;
-    const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(minuteOfDay, w.from, w.to));
+    // Schedule windows are wall-clock times at the home (they move with British Summer Time).
+    const homeMinute = this.windows.length === 0 ? minuteOfDay : localMinuteOfDay(t, HOME_TIME_ZONE);
+    const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(homeMinute, w.from, w.to));
     const hasHp = this.spec.heatSource !== 'immersion_only' && this.spec.hpOutputW > 0;
     const pasteur = this.pasteurisation(t, controlC);
 
