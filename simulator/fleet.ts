@@ -71,16 +71,27 @@ export class Fleet {
    * `backfillDays` ago, up to now. Day by day across the fleet, each tank's day as backlog batches.
    */
   async backfill(): Promise<void> {
-    const now = floorMinute(Date.now());
     const saved = loadState(this.o.stateFile);
-    const earliest = now - this.o.backfillDays * 86_400_000;
+    const earliest = floorMinute(Date.now()) - this.o.backfillDays * 86_400_000;
     let from = earliest;
     if (saved && saved.lastTs > earliest) {
       for (const d of this.devices) { const s = saved.tanks[d.serial]; if (s) d.tank.restore(s); }
       from = saved.lastTs + MIN;
     }
+    // A long backfill falls behind the clock while it runs: fill again up to the new "now" until the
+    // gap is under two minutes, so that live readings carry the real time.
+    for (;;) {
+      const filledTo = await this.fillRange(from);
+      if (this.stopped || floorMinute(Date.now()) - filledTo < 2 * MIN) break;
+      from = filledTo;
+    }
+  }
+
+  /** Backfills every tank from `from` to now; returns the end of what it filled (exclusive). */
+  private async fillRange(from: number): Promise<number> {
+    const now = floorMinute(Date.now());
     const minutes = Math.max(0, Math.round((now - from) / MIN));
-    if (minutes === 0) return;
+    if (minutes === 0) { this.simNow = from - MIN; return from; }
     const total = minutes * this.devices.length;
     this.o.log(`[simulator] backfilling ${(minutes / 1440).toFixed(1)} days × ${this.devices.length} tanks = ${total.toLocaleString('en-GB')} readings through the batch path…`);
     const started = Date.now();
@@ -107,10 +118,11 @@ export class Fleet {
         report();
       });
     }
-    this.simNow = now;
+    this.simNow = now - MIN; // the first live tick sends the minute `now`
     saveState(this.o.stateFile, this.devices, now - MIN);
     report(true);
-    this.o.log(`[simulator] backfill done in ${Math.round((Date.now() - started) / 1000)} s; now live`);
+    this.o.log(`[simulator] backfill done in ${Math.round((Date.now() - started) / 1000)} s`);
+    return now;
   }
 
   /** One simulated minute for every tank; readings go out live (or into the outbox while offline). */

@@ -33,6 +33,7 @@ async function main(): Promise<void> {
   process.on('SIGINT', () => void stop());
   await fleet.connect();
   await fleet.backfill();
+  console.log('[simulator] now live');
   fleet.live();
 }
 
