@@ -50,7 +50,7 @@ export async function saveThresholdOverrides(companyId: string, overrides: Thres
 
 type TankRow = {
   id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: string; declared_loss_w: number | null; occupants: number | null;
-  evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null;
+  evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null; seen_ms: string | null;
 };
 
 async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
@@ -58,7 +58,8 @@ async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
   const res = await tx.execute<TankRow>(sql`
     select t.id, t.company_id, t.volume_l, t.sensor_count, t.heat_source, t.declared_loss_w, h.occupants,
       (extract(epoch from s.evaluated_to) * 1000)::int8 as evaluated_ms, s.state,
-      (extract(epoch from l.ts) * 1000)::int8 as latest_ms
+      (extract(epoch from l.ts) * 1000)::int8 as latest_ms,
+      (extract(epoch from l.last_seen_at) * 1000)::int8 as seen_ms
     from alert_tank_state s join tanks t on t.id = s.tank_id left join homes h on h.id = t.home_id
     left join tank_latest_state l on l.tank_id = t.id
     where s.tank_id = ${tankId} for update of s`);
@@ -154,7 +155,10 @@ export async function evaluateTankClock(tankId: string, now: number): Promise<Ap
     if (!tank) return [];
     const th = await thresholdsFor(tank.company_id);
     const open = await openKindsOf(tx, tankId);
-    const res = evaluateClock(tank.state, now, factsOf(tank), th, open, tank.latest_ms === null ? null : Number(tank.latest_ms));
+    // Offline means nothing heard: a tank replaying its backlog (old readings, received now) is online.
+    // Receipt times later than `now` (a clock run on simulated past time) are no evidence either way.
+    const heard = [tank.latest_ms, tank.seen_ms].filter((v): v is string => v !== null).map(Number).filter((ms) => ms <= now);
+    const res = evaluateClock(tank.state, now, factsOf(tank), th, open, heard.length ? Math.max(...heard) : null);
     const applied = await applyTransitions(tx, tank, th, res.transitions);
     await saveState(tx, tankId, res.state);
     return applied;

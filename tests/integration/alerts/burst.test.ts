@@ -51,4 +51,19 @@ describe('a burst of readings', () => {
     expect(a!.opened_at.getTime()).toBe(last + 30 * MIN);
     expect(a!.evidence.facts.offlineAfterMin).toBe(30);
   });
+
+  it('does not call a tank offline while it is replaying old readings: receipt counts as being heard', async () => {
+    const t = await addTank(company!, 18);
+    const now = Date.now();
+    const oldTs = now - 3 * 86_400_000; // a backlog three days old, received just now
+    const writer = new TelemetryWriter(getPool());
+    await writer.write({ readings: [{ tank: { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(oldTs) }] });
+    await evaluateTankReadings(t.id);
+    await runClock(Date.now() + 1000, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual([]);
+    // Heard nothing for longer than the limit (30 min set above): offline.
+    await query('update tank_latest_state set last_seen_at = $2 where tank_id = $1', [t.id, new Date(now - 31 * MIN)]);
+    await runClock(now, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual(['offline']);
+  });
 });
