@@ -7,7 +7,7 @@ import { useEffect, useRef, useState } from 'react';
 export function SerialScanner({ onSerial }: { onSerial: (serial: string) => void }) {
   const [open, setOpen] = useState(false);
   const [message, setMessage] = useState<string | null>(null);
-  const video = useRef<HTMLVideoElement>(null);
+  const preview = useRef<HTMLVideoElement>(null);
 
   useEffect(() => {
     if (!open) return;
@@ -16,9 +16,9 @@ export function SerialScanner({ onSerial }: { onSerial: (serial: string) => void
     (async () => {
       try {
         const { BrowserMultiFormatReader } = await import('@zxing/browser');
-        if (cancelled || !video.current) return;
+        if (cancelled || !preview.current) return;
         const reader = new BrowserMultiFormatReader();
-        const controls = await reader.decodeFromConstraints({ video: { facingMode: 'environment' } }, video.current, (result) => {
+        const controls = await reader.decodeFromConstraints({ video: { facingMode: 'environment' } }, preview.current, (result) => {
           if (result) { onSerial(result.getText().trim()); setOpen(false); }
         });
         stop = () => controls.stop();
@@ -36,7 +36,7 @@ export function SerialScanner({ onSerial }: { onSerial: (serial: string) => void
   return (
     <div>
       <button type="button" className="btn-quiet" onClick={() => { setMessage(null); setOpen((o) => !o); }}>{open ? 'Stop scanning' : 'Scan the code'}</button>
-      {open && <video ref={video} className="mt-2 w-full max-w-sm rounded-md border border-line" muted playsInline aria-label="Camera view for scanning the serial" />}
+      {open && <video ref={preview} className="mt-2 w-full max-w-sm rounded-md border border-line" muted playsInline aria-label="Camera view for scanning the serial" />}
       {message && <p role="status" className="mt-1 text-sm text-ochre">{message}</p>}
     </div>
   );
