@@ -41,6 +41,8 @@ export const readings = pgTable(
     pumpPct: smallint('pump_pct'),
     /** Hot-water draw, decilitres per minute (0.1 l/min). */
     drawDlpm: smallint('draw_dlpm'),
+    /** Solar power beyond the household's own use, before diversion to the immersion, W (added by drizzle/0007). */
+    solarSurplusW: smallint('solar_surplus_w'),
   },
   (t) => [primaryKey({ columns: [t.tankId, t.ts] })],
 );
