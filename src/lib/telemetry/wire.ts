@@ -88,6 +88,11 @@ export const readingSchema = z.object({
   compressor: z.boolean({ error: 'compressor must be true (heat pump running for hot water) or false.' }).optional(),
   immersionW: num('immersionW', 'W', 0, limits.maxImmersionW).optional(),
   powerW: num('powerW', 'W', 0, limits.maxPowerW).optional(),
+  /**
+   * Solar power beyond the household's own use, before any diversion to the immersion, W: what a
+   * diverter measures at the meter (export now plus what it already diverts).
+   */
+  solarSurplusW: num('solarSurplusW', 'W', 0, limits.maxPowerW).optional(),
   pumpPct: num('pumpPct', '%', 0, 100).optional(),
   drawLpm: num('drawLpm', 'l/min', 0, limits.maxDrawLpm).optional(),
   seq: z.number({ error: 'seq must be a whole number.' }).int({ error: 'seq must be a whole number.' })
@@ -111,6 +116,7 @@ export interface Reading {
   compressor?: boolean;
   immersionW?: number;
   powerW?: number;
+  solarSurplusW?: number;
   pumpPct?: number;
   drawLpm?: number;
   seq?: number;
@@ -176,6 +182,7 @@ export function parseReading(raw: unknown, ctx: ParseContext, index: number | nu
   if (r.compressor !== undefined) reading.compressor = r.compressor;
   if (r.immersionW !== undefined) reading.immersionW = r.immersionW;
   if (r.powerW !== undefined) reading.powerW = r.powerW;
+  if (r.solarSurplusW !== undefined) reading.solarSurplusW = r.solarSurplusW;
   if (r.pumpPct !== undefined) reading.pumpPct = r.pumpPct;
   if (r.drawLpm !== undefined) reading.drawLpm = r.drawLpm;
   if (r.seq !== undefined) reading.seq = r.seq;

@@ -38,6 +38,22 @@ describe('parseTelemetry', () => {
     expect(r.rejected.map((x) => [x.index, x.code, x.fields[0].field])).toEqual([[1, 'LayerCountMismatch', 'readings[1].layersC'], [2, 'InvalidReading', 'readings[2].pumpPct']]);
   });
 
+  it('carries solarSurplusW through, and refuses a negative, absurd or non-numeric one naming the field', () => {
+    const good = parseTelemetry(JSON.stringify(ok({ solarSurplusW: 1850 })), ctx);
+    expect(good.ok && good.readings[0]!.solarSurplusW).toBe(1850);
+    // Surplus is power beyond the household's use before diversion: never below zero. Bounded like the
+    // other power fields (a home's own supply fits well inside 30 kW; common practice).
+    for (const [bad, message] of [[-1, /at least 0 W/], [limits.maxPowerW + 1, /at most 30000 W/], ['1850', /must be a number/], [null, /must be a number/]] as const) {
+      const r = parseTelemetry(JSON.stringify(ok({ solarSurplusW: bad })), ctx);
+      expect(r.ok).toBe(true);
+      if (!r.ok) continue;
+      expect(r.readings).toHaveLength(0);
+      expect(r.rejected[0]).toMatchObject({ code: 'InvalidReading', fields: [{ field: 'solarSurplusW', message: expect.stringMatching(message) }] });
+    }
+    const inBatch = parseTelemetry(JSON.stringify({ readings: [ok(), ok({ ts: now - 120_000, solarSurplusW: -5 })] }), ctx);
+    expect(inBatch.ok && inBatch.rejected.map((x) => x.fields[0]!.field)).toEqual(['readings[1].solarSurplusW']);
+  });
+
   it('refuses the whole payload when it is too large', () => {
     const big = 'x'.repeat(limits.maxPayloadBytes + 1);
     expect(parseTelemetry(big, ctx)).toMatchObject({ ok: false, code: 'PayloadTooLarge' });
