@@ -6,7 +6,7 @@ import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
 import { createTank, estimatedCop, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
-import { localMinuteOfDay } from '../src/lib/energy';
+import { localMinuteOfDay, solarDiversion, type Diversion } from '../src/lib/energy';
 import { HOME_TIME_ZONE } from '../src/lib/tank-energy/contracts';
 import { drawsForDay, type PlannedDraw } from './household';
 
@@ -82,6 +82,8 @@ export class SimTank {
   private plan: PlannedDraw[] = [];
   private active: { remainingJ: number; flowLpm: number; mixC: number; until: number } | null = null;
   private readonly rand: () => number;
+  /** What the diverter did in the last step (for tests and the curious). */
+  lastDiversion: Diversion['reason'] | 'element_busy' = 'no_surplus';
 
   constructor(readonly demo: DemoTank, faults: readonly FaultKind[] = demo.faults) {
     this.faults = new Set(faults);
@@ -147,6 +149,17 @@ export class SimTank {
     return null;
   }
 
+  /**
+   * Solar power beyond the household's own use, W (demo): a midday bump from April to September,
+   * varying minute to minute with the clouds; nothing at night or in winter.
+   */
+  private solarSurplusW(t: number): number {
+    const month = new Date(t).getUTCMonth();
+    const hour = (t % DAY) / 3_600_000;
+    if (month < 3 || month > 8 || hour <= 10 || hour >= 16) return 0;
+    return 2500 * Math.sin((Math.PI * (hour - 10)) / 6) * (0.4 + 0.6 * this.rand());
+  }
+
   get boosting(): boolean {
     return this.boostUntil > 0;
   }
@@ -204,14 +217,19 @@ export class SimTank {
     // A boost switches the element on (its own thermostat still caps it) as well as the heat pump;
     // so does a pasteurisation cycle, and during its hold the element keeps the store at PASTEUR_C.
     if (boost || pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C)) immersionOn = true;
-    if (!immersionOn && this.demo.hasSolar) {
-      const month = new Date(t).getUTCMonth();
-      const hour = (t % DAY) / 3_600_000;
-      if (month >= 3 && month <= 8 && hour > 10 && hour < 16) {
-        const surplusW = 2500 * Math.sin((Math.PI * (hour - 10)) / 6) * (0.4 + 0.6 * this.rand());
-        immersionOn = this.rand() < surplusW / this.spec.immersionW; // burst-fire diverter, by the minute
+    // Solar surplus goes to the element through a proportional diverter, only while the water it can
+    // reach has room below its thermostat (the energy core's rule); a full tank exports instead.
+    const surplusW = this.demo.hasSolar ? this.solarSurplusW(t) : 0;
+    let immersionPowerW: number | undefined;
+    if (!immersionOn && surplusW > 0) {
+      const d = solarDiversion({ exportW: surplusW, divertingW: 0, immersionW: this.spec.immersionW, layersC: sensors,
+        volumeL: this.spec.volumeL, immersionHeightFrac: this.spec.immersionHeightFrac });
+      this.lastDiversion = d.reason;
+      if (d.divertW > 0) {
+        immersionOn = true;
+        immersionPowerW = d.divertW;
       }
-    }
+    } else this.lastDiversion = surplusW > 0 ? 'element_busy' : 'no_surplus';
 
     // Household draw.
     const day = Math.floor(t / DAY);
@@ -233,7 +251,7 @@ export class SimTank {
     }
 
     const flowC = pasteur === 'heat' ? 65 : Math.min(65, this.targetC + 5);
-    const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC });
+    const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC, ...(immersionPowerW === undefined ? {} : { immersionPowerW }) });
     if (this.active) {
       this.active.remainingJ -= out.drawnJ;
       if (this.active.remainingJ <= 1000 || t >= this.active.until) this.active = null;
@@ -258,6 +276,7 @@ export class SimTank {
       drawLpm: Math.round(drawLpm * 10) / 10,
       seq: ++this.seq,
     };
+    if (this.demo.hasSolar) reading.solarSurplusW = Math.round(surplusW);
     if (this.hpOn) {
       const bottom = layers[0] ?? sensors[0];
       reading.returnC = Math.round((bottom + 1) * 100) / 100;

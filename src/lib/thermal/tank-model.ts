@@ -45,6 +45,7 @@ export interface StepInputs {
   /** Immersion element energised. */ immersionOn: boolean;
   /** Highest flow temperature the main source can reach this step, °C; caps what it can add. */ hpFlowC?: number;
   /** Thermal output of the main source this step, W (default spec.hpOutputW). */ hpOutputW?: number;
+  /** Power the immersion element takes this step, W, at most spec.immersionW (default the rating): a diverter's share of solar surplus. */ immersionPowerW?: number;
 }
 
 /** Outcome of one step; energies in joules over the step. */
@@ -210,6 +211,7 @@ export function stepTankInPlace(spec: TankSpec, state: TankState, inputs: StepIn
   const drawLpm = nonNegative('inputs.drawLpm', inputs.drawLpm, 'litres per minute');
   const flowC = inputs.hpFlowC === undefined ? d.maxFlowC : waterTemp('inputs.hpFlowC', inputs.hpFlowC);
   const hpW = inputs.hpOutputW === undefined ? spec.hpOutputW : nonNegative('inputs.hpOutputW', inputs.hpOutputW, 'W');
+  const immW = inputs.immersionPowerW === undefined ? spec.immersionW : Math.min(spec.immersionW, nonNegative('inputs.immersionPowerW', inputs.immersionPowerW, 'W'));
   const T = state.nodesC;
 
   // 1. Draw.
@@ -239,11 +241,11 @@ export function stepTankInPlace(spec: TankSpec, state: TankState, inputs: StepIn
 
   // 3. Immersion element, held back by its own thermostat.
   let immersionHeatJ = 0;
-  if (inputs.immersionOn && spec.immersionW > 0) {
+  if (inputs.immersionOn && immW > 0) {
     const k = d.immersionNode;
     const room = d.capJPerK * (d.immersionStatC - T[k]!);
     if (room > 0) {
-      immersionHeatJ = Math.min(spec.immersionW * dt, room);
+      immersionHeatJ = Math.min(immW * dt, room);
       T[k] = T[k]! + immersionHeatJ / d.capJPerK;
     }
   }

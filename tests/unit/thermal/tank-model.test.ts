@@ -159,6 +159,16 @@ describe('tank model: physics', () => {
     expect(Math.max(...s.nodesC)).toBeLessThanOrEqual(65 + 1e-9);
   });
 
+  it('takes a diverter’s share of the element’s rating, never more than the rating', () => {
+    const spec: TankSpec = { ...base, uaWPerK: 0, immersionHeightFrac: 0.5 };
+    // An element turns all its electricity into heat in the water (first law; common practice): 1200 W × 600 s.
+    const share = stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: 1200, dtS: 600 });
+    expect(share.immersionHeatJ).toBeCloseTo(1200 * 600, 6);
+    const over = stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: 9000, dtS: 600 });
+    expect(over.immersionHeatJ).toBeCloseTo(3000 * 600, 6);
+    expect(() => stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: -1 })).toThrow(/immersionPowerW/);
+  });
+
   it('draws hot from the top and refills cold at the bottom', () => {
     const spec: TankSpec = { ...base, uaWPerK: 0 };
     const state = createTank(spec, 55);
