@@ -157,35 +157,17 @@ export class TelemetryWriter {
       rows.push(toStored(item.tank.id, item.reading));
     }
 
-    if (!staged.has(client)) {
-      await client.query(`create temp table if not exists readings_in (like readings) on commit delete rows`);
-      staged.add(client);
-    }
-    // One chunk: per-line chunks make COPY several times slower.
-    await pipeline(Readable.from([rows.map(copyLine).join('')]), client.query(copyFrom(`copy readings_in (${COPY_COLUMNS}) from stdin`)));
-    const ins = await client.query<{ tank_id: string; ts_ms: string }>(`
-      with ins as (
-        insert into readings (${COPY_COLUMNS}) select ${COPY_COLUMNS} from readings_in
-        on conflict (tank_id, ts) do nothing
-        returning tank_id, ts
-      ), dirty as (
-        insert into rollup_dirty (tank_id, bucket)
-        select distinct tank_id, date_bin('15 minutes', ts, timestamptz 'epoch') from ins
-        on conflict do nothing
-      )
-      select tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms from ins`);
-
-    const fresh = new Set(ins.rows.map((r) => `${r.tank_id}|${r.ts_ms}`));
+    const copied = await copyStraightIn(client, rows);
+    const freshRows = copied ? rows : await insertThroughStaging(client, rows);
     const newByTank = new Map<string, StoredReading[]>();
-    for (const row of rows) {
-      const key = `${row.tankId}|${row.ts}`;
-      if (!fresh.delete(key)) continue; // a duplicate, or a second copy inside this batch
+    for (const row of freshRows) {
       let list = newByTank.get(row.tankId);
       if (!list) newByTank.set(row.tankId, (list = []));
       list.push(row);
     }
-    const inserted = ins.rowCount ?? 0;
+    const inserted = freshRows.length;
     if (newByTank.size === 0) return { inserted, duplicates: rows.length - inserted, events: 0 };
+    await markRollupsDirty(client, freshRows);
 
     const events = await this.advanceTanks(client, newByTank, tanks);
     return { inserted, duplicates: rows.length - inserted, events };
@@ -261,6 +243,61 @@ export class TelemetryWriter {
     for (const l of late) touched += await rederive(client, l.tankId, l.fromTs);
     return touched;
   }
+}
+
+
+const copyInto = (client: pg.PoolClient, table: string, rows: readonly StoredReading[]) =>
+  // One chunk: per-line chunks make COPY several times slower.
+  pipeline(Readable.from([rows.map(copyLine).join('')]), client.query(copyFrom(`copy ${table} (${COPY_COLUMNS}) from stdin`)));
+
+/**
+ * The common case, new readings: COPY them straight into `readings`, as fast as a raw COPY. A
+ * duplicate (a replay, or the same time twice in the batch) makes the COPY fail on the primary
+ * key; the savepoint then undoes it and the caller takes the staged path. Returns whether it worked.
+ */
+async function copyStraightIn(client: pg.PoolClient, rows: readonly StoredReading[]): Promise<boolean> {
+  await client.query('savepoint straight_in');
+  try {
+    await copyInto(client, 'readings', rows);
+  } catch (err) {
+    if ((err as { code?: string }).code !== '23505') throw err; // unique_violation; anything else fails the batch
+    await client.query('rollback to savepoint straight_in');
+    return false;
+  }
+  await client.query('release savepoint straight_in');
+  return true;
+}
+
+/** Replays and duplicates: stage the batch, insert what is not stored yet, and return those rows. */
+async function insertThroughStaging(client: pg.PoolClient, rows: readonly StoredReading[]): Promise<StoredReading[]> {
+  if (!staged.has(client)) {
+    await client.query(`create temp table if not exists readings_in (like readings) on commit delete rows`);
+    staged.add(client);
+  }
+  await copyInto(client, 'readings_in', rows);
+  const ins = await client.query<{ tank_id: string; ts_ms: string }>(`
+    insert into readings (${COPY_COLUMNS}) select ${COPY_COLUMNS} from readings_in
+    on conflict (tank_id, ts) do nothing
+    returning tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms`);
+  const fresh = new Set(ins.rows.map((r) => `${r.tank_id}|${r.ts_ms}`));
+  // `delete` keeps only the first copy of a reading repeated inside the batch.
+  return rows.filter((row) => fresh.delete(`${row.tankId}|${row.ts}`));
+}
+
+const ROLLUP_BUCKET_MS = 15 * 60_000;
+
+/** The 15-minute rollup buckets that new readings fall in are recomputed later (src/db/queries/rollups.ts). */
+async function markRollupsDirty(client: pg.PoolClient, rows: readonly StoredReading[]): Promise<void> {
+  const buckets = new Map<string, { tankId: string; bucket: number }>();
+  for (const r of rows) {
+    const bucket = Math.floor(r.ts / ROLLUP_BUCKET_MS) * ROLLUP_BUCKET_MS;
+    buckets.set(`${r.tankId}|${bucket}`, { tankId: r.tankId, bucket });
+  }
+  const list = [...buckets.values()];
+  await client.query(
+    `insert into rollup_dirty (tank_id, bucket)
+     select * from unnest($1::uuid[], $2::timestamptz[]) order by 1, 2 on conflict do nothing`,
+    [list.map((b) => b.tankId), list.map((b) => new Date(b.bucket).toISOString())]);
 }
 
 const pgArray = (values: (number | null)[]) => `{${values.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`;

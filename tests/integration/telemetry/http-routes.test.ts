@@ -21,13 +21,15 @@ describe('POST /api/ingest', () => {
   let db: pg.Pool;
   let tank: TestTank;
   let other: TestTank;
+  let third: TestTank;
   const bearer = (t: { token: string }) => ({ authorization: `Bearer ${t.token}` });
 
   beforeAll(async () => {
     db = testPg();
     tank = await tankWithToken(db, 170);
     other = await tankWithToken(db, 171);
-    await clearTelemetry(db, [tank.id, other.id]);
+    third = await tankWithToken(db, 172);
+    await clearTelemetry(db, [tank.id, other.id, third.id]);
   });
   afterAll(() => db?.end());
 
@@ -55,6 +57,23 @@ describe('POST /api/ingest', () => {
     expect(await again.json()).toMatchObject({ accepted: 0, duplicate: 5, rejected: 1 });
     expect(await count(db, `select count(*) as n from readings where tank_id = $1`, [tank.id])).toBe(6);
     expect(await count(db, `select count(*) as n from dead_letters where tank_id = $1 and transport = 'http'`, [tank.id])).toBe(2);
+  });
+
+  it('stores only the new readings of a batch that overlaps what is stored and repeats a reading', async () => {
+    const t0 = Math.floor(Date.now() / MIN) * MIN - 400 * MIN;
+    const first = await post('/api/ingest', { readings: [0, 1, 2].map((i) => reading(third, t0 + i * MIN)) }, bearer(third));
+    expect(await first.json()).toMatchObject({ accepted: 3, duplicate: 0 });
+    // Readings 1 and 2 are stored already, 3 comes twice, 4 is new: two new, three duplicates.
+    const mixed = await post('/api/ingest', { readings: [1, 2, 3, 3, 4].map((i) => reading(third, t0 + i * MIN)) }, bearer(third));
+    expect(await mixed.json()).toMatchObject({ accepted: 2, duplicate: 3, rejected: 0 });
+    expect(await count(db, `select count(*) as n from readings where tank_id = $1 and ts >= $2`, [third.id, new Date(t0).toISOString()])).toBe(5);
+    const latest = await db.query(`select ts from tank_latest_state where tank_id = $1`, [third.id]);
+    expect(new Date(latest.rows[0].ts).getTime()).toBe(t0 + 4 * MIN);
+    // The 15-minute bucket of the new readings is queued for its rollup, or rolled up already by
+    // the ingest worker's job (which takes the queue entry in the same transaction).
+    const bucket = new Date(Math.floor((t0 + 4 * MIN) / (15 * MIN)) * 15 * MIN).toISOString();
+    expect(await count(db, `select (select count(*) from rollup_dirty where tank_id = $1 and bucket = $2)
+      + (select count(*) from rollups_15m where tank_id = $1 and bucket = $2) as n`, [third.id, bucket])).toBe(1);
   });
 
   it('answers 400 naming the field for a malformed body, and dead-letters it', async () => {
