@@ -77,9 +77,18 @@ export async function refreshRollups(limit = 5000): Promise<number> {
   });
 }
 
-/** Sets how long pg_partman keeps daily reading partitions. */
+/**
+ * Sets how long pg_partman keeps daily reading partitions, and makes sure every day of that window
+ * has its partition: ingest accepts readings that old (a device's backlog, an import), and without
+ * its own partition a day's readings would fall into the default partition, which is slower to
+ * write and blocks creating that day's partition later. Readings already in the default partition
+ * are moved into their days first.
+ */
 export async function setReadingsRetention(days: number): Promise<void> {
   await db().execute(sql`update partman.part_config set retention = ${`${days} days`}, retention_keep_table = false where parent_table = 'public.readings'`);
+  await db().execute(sql`select partman.partition_data_time('public.readings', p_batch_count => ${days + 8})`);
+  await db().execute(sql`select partman.create_partition_time('public.readings', array(
+    select generate_series(date_trunc('day', now()) - make_interval(days => ${days}), date_trunc('day', now()), interval '1 day')))`);
 }
 
 /**
