@@ -177,10 +177,15 @@ export class TelemetryWriter {
   private async advanceTanks(client: pg.PoolClient, newByTank: Map<string, StoredReading[]>, tanks: Map<string, IngestTank>): Promise<number> {
     // Lock in a fixed order so two writers touching the same tanks cannot deadlock.
     const ids = [...newByTank.keys()].sort();
-    await client.query(`insert into tank_latest_state (tank_id) select unnest($1::uuid[]) on conflict do nothing`, [ids]);
-    const current = await client.query<{ tank_id: string; ts_ms: string | null; derive: DeriveState }>(
+    const lockStates = () => client.query<{ tank_id: string; ts_ms: string | null; derive: DeriveState }>(
       `select tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms, derive from tank_latest_state
        where tank_id = any($1::uuid[]) order by tank_id for update`, [ids]);
+    let current = await lockStates();
+    if (current.rows.length < ids.length) {
+      // A tank's first reading ever: give it its row, then lock again.
+      await client.query(`insert into tank_latest_state (tank_id) select unnest($1::uuid[]) order by 1 on conflict do nothing`, [ids]);
+      current = await lockStates();
+    }
     const states = new Map(current.rows.map((r) => [r.tank_id, r]));
 
     const latestUpdates: unknown[] = [];
