@@ -34,7 +34,7 @@ export interface WriteResult {
 /** Cold-water temperature for V40 and state of charge, °C: the EN 16147 reference. */
 export const REFERENCE_COLD_C = 10;
 
-const COPY_COLUMNS = 'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm';
+const COPY_COLUMNS = 'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w';
 
 /** A reading as stored: centi-degrees, decilitres a minute, whole watts. */
 export interface StoredReading {
@@ -49,6 +49,8 @@ export interface StoredReading {
   powerW: number | null;
   pumpPct: number | null;
   drawDlpm: number | null;
+  /** Optional here only so that event re-derivation, which never reads it, need not load it. */
+  solarSurplusW?: number | null;
 }
 
 const cc = (c: number | undefined) => (c === undefined ? null : Math.round(c * 100));
@@ -61,6 +63,7 @@ export function toStored(tankId: string, r: Reading): StoredReading {
     flowCc: cc(r.flowC), returnCc: cc(r.returnC), compressor: r.compressor ?? null,
     immersionW: round(r.immersionW), powerW: round(r.powerW), pumpPct: round(r.pumpPct),
     drawDlpm: r.drawLpm === undefined ? null : Math.round(r.drawLpm * 10),
+    solarSurplusW: round(r.solarSurplusW),
   };
 }
 
@@ -74,6 +77,7 @@ export function fromStored(s: StoredReading): Reading {
   if (s.powerW !== null) r.powerW = s.powerW;
   if (s.pumpPct !== null) r.pumpPct = s.pumpPct;
   if (s.drawDlpm !== null) r.drawLpm = s.drawDlpm / 10;
+  if (s.solarSurplusW != null) r.solarSurplusW = s.solarSurplusW;
   if (s.seq !== null) r.seq = s.seq;
   return r;
 }
@@ -85,7 +89,7 @@ function copyLine(s: StoredReading): string {
     s.tankId, new Date(s.ts).toISOString(), copyValue(s.seq),
     `{${s.layersCc.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`,
     copyValue(s.flowCc), copyValue(s.returnCc), copyValue(s.compressor), copyValue(s.immersionW),
-    copyValue(s.powerW), copyValue(s.pumpPct), copyValue(s.drawDlpm),
+    copyValue(s.powerW), copyValue(s.pumpPct), copyValue(s.drawDlpm), copyValue(s.solarSurplusW ?? null),
   ].join('\t') + '\n';
 }
 
