@@ -44,6 +44,8 @@ export const alerts = pgTable(
     // One alert per tank and kind that is not yet resolved: the rules can never raise a duplicate.
     uniqueIndex('alerts_one_active_per_tank_kind').on(t.tankId, t.kind).where(sql`state <> 'resolved'`),
     index('alerts_company_state_idx').on(t.companyId, t.state, t.openedAt),
+    // A company's unresolved alerts without reading its resolved history (the tank list's ranking and filters).
+    index('alerts_open_by_company_idx').on(t.companyId, t.tankId, t.kind).where(sql`state <> 'resolved'`),
     index('alerts_tank_idx').on(t.tankId, t.openedAt),
   ],
 );

@@ -1,6 +1,7 @@
 import {
   boolean, index, integer, pgEnum, pgTable, primaryKey, real, smallint, text, timestamp, uniqueIndex, uuid,
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { users } from './auth';
 import { companies } from './companies';
 
@@ -19,8 +20,17 @@ export const homes = pgTable(
     contactName: text('contact_name'),
     contactEmail: text('contact_email'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /**
+     * What the tank list's free text searches, lower-cased once on write so a search is a plain
+     * LIKE (much cheaper than ILIKE per row); fields apart by a unit separator (chr 31), so a match never
+     * spans two of them. Trigram-indexed (pg_trgm).
+     */
+    searchText: text('search_text').generatedAlwaysAs(sql`lower("reference" || chr(31) || "address_line" || chr(31) || "postcode" || chr(31) || "town" || chr(31) || coalesce("contact_name", ''))`),
   },
-  (t) => [uniqueIndex('homes_company_reference_uq').on(t.companyId, t.reference), index('homes_company_town_idx').on(t.companyId, t.town)],
+  (t) => [
+    uniqueIndex('homes_company_reference_uq').on(t.companyId, t.reference), index('homes_company_town_idx').on(t.companyId, t.town),
+    index('homes_search_trgm_idx').using('gin', t.searchText.op('gin_trgm_ops')),
+  ],
 );
 export type Home = typeof homes.$inferSelect;
 
@@ -64,8 +74,14 @@ export const tanks = pgTable(
     deviceTokenIssuedAt: timestamp('device_token_issued_at', { withTimezone: true }),
     commissionedAt: timestamp('commissioned_at', { withTimezone: true }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /** Serial and model for the tank list's free text, as `homes.search_text`. */
+    searchText: text('search_text').generatedAlwaysAs(sql`lower("serial" || chr(31) || "model")`),
   },
-  (t) => [index('tanks_company_idx').on(t.companyId), index('tanks_home_idx').on(t.homeId)],
+  (t) => [
+    // The tank list pages a company's tanks in serial order (and ties every other sort on serial).
+    index('tanks_company_serial_idx').on(t.companyId, t.serial), index('tanks_home_idx').on(t.homeId),
+    index('tanks_search_trgm_idx').using('gin', t.searchText.op('gin_trgm_ops')),
+  ],
 );
 export type Tank = typeof tanks.$inferSelect;
 export type NewTank = typeof tanks.$inferInsert;

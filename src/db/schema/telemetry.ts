@@ -73,7 +73,12 @@ export const tankLatestState = pgTable('tank_latest_state', {
   statusAt: timestamp('status_at', { withTimezone: true }),
   /** Open runs the incremental event derivation carries between batches (src/lib/telemetry/events.ts). */
   derive: jsonb('derive').$type<DeriveState>().notNull().default({ lastTs: null, open: {} }),
-});
+}, (t) => [
+  // The tank list's sorts walk these in either direction and stop after one page.
+  index('tank_latest_state_soc_idx').on(t.soc),
+  index('tank_latest_state_v40_idx').on(t.v40L),
+  index('tank_latest_state_last_seen_idx').on(t.lastSeenAt),
+]);
 export type TankLatestState = typeof tankLatestState.$inferSelect;
 
 export { eventKinds };
