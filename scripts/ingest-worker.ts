@@ -25,7 +25,12 @@ async function main(): Promise<void> {
 
   let retentionSet = false;
   let lastRetention = 0;
+  // One run at a time: after a backfill a run can outlast the interval, and overlapping runs would
+  // only compete for the same cores and rows.
+  let running = false;
   const jobs = async () => {
+    if (running) return;
+    running = true;
     try {
       if (!retentionSet) { await setReadingsRetention(e.READINGS_RETENTION_DAYS); retentionSet = true; }
       if (Date.now() - lastRetention > RETENTION_EVERY_MS) {
@@ -36,6 +41,8 @@ async function main(): Promise<void> {
       for (let i = 0; i < 50 && (await refreshRollups(2000)) > 0; i++);
     } catch (err) {
       console.error(`[ingest] periodic job failed (will retry): ${err instanceof Error ? err.message : String(err)}`);
+    } finally {
+      running = false;
     }
   };
   const timer = setInterval(() => void jobs(), ROLLUP_EVERY_MS);
