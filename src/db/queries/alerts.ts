@@ -148,11 +148,15 @@ export async function evaluateTankReadings(tankId: string): Promise<AppliedTrans
   });
 }
 
-/** Runs the time-based rules of one tank at `now` (epoch ms). */
-export async function evaluateTankClock(tankId: string, now: number): Promise<AppliedTransition[]> {
+/**
+ * Runs the time-based rules of one tank at `now` (epoch ms), or at the time `now()` gives once the
+ * tank's row is read, so that everything received before that counts as heard.
+ */
+export async function evaluateTankClock(tankId: string, at: number | (() => number)): Promise<AppliedTransition[]> {
   return db().transaction(async (tx) => {
     const tank = await lockTank(tx, tankId);
     if (!tank) return [];
+    const now = typeof at === 'function' ? at() : at;
     const th = await thresholdsFor(tank.company_id);
     const open = await openKindsOf(tx, tankId);
     // Offline means nothing heard: a tank replaying its backlog (old readings, received now) is online.

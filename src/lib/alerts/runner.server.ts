@@ -68,17 +68,21 @@ export class BatchEvaluator {
 }
 
 /**
- * One turn of the clock at `now` (epoch ms): catch up tanks with unevaluated readings, run the
- * time-based rules for every tank that has reported, then send what is due.
+ * One turn of the clock: catch up tanks with unevaluated readings, run the time-based rules for
+ * every tank that has reported, then send what is due. `now` is a fixed time (epoch ms; tests turn
+ * the clock on simulated time) or, on the real clock, `Date.now`: a turn over a large fleet during
+ * a backfill takes minutes, and each tank must be judged at the moment it is looked at, or a tank
+ * heard during the turn would look silent since its newest (old) reading.
  */
-export async function runClock(now: number, opts: { companyId?: string; log?: (line: string) => void } = {}): Promise<{ transitions: AppliedTransition[]; mails: number }> {
+export async function runClock(now: number | (() => number), opts: { companyId?: string; log?: (line: string) => void } = {}): Promise<{ transitions: AppliedTransition[]; mails: number }> {
   const log = opts.log ?? console.log;
   const transitions: AppliedTransition[] = [];
   for (const t of await tanksForClock(opts.companyId)) {
     if (t.behind) transitions.push(...(await evaluateTankReadings(t.id)));
     transitions.push(...(await evaluateTankClock(t.id, now)));
   }
-  const mails = (await sendSevereNotices(now, log)) + (await sendHouseholderNotices(now, log)) + (await sendDigests(now, log, { companyId: opts.companyId }));
+  const at = typeof now === 'function' ? now() : now;
+  const mails = (await sendSevereNotices(at, log)) + (await sendHouseholderNotices(at, log)) + (await sendDigests(at, log, { companyId: opts.companyId }));
   return { transitions, mails };
 }
 
@@ -93,7 +97,7 @@ export class AlertClock {
     this.timer = setInterval(() => {
       if (this.busy) return; // a slow turn is skipped rather than piled up
       this.busy = true;
-      runClock(Date.now(), { log: this.log })
+      runClock(Date.now, { log: this.log })
         .catch((err) => this.log(`[alerts] clock turn failed (will retry): ${err instanceof Error ? err.message : String(err)}`))
         .finally(() => { this.busy = false; });
     }, this.intervalMs);

@@ -66,4 +66,22 @@ describe('a burst of readings', () => {
     await runClock(now, { companyId: company!.id, log: () => undefined });
     expect(await openKinds(t.id)).toEqual(['offline']);
   });
+
+  it('on the real clock, judges each tank when it looks at it: a backlog received during a long turn is heard', async () => {
+    const t = await addTank(company!, 15);
+    const tank = { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 };
+    const writer = new TelemetryWriter(getPool());
+    await writer.write({ readings: [{ tank, reading: t.sim.step(Date.now() - 3 * 86_400_000) }] });
+    const turnStarted = Date.now();
+    // The backlog's next day arrives while the turn is still busy with other tanks.
+    await new Promise((r) => setTimeout(r, 20));
+    await writer.write({ readings: [{ tank, reading: t.sim.step(Date.now() - 2 * 86_400_000) }] });
+    // Judged when it is looked at, the tank was heard just now: on line.
+    await runClock(Date.now, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual([]);
+    // Judged at the turn's start, that receipt would be no evidence (simulated-time clocks rely on
+    // that), and the tank would look silent since its newest reading, two days old.
+    await runClock(turnStarted, { companyId: company!.id, log: () => undefined });
+    expect(await openKinds(t.id)).toEqual(['offline']);
+  });
 });
