@@ -3,9 +3,10 @@ import { useEffect, useMemo, useState } from 'react';
 import { withQuery } from '../lib/query/provider';
 import { eventsQuery, exportUrl, readingsQuery, tankQuery } from '../lib/query/tanks.queries';
 import { temperatureColour } from '../lib/ui/temperature-scale';
-import { fmtAgo, fmtC, fmtL, fmtPct } from '../lib/views/format';
+import { severityLabels } from '../lib/alerts/types';
+import { fmtAgo, fmtC, fmtL, fmtPct, fmtTime } from '../lib/views/format';
 import { heatSourceLabels } from '../lib/views/labels';
-import { rangeBounds, type RangeChoice } from '../lib/views/range';
+import { aroundEvidence, rangeBounds, rangeSearch, type RangeChoice } from '../lib/views/range';
 import { Heatmap } from './charts/Heatmap';
 import { LineChart, type LineSeries } from './charts/LineChart';
 import { TemperatureLegend } from './charts/TemperatureLegend';
@@ -22,10 +23,23 @@ import { useNow } from './ui/useOnline';
 
 const resolutionLabel = { raw: 'every reading', '15m': '15-minute means', '1h': 'hourly means' } as const;
 
+const fmtStamp = (ms: number) => new Date(ms).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+/** The range shown, in the viewer's local time. */
+const fmtSpan = (from: number, to: number) => `From ${fmtStamp(from)} to ${fmtStamp(to)}`;
+
+interface Props {
+  tankId: string;
+  /** The range the page's link asked for (already validated on the server), or null for the default. */
+  initialRange?: { from: number; to: number } | null;
+  /** Why the link's range could not be used, when it could not. */
+  rangeProblem?: string | null;
+}
+
 /** One tank in depth: layers over time, runs and draws, standing loss, legionella, commissioning. */
-function TankView({ tankId }: { tankId: string }) {
+function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
   const now = useNow(10_000);
-  const [choice, setChoice] = useState<RangeChoice>({ preset: '24h' });
+  const [choice, setChoice] = useState<RangeChoice>(initialRange ? { preset: 'custom', ...initialRange } : { preset: '24h' });
+  const [problem, setProblem] = useState(rangeProblem);
   const bounds = rangeBounds(choice, now);
   const live = choice.preset !== 'custom';
   const tank = useQuery(tankQuery(tankId));
@@ -36,6 +50,13 @@ function TankView({ tankId }: { tankId: string }) {
   const n = readings.data?.t.length ?? 0;
   useEffect(() => { if (follow || selected >= n) setSelected(n - 1); }, [n, follow, selected]);
   const pick = (i: number) => { setSelected(i); setFollow(i === n - 1); };
+  // The address follows the range shown, so a reload or a copied link opens the same one.
+  const choose = (c: RangeChoice) => {
+    setChoice(c);
+    setFollow(true);
+    setProblem(null);
+    window.history.replaceState(null, '', `${window.location.pathname}${rangeSearch(c, window.location.search)}`);
+  };
 
   const layerSeries = useMemo<LineSeries[]>(() => {
     const s = readings.data;
@@ -84,19 +105,35 @@ function TankView({ tankId }: { tankId: string }) {
           </p>
         </div>
         <div className="card">
-          <h2 className="text-sm font-semibold">{t.attention.length ? 'Needs attention' : 'No problems found'}</h2>
-          <ul className="mt-2 space-y-2">
-            {t.attention.map((a) => <li key={a.kind} className="text-sm"><AttentionBadge kind={a.kind} /> <span className="text-ink-soft">{a.detail}</span></li>)}
+          <h2 className="text-sm font-semibold">{t.attention.length ? 'Needs attention' : 'No open alerts'}</h2>
+          <ul className="mt-2 space-y-3" aria-label="Open alerts">
+            {t.attention.map((a) => (
+              <li key={a.alertId} className="text-sm" data-alert-kind={a.kind}>
+                <p><AttentionBadge kind={a.kind} /> <span className="text-ink-soft">{a.detail}</span></p>
+                <p className="mt-1 flex flex-wrap items-center gap-x-3 text-xs text-ink-muted">
+                  <span>{severityLabels[a.severity]} · since {fmtTime(Date.parse(a.openedAt))}{a.state === 'acknowledged' ? ' · acknowledged' : ''}</span>
+                  <button type="button" className="underline underline-offset-2 hover:text-ink" onClick={() => choose({ preset: 'custom', ...aroundEvidence(a.at) })}>Show on the charts</button>
+                </p>
+              </li>
+            ))}
           </ul>
+          {t.attention.length > 0 && <p className="mt-3 text-xs"><a className="text-dusk underline underline-offset-2" href="/alerts">Acknowledge or resolve in the alert inbox</a></p>}
         </div>
       </section>
 
       <section aria-labelledby="layers-title" className="card min-w-0 space-y-4">
         <div className="flex flex-wrap items-end gap-3">
           <h2 id="layers-title" className="mr-auto text-lg font-semibold">Layers over time</h2>
-          <RangePicker value={choice} onChange={(c) => { setChoice(c); setFollow(true); }} bounds={bounds} />
+          <RangePicker key={choice.preset === 'custom' ? `${choice.from}-${choice.to}` : 'preset'} value={choice} onChange={choose} bounds={bounds} />
           <a className="btn-quiet" href={exportUrl(tankId, bounds.from, bounds.to)} download>Export CSV</a>
         </div>
+        {problem && (
+          <p role="alert" className="flex flex-wrap items-center gap-2 rounded border border-ochre bg-ochre-pale px-3 py-2 text-sm">
+            <span>{problem} Showing the last 24 hours instead.</span>
+            <button type="button" className="ml-auto text-xs underline underline-offset-2" onClick={() => setProblem(null)}>Dismiss</button>
+          </p>
+        )}
+        <p className="text-sm text-ink-soft" data-testid="range-shown">{fmtSpan(bounds.from, bounds.to)}</p>
         {readings.isPending ? <Loading label="Loading readings…" /> : readings.isError && !readings.data ? <ErrorNotice what="the readings" error={readings.error} onRetry={() => readings.refetch()} /> : readings.data && readings.data.t.length === 0 ? (
           <Empty>No readings in this range.</Empty>
         ) : readings.data ? (

@@ -1,14 +1,17 @@
 // `npm run bench:api`: seeds a 50,000-tank company in a throwaway PostgreSQL and prints p50/p95 and
 // answer sizes of the tank list (GET /api/tanks) and of a 7-day readings call, measured on the
-// handlers' query and shaping code (no HTTP, no sign-in), plus the cold fleet-attention snapshot.
-// Figures only: nothing here passes or fails.
+// handlers' query and shaping code (no HTTP, no sign-in), plus the fleet summary computed cold.
+// Figures only: nothing here passes or fails. BENCH_KEEP=1 leaves the database running afterwards
+// (the command to reach it is printed) for EXPLAIN ANALYZE on the same data.
 import { loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
 import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
 
 const TANKS = Number(process.env.BENCH_TANKS ?? 50_000);
 const RUNS = Number(process.env.BENCH_RUNS ?? 40);
-const PORT = Number(process.env.BENCH_PG_PORT ?? 55790);
+// Inside the caller's test port block (base + 90), so it can run beside other contributors' tests.
+const PORT = Number(process.env.BENCH_PG_PORT ?? (process.env.HEATLAYER_TEST_PORT_BASE ? Number(process.env.HEATLAYER_TEST_PORT_BASE) + 90 : 55790));
+const KEEP = process.env.BENCH_KEEP === '1';
 
 const pct = (xs: number[], p: number) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
 async function time<T>(fn: () => Promise<T>): Promise<[number, T]> { const t = performance.now(); const r = await fn(); return [performance.now() - t, r]; }
@@ -22,7 +25,7 @@ async function main() {
     const { db, closeDb } = await import('../../src/db');
     const { sql } = await import('drizzle-orm');
     const { listTanks } = await import('../../src/db/queries/tanks');
-    const { attentionSnapshot, clearAttentionSnapshots } = await import('../../src/db/queries/fleet');
+    const { fleetSummary, clearFleetSummaries } = await import('../../src/db/queries/fleet');
     const { readingsInRange } = await import('../../src/db/queries/readings');
     const { toSeries } = await import('../../src/lib/views/series');
     const { tanksQuerySchema } = await import('../../src/lib/views/contracts');
@@ -39,10 +42,13 @@ async function main() {
       select ${companyId}, h.id, 'BN-' || lpad(substr(h.reference, 4), 6, '0'), 'C210 cylinder', 210, 1.4, 12,
         (case when random() < 0.1 then 'immersion_only' else 'hp_plate' end)::heat_source, 6000
       from homes h where h.company_id = ${companyId}`);
-    // Latest state: 2 % silent, 1 % with an open sensor, the rest reporting a stratified column.
+    // Latest state: 2 % silent, 1 % with an open sensor, the rest reporting a stratified column. The
+    // writer stamps a batch's tanks with one receipt time, so reporting tanks share it in groups:
+    // 300 batches over the last minute (about 160 tanks each).
     await d.execute(sql`
       insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, soc, v40_l, online, compressor, immersion_w)
-      select t.id, now() - interval '1 minute', case when random() < 0.02 then now() - interval '3 hours' else now() - interval '1 minute' end,
+      select t.id, now() - interval '1 minute',
+        case when random() < 0.02 then now() - interval '3 hours' - random() * interval '2 days' else now() - floor(random() * 300) * interval '200 milliseconds' end,
         case when random() < 0.01 then array[1500,2000,null,3000,3500,4000,4500,5000,5200,5400,5500,5600]::smallint[]
              else array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[] end,
         random(), 40 + random() * 200, true, false, 0
@@ -63,23 +69,46 @@ async function main() {
       insert into rollups_15m (tank_id, bucket, samples, layers_avg_cc, top_min_cc, top_max_cc, compressor_samples, immersion_samples)
       select ${tankId}, b, 15, array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[], 5500, 5700, 5, 0
       from generate_series(date_trunc('hour', now()) - interval '7 days', now(), interval '15 minutes') b`);
+    // Open alerts as the rules would raise them for those tanks (offline, sensor fault, short-cycling),
+    // a few more kinds, and three months of resolved history (two a tank) that the list must skip.
+    await d.execute(sql`
+      insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at)
+      select ${companyId}, t.id, k.kind, k.severity, 'open', jsonb_build_object('summary', k.kind::text || ' (bench)', 'facts', '{}'::jsonb, 'at', 0), now() - interval '2 hours'
+      from tanks t join tank_latest_state l on l.tank_id = t.id
+      cross join lateral (values
+        ('offline'::alert_kind, 'warning'::alert_severity, l.last_seen_at < now() - interval '30 minutes'),
+        ('sensor_fault', 'warning', array_position(l.layers_cc, null) is not null),
+        ('short_cycling', 'warning', hashtext(t.id::text) % 50 = 0 and t.heat_source <> 'immersion_only'),
+        ('legionella_risk', 'critical', abs(hashtext(t.id::text)) % 97 = 1),
+        ('heat_loss', 'info', abs(hashtext(t.id::text)) % 199 = 2)
+      ) as k(kind, severity, raised)
+      where t.company_id = ${companyId} and k.raised`);
+    await d.execute(sql`
+      insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at, resolved_at)
+      select ${companyId}, t.id, (array['offline','short_cycling']::alert_kind[])[k], 'warning', 'resolved', '{"summary":"(bench)","facts":{},"at":0}'::jsonb,
+        now() - make_interval(days => 10 + k * 30), now() - make_interval(days => 9 + k * 30)
+      from tanks t, generate_series(1, 2) k where t.company_id = ${companyId}`);
     await d.execute(sql`analyze`);
-    console.log(`seeded ${TANKS.toLocaleString('en-GB')} tanks, ${(8 * TANKS).toLocaleString('en-GB')} compressor runs and 7 days of one tank in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`);
+    const [{ open }] = (await d.execute<{ open: number }>(sql`select count(*)::int as open from alerts where state <> 'resolved'`)).rows;
+    console.log(`seeded ${TANKS.toLocaleString('en-GB')} tanks, ${(8 * TANKS).toLocaleString('en-GB')} compressor runs, ${open.toLocaleString('en-GB')} open alerts (${(2 * TANKS).toLocaleString('en-GB')} resolved) and 7 days of one tank in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`);
 
     console.log(`load average ${loadavg().map((x) => x.toFixed(1)).join(' / ')} on a shared machine: read the figures against it`);
     const scope = { companyId, homeIds: null };
     const cold: number[] = [];
-    for (let i = 0; i < 5; i++) { clearAttentionSnapshots(); cold.push((await time(() => attentionSnapshot(scope)))[0]); }
-    console.log(`attention snapshot (cold, every tank): p50 ${pct(cold, 50).toFixed(0)} ms, max ${Math.max(...cold).toFixed(0)} ms — kept 10 s, served stale up to 60 s while it refreshes`);
+    for (let i = 0; i < 5; i++) { clearFleetSummaries(); cold.push((await time(() => fleetSummary(scope)))[0]); }
+    console.log(`GET /api/fleet/summary (cold, every tank's charge): p50 ${pct(cold, 50).toFixed(0)} ms, max ${Math.max(...cold).toFixed(0)} ms — kept 10 s, served stale up to 60 s while it refreshes`);
 
     const cases: [string, Record<string, string>][] = [
       ['first page, ranked by attention', {}],
+      ['page 400 ranked by attention', { page: '400' }],
       ['page 40 by serial', { sort: 'serial', page: '40' }],
       ['filter short-cycling', { alert: 'short_cycling' }],
+      ['status offline, by town', { status: 'offline', sort: 'town' }],
       ['free text + town', { q: 'BN-0012', town: 'Larkholt' }],
       ['sort by V40, 100 a page', { sort: 'v40', pageSize: '100' }],
+      ['sort by V40, most first', { sort: 'v40', dir: 'desc' }],
+      ['last reading, newest first', { sort: 'lastSeen' }],
     ];
-    await attentionSnapshot(scope);
     for (const [name, qs] of cases) {
       const q = tanksQuerySchema.parse(qs);
       const ms: number[] = [];
@@ -108,7 +137,8 @@ async function main() {
     }
     await closeDb();
   } finally {
-    stopPostgres(server.dataDir);
+    if (KEEP) console.log(`database kept: psql ${server.url}   (stop: runuser -u postgres -- /usr/lib/postgresql/15/bin/pg_ctl stop -D ${server.dataDir})`);
+    else stopPostgres(server.dataDir);
   }
 }
 

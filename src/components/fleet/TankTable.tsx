@@ -19,7 +19,8 @@ const sortKeyOf: Record<string, string> = { attention: 'attention', serial: 'ser
 function useColumns(now: number): ColumnDef<TankListItem>[] {
   return useMemo(() => [
     { id: 'serial', header: 'Serial', cell: ({ row }) => <a className="font-mono font-medium text-dusk underline-offset-2 hover:underline" href={`/tanks/${row.original.id}`}>{row.original.serial}</a> },
-    { id: 'attention', header: 'Needs', cell: ({ row }) => row.original.attention.length ? <span className="flex flex-wrap gap-1">{row.original.attention.map((k) => <AttentionBadge key={k} kind={k} />)}</span> : <span className="text-ink-muted">{statusLabels.ok}</span> },
+    // No open alert on a tank never heard from is not "fine": the rules have had nothing to judge.
+    { id: 'attention', header: 'Needs', cell: ({ row }) => row.original.attention.length ? <span className="flex flex-wrap gap-1">{row.original.attention.map((k) => <AttentionBadge key={k} kind={k} />)}</span> : <span className="text-ink-muted">{row.original.lastSeenAt === null ? 'No readings yet' : statusLabels.ok}</span> },
     { id: 'home', header: 'Home', cell: ({ row }) => (row.original.home ? <span>{row.original.home.reference} · {row.original.home.addressLine}</span> : '—') },
     { id: 'town', header: 'Town', cell: ({ row }) => row.original.home?.town ?? '—' },
     { id: 'soc', header: 'State of charge', cell: ({ row }) => <span className="figure">{fmtPct(row.original.soc)}</span> },

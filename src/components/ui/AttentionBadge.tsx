@@ -8,6 +8,7 @@ const tone: Record<AttentionKind, string> = {
   short_cycling: 'bg-ochre-pale text-ink border border-ochre',
   low_hot_water: 'bg-tide-pale text-tide-deep border border-tide',
   immersion_heavy: 'bg-kiln-pale text-kiln-deep border border-kiln',
+  heat_loss: 'bg-paper-sunk text-kiln-deep border border-dashed border-kiln',
 };
 
 export function AttentionBadge({ kind }: { kind: AttentionKind }) {

@@ -20,6 +20,13 @@ function homeIdsFilter(scope: Scope, column: typeof homes.id | typeof tanks.home
   return scope.homeIds.length > 0 ? inArray(column, [...scope.homeIds]) : sql`false`;
 }
 
+/** The same filter in raw SQL, for queries that name the tanks table `t`. */
+export function scopeWhere(scope: Scope): SQL {
+  if (scope.homeIds === null) return sql`t.company_id = ${scope.companyId}`;
+  if (scope.homeIds.length === 0) return sql`false`;
+  return sql`t.company_id = ${scope.companyId} and t.home_id = any(string_to_array(${scope.homeIds.join(',')}, ',')::uuid[])`;
+}
+
 /** True when the string is a UUID; anything else cannot name a row and is "not found". */
 export function isUuid(value: string | undefined): value is string {
   return !!value && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);

@@ -1,91 +1,163 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { db } from '..';
+import { db, type Db } from '..';
 import type { Scope } from '../../lib/server/authz';
 import type { TankListItem, TankListResponse, TanksQuery } from '../../lib/views/contracts';
-import { statusOf, type AttentionKind } from '../../lib/views/attention';
+import { attentionKinds, byUrgency, statusOf, type AttentionKind } from '../../lib/views/attention';
 import { ccToC, layersFromCc } from '../../lib/views/layers';
 import type { HeatSource } from '../schema/homes';
-import { attentionFacts, attentionSnapshot, scopeWhere, type AttentionSnapshot } from './fleet';
-import { isUuid } from './scope';
+import { isUuid, scopeWhere } from './scope';
+
+// ---------------------------------------------------------------- the tank list
+//
+// What needs attention is the tank's unresolved alerts (src/lib/alerts decides, the `alerts` table
+// keeps it), read here with indexed queries, so a page costs about one page of rows whatever the
+// fleet's size. Each sort is one or two segments that PostgreSQL walks in index order and stops
+// after the page: the ranked list is the tanks with open alerts (a few per cent) by urgency, then
+// the rest by serial; a sort on a latest-state figure is the tanks that have it (index on the
+// figure), then those that do not. Every order ends on the serial, and one page reads its segments
+// in one snapshot, so pages never overlap.
+
+/** Something that runs SQL: the client, or a transaction on it. */
+type Exec = Pick<Db, 'execute'>;
+
+/** The alert kinds in the desk's order, as a literal array: `array_position` gives the urgency. */
+const kindOrder = sql.raw(`array[${attentionKinds.map((k) => `'${k}'`).join(', ')}]::alert_kind[]`);
+
+/** The tank `t` has an unresolved alert (of `kind`); the partial unique index on alerts answers it. */
+const hasOpenAlert = (kind?: AttentionKind): SQL =>
+  sql`exists (select 1 from alerts x where x.tank_id = t.id and x.state <> 'resolved'${kind ? sql` and x.kind = ${kind}` : sql``})`;
+
+/** Each tank of the company with unresolved alerts and its most urgent one (0 = offline). */
+const flaggedTanks = (scope: Scope): SQL => sql`(
+  select x.tank_id, min(array_position(${kindOrder}, x.kind)) - 1 as rank
+  from alerts x where x.company_id = ${scope.companyId} and x.state <> 'resolved' group by x.tank_id)`;
+
+/** A free-text search matching at most this many tanks is handed to the list as their ids. */
+const SEARCH_ID_LIMIT = 2000;
+
+/**
+ * The filters as conditions on tanks `t` alone, so every segment and the count can use them. The
+ * free text is looked up once through the trigram indexes: a few matches become a list of ids
+ * (each later query then reads only those tanks); many stay two hashed subqueries.
+ */
+async function filtersOf(tx: Exec, scope: Scope, q: TanksQuery): Promise<SQL[]> {
+  const where: SQL[] = [scopeWhere(scope)];
+  if (q.q) {
+    // search_text is lower-cased on write; lower() here folds the pattern the same way.
+    const like = sql`lower(${`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`})`;
+    const byTank = sql`select ts.id from tanks ts where ts.company_id = ${scope.companyId} and ts.search_text like ${like}`;
+    const byHome = sql`select hs.id from homes hs where hs.company_id = ${scope.companyId} and hs.search_text like ${like}`;
+    // union all streams, so a search matching most of the fleet stops at the limit.
+    const found = await tx.execute<{ id: string }>(sql`
+      ${byTank} union all select tt.id from tanks tt where tt.home_id in (${byHome}) limit ${SEARCH_ID_LIMIT + 1}`);
+    const ids = [...new Set(found.rows.map((r) => r.id))];
+    if (found.rows.length <= SEARCH_ID_LIMIT) where.push(sql`t.id = any(string_to_array(${ids.join(',')}, ',')::uuid[])`);
+    else where.push(sql`(t.id in (${byTank}) or t.home_id in (${byHome}))`);
+  }
+  if (q.town) where.push(sql`t.home_id in (select ht.id from homes ht where ht.company_id = ${scope.companyId} and ht.town = ${q.town})`);
+  if (q.heatSource) where.push(sql`t.heat_source = ${q.heatSource}`);
+  if (q.status === 'offline') where.push(hasOpenAlert('offline'));
+  if (q.status === 'attention') where.push(sql`${hasOpenAlert()} and not ${hasOpenAlert('offline')}`);
+  if (q.status === 'ok') where.push(sql`not ${hasOpenAlert()}`);
+  if (q.alert) where.push(hasOpenAlert(q.alert));
+  return where;
+}
+
+/** Rows of one stretch of the order: `key` orders them (then the serial), null when only the serial does. */
+interface Segment { from: SQL; where?: SQL; key: SQL | null }
+
+function segmentsOf(scope: Scope, q: TanksQuery, dir: 'asc' | 'desc'): Segment[] {
+  const latest = (col: string): Segment[] => [
+    { from: sql`tanks t join tank_latest_state l on l.tank_id = t.id`, where: sql.raw(`l.${col} is not null`), key: sql.raw(`l.${col}`) },
+    { from: sql`tanks t`, where: sql.raw(`not exists (select 1 from tank_latest_state l where l.tank_id = t.id and l.${col} is not null)`), key: null },
+  ];
+  switch (q.sort) {
+    case 'attention': {
+      const flagged: Segment = { from: sql`tanks t join ${flaggedTanks(scope)} a on a.tank_id = t.id`, key: sql`a.rank` };
+      const rest: Segment = { from: sql`tanks t`, where: sql`not ${hasOpenAlert()}`, key: null };
+      // A filter on problems leaves one of the two (walking the other would find nothing, slowly).
+      if (q.alert || q.status === 'offline' || q.status === 'attention') return [flagged];
+      if (q.status === 'ok') return [rest];
+      // Ascending is the most urgent first; descending puts the tanks with nothing wrong first.
+      return dir === 'asc' ? [flagged, rest] : [rest, flagged];
+    }
+    case 'serial': return [{ from: sql`tanks t`, key: sql`t.serial` }];
+    case 'volume': return [{ from: sql`tanks t`, key: sql`t.volume_l` }];
+    case 'town': return [
+      { from: sql`tanks t join homes h on h.id = t.home_id`, key: sql`h.town` },
+      { from: sql`tanks t`, where: sql`t.home_id is null`, key: null },
+    ];
+    case 'soc': return latest('soc');
+    case 'v40': return latest('v40_l');
+    case 'lastSeen': return latest('last_seen_at');
+  }
+}
 
 type ListRow = {
   id: string; serial: string; model: string; volume_l: number; heat_source: HeatSource;
   home_id: string | null; reference: string | null; town: string | null; address_line: string | null;
-  last_seen_at: Date | null; soc: number | null; v40_l: number | null; top_cc: number | null; kinds: string | null; total: string;
+  last_seen_at: Date | null; soc: number | null; v40_l: number | null; top_cc: number | null; kinds: string | null;
 }
 
-const sortColumns: Record<TanksQuery['sort'], { expr: SQL; dir: 'asc' | 'desc' }> = {
-  attention: { expr: sql`coalesce(a.rank, 99)`, dir: 'asc' },
-  serial: { expr: sql`t.serial`, dir: 'asc' },
-  town: { expr: sql`h.town`, dir: 'asc' },
-  soc: { expr: sql`l.soc`, dir: 'asc' },
-  v40: { expr: sql`l.v40_l`, dir: 'asc' },
-  lastSeen: { expr: sql`l.last_seen_at`, dir: 'desc' },
-  volume: { expr: sql`t.volume_l`, dir: 'asc' },
-};
-
-/** The flagged tanks of a snapshot as three parallel text lists, joined in SQL with unnest. */
-function attentionArrays(snap: AttentionSnapshot): { ids: string; ranks: string; kinds: string } {
-  const ids: string[] = [];
-  const ranks: number[] = [];
-  const kinds: string[] = [];
-  for (const e of snap.byTank.values()) { ids.push(e.tankId); ranks.push(e.rank); kinds.push(e.kinds.join(' ')); }
-  return { ids: ids.join(','), ranks: ranks.join(','), kinds: kinds.join(',') };
-}
+/** The columns of a list row for the tanks `t` of a page (homes `h`, latest state `l` joined). */
+const listColumns = sql`t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
+  l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc,
+  (select string_agg(x.kind::text, ' ' order by array_position(${kindOrder}, x.kind)) from alerts x where x.tank_id = t.id and x.state <> 'resolved') as kinds`;
+const listJoins = sql`left join homes h on h.id = t.home_id left join tank_latest_state l on l.tank_id = t.id`;
 
 /**
  * The scope's tanks with their latest state and what needs attention, filtered, sorted and paged
- * in SQL. Reads the latest-state table, never readings.
+ * in SQL. Reads the latest-state and alerts tables, never readings.
  */
 export async function listTanks(scope: Scope, q: TanksQuery): Promise<TankListResponse> {
-  const snap = await attentionSnapshot(scope);
-  const a = attentionArrays(snap);
-  const where: SQL[] = [scopeWhere(scope)];
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    where.push(sql`(t.serial ilike ${like} or t.model ilike ${like} or h.reference ilike ${like} or h.address_line ilike ${like} or h.postcode ilike ${like} or h.town ilike ${like} or h.contact_name ilike ${like})`);
-  }
-  if (q.town) where.push(sql`h.town = ${q.town}`);
-  if (q.heatSource) where.push(sql`t.heat_source = ${q.heatSource}`);
-  if (q.status === 'offline') where.push(sql`a.rank = 0`);
-  if (q.status === 'attention') where.push(sql`a.rank > 0`);
-  if (q.status === 'ok') where.push(sql`a.tank_id is null`);
-  if (q.alert) where.push(sql`${q.alert} = any(string_to_array(a.kinds, ' '))`);
-  const sort = sortColumns[q.sort];
-  const dir = q.dir ?? sort.dir;
-  const order = sql.join([sql`${sort.expr} ${sql.raw(dir)} nulls last`, sql`t.serial asc`], sql`, `);
-  const res = await db().execute<ListRow>(sql`
-    select t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
-      l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc, a.kinds, 0 as total
-    from tanks t
-    left join homes h on h.id = t.home_id
-    left join tank_latest_state l on l.tank_id = t.id
-    left join unnest(
-      string_to_array(${a.ids}, ',')::uuid[], string_to_array(${a.ranks}, ',')::int[], string_to_array(${a.kinds}, ',')
-    ) as a(tank_id, rank, kinds) on a.tank_id = t.id
-    where ${sql.join(where, sql` and `)}
-    order by ${order}
-    limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`);
-  // Counted apart from the page: a window count would make PostgreSQL build every row before the LIMIT.
-  const total = res.rows.length < q.pageSize && (q.page === 1 || res.rows.length > 0) ? (q.page - 1) * q.pageSize + res.rows.length : await countTanks(where, a, q);
-  return { items: res.rows.map(toItem), total, page: q.page, pageSize: q.pageSize };
+  const dir = q.dir ?? (q.sort === 'lastSeen' ? 'desc' : 'asc');
+  const offset = (q.page - 1) * q.pageSize;
+  return db().transaction(async (tx) => {
+    const where = await filtersOf(tx, scope, q);
+    // The page is cut from the segments one after the other: a later one is read only when the
+    // earlier ones end inside the page (a segment read to its end would cost a walk of the fleet).
+    const ids: string[] = [];
+    let skip = offset;
+    for (const segment of segmentsOf(scope, q, dir)) {
+      const got = await segmentIds(tx, segment, where, dir, skip, q.pageSize - ids.length);
+      ids.push(...got);
+      if (ids.length === q.pageSize) break;
+      skip = got.length > 0 ? 0 : Math.max(0, skip - (await countTanks(tx, segment, where)));
+    }
+    const items = await listTanksByIds(tx, ids);
+    // Counted apart from the page, and only when the page does not tell.
+    const full = items.length === q.pageSize || (items.length === 0 && q.page > 1);
+    const total = full ? await countTanks(tx, { from: sql`tanks t` }, where) : offset + items.length;
+    return { items, total, page: q.page, pageSize: q.pageSize };
+  }, { isolationLevel: 'repeatable read', accessMode: 'read only' });
 }
 
-/** Tanks matching the filters; joins only what the filters read. */
-async function countTanks(where: SQL[], a: { ids: string; ranks: string; kinds: string }, q: TanksQuery): Promise<number> {
-  const homesJoin = q.q || q.town ? sql`left join homes h on h.id = t.home_id` : sql``;
-  const attentionJoin = q.status || q.alert
-    ? sql`left join unnest(string_to_array(${a.ids}, ',')::uuid[], string_to_array(${a.ranks}, ',')::int[], string_to_array(${a.kinds}, ','))
-      as a(tank_id, rank, kinds) on a.tank_id = t.id`
-    : sql``;
-  const res = await db().execute<{ n: number }>(sql`
-    select count(*)::int as n from tanks t ${homesJoin} ${attentionJoin}
-    where ${sql.join(where, sql` and `)}`);
+/** One segment's tank ids in its order, from `skip`, at most `limit`. */
+async function segmentIds(tx: Exec, s: Segment, where: SQL[], dir: 'asc' | 'desc', skip: number, limit: number): Promise<string[]> {
+  const order = s.key ? sql`${s.key} ${sql.raw(dir)}, t.serial asc` : sql`t.serial asc`;
+  const res = await tx.execute<{ id: string }>(sql`
+    select t.id from ${s.from} where ${sql.join(s.where ? [...where, s.where] : where, sql` and `)}
+    order by ${order} limit ${limit} offset ${skip}`);
+  return res.rows.map((r) => r.id);
+}
+
+async function countTanks(tx: Exec, s: Pick<Segment, 'from' | 'where'>, where: SQL[]): Promise<number> {
+  const res = await tx.execute<{ n: number }>(sql`
+    select count(*)::int as n from ${s.from} where ${sql.join(s.where ? [...where, s.where] : where, sql` and `)}`);
   return res.rows[0]?.n ?? 0;
 }
 
+/** List rows of the tanks `ids`, in that order. */
+async function listTanksByIds(tx: Exec, ids: readonly string[]): Promise<TankListItem[]> {
+  if (ids.length === 0) return [];
+  const res = await tx.execute<ListRow>(sql`
+    select ${listColumns} from unnest(string_to_array(${ids.join(',')}, ',')::uuid[]) with ordinality as p(id, n)
+    join tanks t on t.id = p.id ${listJoins} order by p.n`);
+  return res.rows.map(toItem);
+}
+
 function toItem(r: ListRow): TankListItem {
-  const attention = (r.kinds ? r.kinds.split(' ') : []) as AttentionKind[];
+  const attention = byUrgency((r.kinds ? r.kinds.split(' ') : []) as AttentionKind[]);
   return {
     id: r.id, serial: r.serial, model: r.model, volumeL: r.volume_l, heatSource: r.heat_source,
     home: r.home_id ? { id: r.home_id, reference: r.reference!, town: r.town!, addressLine: r.address_line! } : null,
@@ -94,19 +166,20 @@ function toItem(r: ListRow): TankListItem {
   };
 }
 
-/** Tanks by id in the order given (the triage queue), from the same list query shape. */
-export async function listTanksByIds(scope: Scope, ids: readonly string[], snap: AttentionSnapshot): Promise<TankListItem[]> {
-  if (ids.length === 0) return [];
+/**
+ * The tanks to deal with first: unresolved alerts, the most urgent kind first, then the tank with
+ * more problems, then the one whose oldest alert has waited longest.
+ */
+export async function attentionQueue(scope: Scope, limit: number): Promise<TankListItem[]> {
   const res = await db().execute<ListRow>(sql`
-    select t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
-      l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc, null as kinds, 0 as total
-    from tanks t left join homes h on h.id = t.home_id left join tank_latest_state l on l.tank_id = t.id
-    where ${scopeWhere(scope)} and t.id = any(string_to_array(${ids.join(',')}, ',')::uuid[])`);
-  const byId = new Map(res.rows.map((r) => [r.id, r]));
-  return ids.flatMap((id) => {
-    const r = byId.get(id);
-    return r ? [toItem({ ...r, kinds: snap.byTank.get(id)?.kinds.join(' ') ?? null })] : [];
-  });
+    with q as (
+      select x.tank_id, min(array_position(${kindOrder}, x.kind)) as rank, count(*) as n, min(x.opened_at) as since
+      from alerts x join tanks t on t.id = x.tank_id
+      where x.company_id = ${scope.companyId} and x.state <> 'resolved' and ${scopeWhere(scope)}
+      group by x.tank_id order by rank, n desc, since, x.tank_id limit ${limit})
+    select ${listColumns} from q join tanks t on t.id = q.tank_id ${listJoins}
+    order by q.rank, q.n desc, q.since, q.tank_id`);
+  return res.rows.map(toItem);
 }
 
 /** Towns the scope's homes are in, for the filter. */
@@ -159,12 +232,6 @@ export async function getTank(scope: Scope, id: string): Promise<TankRecord | nu
       compressor: r.compressor, immersionW: r.l_immersion_w, powerW: r.power_w, drawLpm: r.draw_dlpm === null ? null : r.draw_dlpm / 10, soc: r.soc, v40L: r.v40_l,
     } : null,
   };
-}
-
-/** The attention facts of one tank, computed now (not from the fleet snapshot). */
-export async function tankAttentionFacts(tankId: string) {
-  const [f] = await attentionFacts(sql`t.id = ${tankId}`);
-  return f ?? null;
 }
 
 /** The first tank of each home a householder may see (the home page shows one cylinder). */

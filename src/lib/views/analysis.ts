@@ -1,6 +1,6 @@
 // Standing loss from quiet periods and legionella exposure over a window, for the tank view.
 import { erpClass, legionellaExposure, standingLoss, ThermalInputError, type CoolingSample } from '../thermal';
-import { attentionThresholds } from './attention';
+import { defaultThresholds } from '../alerts/thresholds';
 import type { TankAnalysis } from './contracts';
 import { complete, layerThicknesses, type TankShape } from './layers';
 import type { SeriesRow } from './series';
@@ -34,7 +34,11 @@ export function quietPeriods(rows: readonly SeriesRow[], maxGapMs = 15 * 60_000)
   return out.sort((a, b) => (b[b.length - 1]!.t - b[0]!.t) - (a[a.length - 1]!.t - a[0]!.t));
 }
 
-export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { declaredLossW: number | null }, window: { from: Date; to: Date }): TankAnalysis {
+/** Legionella exposure is counted against the alert rule's temperature and hold (the company's settings). */
+export interface LegionellaSettings { thresholdC: number; holdMin: number }
+const defaultLegionella: LegionellaSettings = { thresholdC: defaultThresholds.legionellaC, holdMin: defaultThresholds.legionellaHoldMin };
+
+export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { declaredLossW: number | null }, window: { from: Date; to: Date }, legion: LegionellaSettings = defaultLegionella): TankAnalysis {
   const weights = layerThicknesses(tank.sensorHeightsM, tank.heightM);
   const declaredClass = tank.declaredLossW !== null ? erpClass({ volumeL: tank.volumeL, standingLossW: tank.declaredLossW }) : null;
   let standing: TankAnalysis['standingLoss'] = null;
@@ -64,9 +68,9 @@ export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { decl
   const sameLength = usable.filter((r) => r.layersC.length === (usable[0]?.layersC.length ?? 0));
   let legionella: TankAnalysis['legionella'] = null;
   if (sameLength.length > 0) {
-    const holdMin = attentionThresholds.legionellaHoldHours * 60;
-    const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC: attentionThresholds.legionellaC, holdMin, heightsM: weights });
-    legionella = { thresholdC: attentionThresholds.legionellaC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
+    const { thresholdC, holdMin } = legion;
+    const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC, holdMin, heightsM: weights });
+    legionella = { thresholdC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
   }
   return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella };
 }

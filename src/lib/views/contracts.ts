@@ -5,6 +5,7 @@ import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } fro
 import { heatSourceValues } from './labels';
 import type { HeatSource } from '../../db/schema/homes';
 import type { ColumnFigures } from './layers';
+import type { AlertSeverity } from '../alerts/types';
 
 export const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
 export type TankSortKey = (typeof tankSortKeys)[number];
@@ -77,6 +78,37 @@ export const eventsQuerySchema = z.object({ from: isoTime('from').optional(), to
   return { from, to };
 });
 
+/** Longest range a link may open (the custom range's limit, and what the events endpoint serves). */
+export const maxLinkSpanMs = 62 * 86_400_000;
+
+/** `?from=&to=` on a tank page (alert links carry them): both ISO 8601 with a zone, from before to. */
+export const linkRangeSchema = z.object({
+  from: z.string({ required_error: 'from is missing (the link gives to without it).' }).pipe(isoTime('from')),
+  to: z.string({ required_error: 'to is missing (the link gives from without it).' }).pipe(isoTime('to')),
+}).transform((v, ctx) => {
+  const from = Date.parse(v.from);
+  const to = Date.parse(v.to);
+  if (from >= to) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+  else if (to - from > maxLinkSpanMs) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: `The range may span at most ${maxLinkSpanMs / 86_400_000} days.` });
+  return { from, to };
+});
+
+/**
+ * The range a tank page opens on: the link's, or none (the default) when it gives neither; a link
+ * whose range cannot be used also gives none, with a sentence saying why (naming the field).
+ */
+export function rangeFromLink(params: URLSearchParams): { range: { from: number; to: number } | null; problem: string | null } {
+  // A '+01:00' offset typed into a link unencoded arrives as ' 01:00'.
+  const param = (k: string) => params.get(k)?.replace(/ (\d{2}:?\d{2})$/, '+$1') ?? null;
+  const from = param('from');
+  const to = param('to');
+  if (from === null && to === null) return { range: null, problem: null };
+  const parsed = linkRangeSchema.safeParse({ from: from ?? undefined, to: to ?? undefined });
+  if (parsed.success) return { range: parsed.data, problem: null };
+  const issue = parsed.error.issues[0]!;
+  return { range: null, problem: `The link's time range cannot be shown: ${issue.message}` };
+}
+
 /** A query string as a plain object (repeated keys: the last wins). */
 export const searchParams = (url: URL): Record<string, string> => Object.fromEntries(url.searchParams.entries());
 
@@ -98,7 +130,15 @@ export interface TankListItem {
 }
 export interface TankListResponse { items: TankListItem[]; total: number; page: number; pageSize: number }
 
-export interface AttentionItem { kind: AttentionKind; label: string; detail: string }
+/** One unresolved alert of the tank, as the alert inbox holds it. */
+export interface AttentionItem {
+  kind: AttentionKind; label: string;
+  /** The alert's evidence in one sentence. */
+  detail: string;
+  alertId: string; severity: AlertSeverity; state: 'open' | 'acknowledged'; openedAt: string;
+  /** Telemetry time the evidence points at, epoch ms. */
+  at: number;
+}
 
 export interface TankDetail {
   id: string;

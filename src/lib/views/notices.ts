@@ -11,6 +11,7 @@ export function householdNotices(t: Pick<TankDetail, 'attention' | 'analysis' | 
   if (kinds.has('sensor_fault')) out.push({ tone: 'info', text: 'One of the temperature sensors in your cylinder is not working properly, so the amounts shown may be less exact. We have been told.' });
   if (kinds.has('short_cycling')) out.push({ tone: 'info', text: 'Your heat pump is switching on and off more often than it should, which wears it out. We have been told and may arrange a visit.' });
   if (kinds.has('immersion_heavy')) out.push({ tone: 'info', text: 'The electric heater in your cylinder has been doing much of the heating lately, which costs more than the heat pump. We have been told.' });
+  if (kinds.has('heat_loss')) out.push({ tone: 'info', text: 'Your cylinder seems to be losing heat faster than it should when nobody uses hot water, which wastes energy. We have been told and may check its insulation and pipes.' });
   if (kinds.has('low_hot_water')) out.push({ tone: 'info', text: 'Hot water is low right now. If you need it soon, use the button to heat it now.' });
   return out;
 }

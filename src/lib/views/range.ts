@@ -23,3 +23,21 @@ export function parseCustomRange(fromLocal: string, toLocal: string): { from: nu
   if (to - from > 62 * 86_400_000) return { field: 'to', message: 'Choose at most 62 days.' };
   return { from, to };
 }
+
+/** The span an alert opens on: six hours either side of the time its evidence points at (as alert links do). */
+export function aroundEvidence(at: number): { from: number; to: number } {
+  return { from: at - 6 * 3_600_000, to: at + 6 * 3_600_000 };
+}
+
+/** The page's query string for a choice: a custom range is kept in the address (so it can be shared), a preset is not. */
+export function rangeSearch(choice: RangeChoice, current: string): string {
+  const s = new URLSearchParams(current);
+  s.delete('from');
+  s.delete('to');
+  if (choice.preset === 'custom') {
+    s.set('from', new Date(choice.from).toISOString());
+    s.set('to', new Date(choice.to).toISOString());
+  }
+  const qs = s.toString();
+  return qs ? `?${qs}` : '';
+}

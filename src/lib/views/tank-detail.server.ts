@@ -1,11 +1,14 @@
-// Assembles one tank's answer for `GET /api/tanks/{id}`: record, latest figures, attention with its
-// evidence, commissioning summary and the 7-day analysis. Server-only (reads through src/db/queries).
-import { getTank, tankAttentionFacts, type TankRecord } from '../../db/queries/tanks';
+// Assembles one tank's answer for `GET /api/tanks/{id}`: record, latest figures, what needs attention
+// (its unresolved alerts with their evidence, the same rows the triage and the inbox read),
+// commissioning summary and the 7-day analysis. Server-only (reads through src/db/queries).
+import { listAlerts, thresholdsFor } from '../../db/queries/alerts';
+import { getTank, type TankRecord } from '../../db/queries/tanks';
 import { readingsInRange } from '../../db/queries/readings';
+import type { Thresholds } from '../alerts/thresholds';
 import { HttpError, type Scope } from '../server/authz';
 import { erpClass } from '../thermal';
 import { analyseTank } from './analysis';
-import { attentionFor, attentionLabels, attentionThresholds as th, sensorFaultIn, statusOf, type AttentionKind } from './attention';
+import { attentionLabels, attentionPriority, statusOf } from './attention';
 import type { AttentionItem, TankAnalysis, TankDetail } from './contracts';
 import { columnFigures, sensorPositions } from './layers';
 import { energyToFullKWh } from './refill';
@@ -20,34 +23,35 @@ export async function tankOr404(scope: Scope, id: string): Promise<TankRecord> {
 const ANALYSIS_TTL_MS = 5 * 60_000;
 const analyses = new Map<string, { at: number; value: Promise<TankAnalysis> }>();
 
-function analysisFor(tank: TankRecord): Promise<TankAnalysis> {
+function analysisFor(tank: TankRecord, th: Thresholds): Promise<TankAnalysis> {
   const hit = analyses.get(tank.id);
   if (hit && Date.now() - hit.at < ANALYSIS_TTL_MS) return hit.value;
   const to = new Date();
   const from = new Date(to.getTime() - th.legionellaWindowDays * 86_400_000);
-  const value = readingsInRange(tank.id, from, to, 'raw').then((rows) => analyseTank(rows, { ...tank }, { from, to }));
+  // Legionella exposure against the company's own alert settings, so the page and the alert agree.
+  const legionella = { thresholdC: th.legionellaC, holdMin: th.legionellaHoldMin };
+  const value = readingsInRange(tank.id, from, to, 'raw').then((rows) => analyseTank(rows, { ...tank }, { from, to }, legionella));
   value.catch(() => analyses.delete(tank.id));
   analyses.set(tank.id, { at: Date.now(), value });
   if (analyses.size > 2000) analyses.delete(analyses.keys().next().value!);
   return value;
 }
 
-function detailOf(kind: AttentionKind, tank: TankRecord, facts: NonNullable<Awaited<ReturnType<typeof tankAttentionFacts>>>): string {
-  switch (kind) {
-    case 'offline': return tank.latest?.lastSeenAt ? `Nothing received since ${tank.latest.lastSeenAt.toISOString().replace('T', ' ').slice(0, 16)} UTC (limit ${th.offlineAfterMin} min).` : 'Nothing has ever been received from this tank.';
-    case 'sensor_fault': return sensorFaultIn(facts.layersC ?? []) ?? 'A sensor reading is out of range.';
-    case 'legionella_risk': return `The top sensor did not stay at or above ${th.legionellaC} °C for a whole hour in the last ${th.legionellaWindowDays} days (HSE HSG274 Part 2 asks for storage at ${th.legionellaC} °C).`;
-    case 'short_cycling': return `More than one compressor start within ${th.minStartGapMin} min in the last ${th.shortCycleWindowH} h.`;
-    case 'low_hot_water': return `V40 ${Math.round(facts.v40L ?? 0)} L, below ${th.lowV40L} L (the 814/2013 minimum for load profile M).`;
-    case 'immersion_heavy': return `The immersion used ${Math.round((facts.immersionWh / (facts.immersionWh + facts.compressorWh)) * 100)} % of the electricity for hot water over ${th.legionellaWindowDays} days (limit ${Math.round(th.immersionShareMax * 100)} %).`;
-  }
+/** The tank's unresolved alerts, most urgent first (the desk's order). */
+async function openAlertsOf(scope: Scope, tankId: string): Promise<AttentionItem[]> {
+  const { items } = await listAlerts(scope, { tankId, state: 'active' });
+  return items
+    .sort((a, b) => attentionPriority[a.kind] - attentionPriority[b.kind])
+    .map((a) => ({
+      kind: a.kind, label: attentionLabels[a.kind], detail: a.evidence.summary, alertId: a.id, severity: a.severity,
+      state: a.state as AttentionItem['state'], openedAt: a.openedAt, at: a.evidence.at,
+    }));
 }
 
 export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> {
   const tank = await tankOr404(scope, id);
-  const [facts, analysis] = await Promise.all([tankAttentionFacts(tank.id), analysisFor(tank)]);
-  const kinds = facts ? attentionFor(facts, Date.now()) : [];
-  const attention: AttentionItem[] = kinds.map((k) => ({ kind: k, label: attentionLabels[k], detail: detailOf(k, tank, facts!) }));
+  const th = await thresholdsFor(scope.companyId);
+  const [attention, analysis] = await Promise.all([openAlertsOf(scope, tank.id), analysisFor(tank, th)]);
   const layersC = tank.latest?.layersC ?? [];
   const figures = layersC.length ? columnFigures(layersC, tank) : null;
   return {
@@ -62,7 +66,7 @@ export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> 
     } : null,
     figures,
     toFullKWh: layersC.length ? energyToFullKWh(layersC, tank) : null,
-    status: statusOf(kinds),
+    status: statusOf(attention.map((a) => a.kind)),
     attention,
     commissioning: {
       commissionedAt: tank.commissionedAt?.toISOString() ?? null, heatSource: tank.heatSource, targetC: tank.targetC, hysteresisK: tank.hysteresisK,

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createAccount } from '../../support/accounts';
 import { closeTestDb } from '../../support/db';
 import { signIn, signInAs } from '../../support/session';
-import { createFixture, dropFixture, healthyLayersCc, type Fixture } from './fixtures';
+import { createFixture, dropFixture, healthyLayersCc, LEAK_EVIDENCE_AGO_MS, type Fixture } from './fixtures';
 
 const base = () => process.env.TEST_BASE_URL!;
 let fx: Fixture;
@@ -24,20 +24,14 @@ beforeAll(async () => {
     signInAs(base(), 'operator'), signInAs(base(), 'engineer'), signInAs(base(), 'householder'),
     signIn(base(), own.email, own.password), signInAs(base(), 'operator', 'orrin-bay'),
   ]);
-  // The fleet's attention snapshot is shared for a few seconds; wait until it includes the new tanks.
-  const until = Date.now() + 45_000;
-  while ((await (await get(`/api/tanks?q=${fx.prefix}&alert=sensor_fault`, 'operator')).json()).total !== 1) {
-    if (Date.now() > until) throw new Error('The attention snapshot never included the fixture tanks.');
-    await new Promise((r) => setTimeout(r, 1000));
-  }
 }, 120_000);
 afterAll(async () => { if (fx) await dropFixture(fx); await closeTestDb(); });
 
 describe('GET /api/tanks', () => {
   it('lists the company tanks with latest state, filtered by free text', async () => {
     const body = await getJson(`/api/tanks?q=${fx.prefix}&sort=serial`, 'operator');
-    expect(body).toMatchObject({ total: 4, page: 1, pageSize: 25 });
-    expect(body.items.map((i: any) => i.serial)).toEqual(['A', 'B', 'C', 'D'].map((n) => `${fx.prefix}-${n}`));
+    expect(body).toMatchObject({ total: 5, page: 1, pageSize: 25 });
+    expect(body.items.map((i: any) => i.serial)).toEqual(['A', 'B', 'C', 'D', 'E'].map((n) => `${fx.prefix}-${n}`));
     const a = body.items[0];
     expect(a).toMatchObject({ id: fx.healthy.id, model: 'C210 cylinder', volumeL: 210, heatSource: 'hp_plate', status: 'ok', attention: [], topC: 55 });
     expect(a.home).toMatchObject({ town: 'Tarnfield', reference: `${fx.prefix}-H-A` });
@@ -48,19 +42,57 @@ describe('GET /api/tanks', () => {
     expect(await serials('alert=short_cycling')).toBe('D');
     expect(await serials('status=offline')).toBe('C');
     expect(await serials('status=ok')).toBe('A');
-    expect(await serials('status=attention')).toBe('BD');
+    expect(await serials('status=attention')).toBe('BDE');
+    expect(await serials('alert=heat_loss')).toBe('E');
     expect(await serials('town=Larkholt')).toBe('C');
     expect(await serials('heatSource=immersion_only')).toBe('C');
   });
   it('sorts and pages on the server', async () => {
     const p2 = await getJson(`/api/tanks?q=${fx.prefix}&sort=serial&dir=desc&pageSize=2&page=2`, 'operator');
-    expect(p2).toMatchObject({ total: 4, page: 2, pageSize: 2 });
-    expect(p2.items.map((i: any) => i.serial.slice(-1))).toEqual(['B', 'A']);
+    expect(p2).toMatchObject({ total: 5, page: 2, pageSize: 2 });
+    expect(p2.items.map((i: any) => i.serial.slice(-1))).toEqual(['C', 'B']);
     const ranked = await getJson(`/api/tanks?q=${fx.prefix}`, 'operator');
-    // Most urgent first: offline, then the sensor fault, then short-cycling, then the healthy one.
-    expect(ranked.items.map((i: any) => i.serial.slice(-1))).toEqual(['C', 'B', 'D', 'A']);
+    // Most urgent first: offline, the sensor fault, short-cycling, heat loss, then the healthy one.
+    expect(ranked.items.map((i: any) => i.serial.slice(-1))).toEqual(['C', 'B', 'D', 'E', 'A']);
+    const reversed = await getJson(`/api/tanks?q=${fx.prefix}&dir=desc`, 'operator');
+    expect(reversed.items.map((i: any) => i.serial.slice(-1))).toEqual(['A', 'E', 'D', 'B', 'C']);
     const past = await getJson(`/api/tanks?q=${fx.prefix}&page=9`, 'operator');
-    expect(past).toMatchObject({ items: [], total: 4 });
+    expect(past).toMatchObject({ items: [], total: 5 });
+  });
+  it('pages the ranked list across its two parts (tanks with open alerts, then the rest) without a gap or a repeat', async () => {
+    const pages = await Promise.all([1, 2, 3].map((p) => getJson(`/api/tanks?q=${fx.prefix}&pageSize=2&page=${p}`, 'operator')));
+    expect(pages.map((p) => p.items.map((i: any) => i.serial.slice(-1)).join(''))).toEqual(['CB', 'DE', 'A']);
+    expect(pages.map((p) => p.total)).toEqual([5, 5, 5]);
+  });
+  it('sorts by a latest-state figure with the tanks that have none last, in either direction', async () => {
+    // V40 of the fixture columns (thermal core): the healthy tank's top two layers count, the faulty one has none.
+    const asc = await getJson(`/api/tanks?q=${fx.prefix}&sort=v40`, 'operator');
+    const desc = await getJson(`/api/tanks?q=${fx.prefix}&sort=v40&dir=desc`, 'operator');
+    const v40 = (b: any) => b.items.map((i: any) => i.v40L);
+    const known = v40(asc).filter((v: number | null) => v !== null);
+    expect(known).toEqual([...known].sort((a, b) => a - b));
+    expect(v40(asc).at(-1)).toBeNull();
+    expect(v40(desc).at(-1)).toBeNull();
+    expect(v40(desc).slice(0, -1)).toEqual([...known].sort((a, b) => b - a));
+    expect(asc.items.at(-1).serial).toBe(fx.faulty.serial);
+    // Equal figures fall back to the serial: C, D and E share a column.
+    const same = asc.items.filter((i: any) => i.v40L === asc.items.find((x: any) => x.serial === fx.silent.serial).v40L).map((i: any) => i.serial.slice(-1));
+    expect(same).toEqual(expect.arrayContaining(['C', 'D', 'E']));
+    expect(same).toEqual([...same].sort());
+    const seen = await getJson(`/api/tanks?q=${fx.prefix}&sort=lastSeen&pageSize=2&page=3`, 'operator');
+    // Newest first: A, B, D and E a minute ago (by serial), C two hours ago.
+    expect(seen.items.map((i: any) => i.serial.slice(-1))).toEqual(['C']);
+    expect(seen.total).toBe(5);
+  });
+  it('finds tanks by free text in the serial, the home reference and the address, whatever the case', async () => {
+    const found = async (q: string) => (await getJson(`/api/tanks?q=${encodeURIComponent(q)}&sort=serial`, 'operator')).items.map((i: any) => i.serial);
+    expect(await found(`${fx.prefix.toLowerCase()}-h-c`)).toEqual([fx.silent.serial]);
+    expect(await found(`${fx.prefix}-B`)).toEqual([fx.faulty.serial]);
+    expect(await found(`E Test Row`)).toContain(fx.leaky.serial);
+    // % and _ are plain characters, not wildcards; a match never spans two fields.
+    expect(await found(`${fx.prefix}%`)).toEqual([]);
+    expect(await found(`${fx.prefix}-_`)).toEqual([]);
+    expect(await found(`${fx.prefix}-H-A A Test`)).toEqual([]);
   });
   it('refuses a bad query string naming the field', async () => {
     for (const [qs, field] of [['pageSize=0', 'pageSize'], ['page=abc', 'page'], ['sort=colour', 'sort'], ['alert=gremlins', 'alert'], ['heatSource=coal', 'heatSource']]) {
@@ -83,11 +115,43 @@ describe('GET /api/tanks/{id}', () => {
     expect(t.status).toBe('ok');
     expect(t.analysis.legionella.readings).toBe(2880);
   });
-  it('explains what is wrong with a faulty tank and gives no figures from a broken column', async () => {
+  it('explains what is wrong with a faulty tank from its open alert and gives no figures from a broken column', async () => {
     const t = await getJson(`/api/tanks/${fx.faulty.id}`, 'operator');
     expect(t.attention.map((a: any) => a.kind)).toEqual(['sensor_fault']);
-    expect(t.attention[0].detail).toMatch(/Sensor 2/);
+    expect(t.attention[0].detail).toMatch(/^Sensor 2 \(from the bottom\) gives no reading since /);
     expect(t.figures).toBeNull();
+  });
+});
+
+describe('the fleet list, the tank page and the alert inbox agree', () => {
+  it('shows a heat-loss alert in the list, its filter and the triage queue counts, and on the tank page', async () => {
+    const list = await getJson(`/api/tanks?q=${fx.prefix}&alert=heat_loss`, 'operator');
+    expect(list.items).toEqual([expect.objectContaining({ id: fx.leaky.id, status: 'attention', attention: ['heat_loss'] })]);
+    const summary = await getJson('/api/fleet/summary', 'operator');
+    expect(summary.byAttention.heat_loss).toBeGreaterThanOrEqual(1);
+    const t = await getJson(`/api/tanks/${fx.leaky.id}`, 'engineer');
+    expect(t.status).toBe('attention');
+    expect(t.attention).toEqual([expect.objectContaining({
+      kind: 'heat_loss', label: 'Heat loss above declared', severity: 'info', state: 'open',
+      detail: expect.stringMatching(/^Cooling curves give a standing loss of 92 W and 95 W at 45 K/),
+      at: fx.now.getTime() - LEAK_EVIDENCE_AGO_MS,
+    })]);
+    const inbox = await getJson(`/api/alerts?tankId=${fx.leaky.id}`, 'operator');
+    expect(inbox.items.map((a: any) => a.id)).toEqual([t.attention[0].alertId]);
+  });
+  it('keeps an acknowledged alert and drops a resolved one, at once, in both', async () => {
+    const [open] = (await getJson(`/api/tanks/${fx.cycling.id}`, 'operator')).attention;
+    const act = (path: string, method: string, body: object) => fetch(`${base()}${path}`, {
+      method, headers: { cookie: cookies.operator!, 'content-type': 'application/json', origin: base() }, body: JSON.stringify(body),
+    });
+    expect((await act('/api/alerts/acknowledge', 'POST', { ids: [open.alertId] })).status).toBe(200);
+    expect((await getJson(`/api/tanks/${fx.cycling.id}`, 'operator')).attention[0]).toMatchObject({ alertId: open.alertId, state: 'acknowledged' });
+    expect((await getJson(`/api/tanks?q=${fx.prefix}&alert=short_cycling`, 'operator')).total).toBe(1);
+    expect((await act(`/api/alerts/${open.alertId}`, 'PATCH', { action: 'resolve', note: 'Checked on site (test).' })).status).toBe(200);
+    const after = await getJson(`/api/tanks/${fx.cycling.id}`, 'operator');
+    expect(after).toMatchObject({ status: 'ok', attention: [] });
+    expect((await getJson(`/api/tanks?q=${fx.prefix}&alert=short_cycling`, 'operator')).total).toBe(0);
+    expect((await getJson(`/api/tanks?q=${fx.prefix}&status=ok&sort=serial`, 'operator')).items.map((i: any) => i.serial.slice(-1))).toEqual(['A', 'D']);
   });
 });
 

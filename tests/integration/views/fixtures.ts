@@ -4,10 +4,14 @@ import { randomUUID } from 'node:crypto';
 import { query } from '../../support/db';
 import { companyId } from '../../support/accounts';
 import type { DemoCompanySlug } from '../../support/session';
+import { fmtTime } from '../../../src/lib/alerts/rules/common';
 import { columnFigures } from '../../../src/lib/views/layers';
 
 export interface FixtureTank { id: string; serial: string; homeId: string }
-export interface Fixture { prefix: string; now: Date; healthy: FixtureTank; faulty: FixtureTank; silent: FixtureTank; cycling: FixtureTank }
+export interface Fixture { prefix: string; now: Date; healthy: FixtureTank; faulty: FixtureTank; silent: FixtureTank; cycling: FixtureTank; leaky: FixtureTank }
+
+/** When the leaky tank's heat-loss evidence points (its cooling period began), before the fixture's `now`. */
+export const LEAK_EVIDENCE_AGO_MS = 10 * 3_600_000;
 
 /** Layers of the healthy tank at minute m (bottom to top, centi-degrees): sensor 2 follows the clock's minute. */
 export const healthyLayersCc = (minuteOfHour: number) => [1500, 3000 + minuteOfHour * 10, 4800, 5500];
@@ -32,7 +36,10 @@ async function latest(t: FixtureTank, layersCc: (number | null)[], seenAt: Date,
     [t.id, seenAt, layersCc, extra.compressor ?? false, f?.soc ?? null, f?.v40L ?? null]);
 }
 
-/** Four tanks in `company`: healthy (2 days of readings, a week of rollups), faulty sensor, silent, short-cycling. */
+/**
+ * Five tanks in `company`: healthy (2 days of readings, a week of rollups), faulty sensor, silent,
+ * short-cycling, and one losing heat faster than declared (an alert kind with no figure of its own).
+ */
 export async function createFixture(company: DemoCompanySlug = 'kestrel-vale', town = 'Tarnfield'): Promise<Fixture> {
   const cid = await companyId(company);
   const prefix = `VW${randomUUID().slice(0, 6).toUpperCase()}`;
@@ -41,6 +48,7 @@ export async function createFixture(company: DemoCompanySlug = 'kestrel-vale', t
   const faulty = await makeTank(cid, prefix, 'B', town);
   const silent = await makeTank(cid, prefix, 'C', 'Larkholt', 'immersion_only');
   const cycling = await makeTank(cid, prefix, 'D', town);
+  const leaky = await makeTank(cid, prefix, 'E', town);
 
   // Two days of readings a minute apart, the compressor on for the first 10 minutes of each hour.
   await query(
@@ -60,6 +68,7 @@ export async function createFixture(company: DemoCompanySlug = 'kestrel-vale', t
   await latest(faulty, [1500, null, 4800, 5500], new Date(now.getTime() - 60_000));
   await latest(silent, [1500, 3000, 4800, 5500], new Date(now.getTime() - 2 * 3_600_000));
   await latest(cycling, [1500, 3000, 4800, 5500], new Date(now.getTime() - 60_000), { compressor: true });
+  await latest(leaky, [1500, 3000, 4800, 5500], new Date(now.getTime() - 60_000));
   // Compressor runs of the cycling tank: starts 3 h and 2 h 30 min ago (30 min apart: a short cycle).
   for (const [startMin, endMin] of [[180, 170], [150, 140]]) {
     await query(
@@ -69,17 +78,26 @@ export async function createFixture(company: DemoCompanySlug = 'kestrel-vale', t
   }
   // Draws of the healthy tank in the last day.
   await query(`insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, litres, complete) values ($1, 'draw', $2::timestamptz - interval '5 hours', $2::timestamptz - interval '4 hours 52 minutes', 0, 42.5, true)`, [healthy.id, now]);
-  // The fleet triage lists the alerts the rules raised; these are the ones they raise for these tanks.
-  for (const [t, kind, severity] of [[faulty, 'sensor_fault', 'warning'], [silent, 'offline', 'warning'], [cycling, 'short_cycling', 'warning']] as const) {
+  // What needs attention is the alerts the rules raised: these are the ones they raise for these
+  // tanks, with evidence worded as the rules word it (src/lib/alerts/rules).
+  const ago = (ms: number) => now.getTime() - ms;
+  const leakFrom = ago(LEAK_EVIDENCE_AGO_MS);
+  const raised: [FixtureTank, string, string, string, number][] = [
+    [faulty, 'sensor_fault', 'warning', `Sensor 2 (from the bottom) gives no reading since ${fmtTime(ago(70 * 60_000))}.`, ago(60 * 60_000)],
+    [silent, 'offline', 'warning', `No reading since ${fmtTime(ago(2 * 3_600_000))} (120 min; the limit is 30 min).`, ago(2 * 3_600_000)],
+    [cycling, 'short_cycling', 'warning', `3 short cycles in 6 h (1 start less than 60 min after the one before, 2 runs shorter than 10 min), the latest at ${fmtTime(ago(150 * 60_000))}.`, ago(150 * 60_000)],
+    [leaky, 'heat_loss', 'info', `Cooling curves give a standing loss of 92 W and 95 W at 45 K, more than 50% above the declared 57 W (latest period ${fmtTime(leakFrom)} to ${fmtTime(leakFrom + 5 * 3_600_000)}).`, leakFrom],
+  ];
+  for (const [t, kind, severity, summary, at] of raised) {
     await query(`insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at) values ($1, $2, $3, $4, 'open', $5, $6)`,
-      [cid, t.id, kind, severity, JSON.stringify({ summary: `${kind} (fixture)`, facts: {}, at: now.getTime() }), now]);
+      [cid, t.id, kind, severity, JSON.stringify({ summary, facts: {}, at }), new Date(at)]);
   }
-  return { prefix, now, healthy, faulty, silent, cycling };
+  return { prefix, now, healthy, faulty, silent, cycling, leaky };
 }
 
 export async function dropFixture(f: Fixture): Promise<void> {
-  const ids = [f.healthy.id, f.faulty.id, f.silent.id, f.cycling.id];
+  const ids = [f.healthy.id, f.faulty.id, f.silent.id, f.cycling.id, f.leaky.id];
   await query('delete from readings where tank_id = any($1::uuid[])', [ids]);
   await query('delete from tanks where id = any($1::uuid[])', [ids]);
-  await query('delete from homes where id = any($1::uuid[])', [[f.healthy.homeId, f.faulty.homeId, f.silent.homeId, f.cycling.homeId]]);
+  await query('delete from homes where id = any($1::uuid[])', [[f.healthy.homeId, f.faulty.homeId, f.silent.homeId, f.cycling.homeId, f.leaky.homeId]]);
 }

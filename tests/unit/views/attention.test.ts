@@ -1,49 +1,62 @@
 import { describe, expect, it } from 'vitest';
-import { attentionFor, sensorFaultIn, statusOf, type AttentionFacts } from '../../../src/lib/views/attention';
+import { alertKinds, alertLabels } from '../../../src/lib/alerts/types';
+import { attentionKinds, attentionLabels, byUrgency, statusOf } from '../../../src/lib/views/attention';
+import { rangeFromLink } from '../../../src/lib/views/contracts';
+import { aroundEvidence, rangeSearch } from '../../../src/lib/views/range';
 
-const now = Date.parse('2026-03-02T12:00:00Z');
-const healthy: AttentionFacts = {
-  lastSeenAt: new Date(now - 60_000), online: true, layersC: [20, 30, 45, 55, 58, 60], v40L: 120, hasHeatPump: true,
-  compressorStarts: [], topHeldHours: 5, immersionWh: 0, compressorWh: 2000,
-};
-
-describe('attention rules', () => {
-  it('finds nothing wrong with a healthy tank', () => {
-    expect(attentionFor(healthy, now)).toEqual([]);
+describe('what needs attention', () => {
+  it('is every alert kind, named as the alert inbox names it', () => {
+    expect([...attentionKinds].sort()).toEqual([...alertKinds].sort());
+    for (const k of alertKinds) expect(attentionLabels[k]).toBe(alertLabels[k]);
+  });
+  it('orders problems for the desk: not reporting first, heat loss last', () => {
+    expect(byUrgency(['heat_loss', 'low_hot_water', 'offline', 'sensor_fault', 'offline'])).toEqual(['offline', 'sensor_fault', 'low_hot_water', 'heat_loss']);
+  });
+  it('gives a tank its status from its open alerts', () => {
     expect(statusOf([])).toBe('ok');
+    expect(statusOf(['heat_loss'])).toBe('attention');
+    expect(statusOf(['heat_loss', 'offline'])).toBe('offline');
   });
-  it('calls a tank offline after 30 minutes of silence (common practice) or when its last will says so', () => {
-    expect(attentionFor({ ...healthy, lastSeenAt: new Date(now - 29 * 60_000) }, now)).toEqual([]);
-    expect(attentionFor({ ...healthy, lastSeenAt: new Date(now - 31 * 60_000) }, now)).toEqual(['offline']);
-    expect(attentionFor({ ...healthy, online: false }, now)).toEqual(['offline']);
-    expect(statusOf(['offline', 'low_hot_water'])).toBe('offline');
+});
+
+describe('a tank page opened from a link with ?from=&to=', () => {
+  const q = (s: string) => rangeFromLink(new URLSearchParams(s));
+  it('opens on the range the link gives', () => {
+    expect(q('from=2026-03-01T07:00:00.000Z&to=2026-03-01T19:00:00.000Z')).toEqual({
+      range: { from: Date.parse('2026-03-01T07:00:00Z'), to: Date.parse('2026-03-01T19:00:00Z') }, problem: null,
+    });
   });
-  it('sees a missing sensor, an impossible value and an inversion', () => {
-    expect(sensorFaultIn([20, null, 50])).toMatch(/Sensor 2/);
-    expect(sensorFaultIn([20, 140, 50])).toMatch(/140\.0 °C/);
-    // Hot water cannot sit under cold: 5 K of inversion is the limit (common practice).
-    expect(sensorFaultIn([20, 50, 44.9])).toMatch(/swapped/);
-    expect(sensorFaultIn([20, 50, 45])).toBeNull();
+  it('reads an offset whose plus sign arrived as a space', () => {
+    expect(q('from=2026-03-01T08:00:00 01:00&to=2026-03-01T20:00:00%2B01:00').range).toEqual({ from: Date.parse('2026-03-01T07:00:00Z'), to: Date.parse('2026-03-01T19:00:00Z') });
   });
-  it('flags two compressor starts less than 60 min apart (common practice), not 60 min apart', () => {
-    const t0 = now - 3 * 3_600_000;
-    expect(attentionFor({ ...healthy, compressorStarts: [t0, t0 + 60 * 60_000] }, now)).toEqual([]);
-    expect(attentionFor({ ...healthy, compressorStarts: [t0, t0 + 59 * 60_000] }, now)).toEqual(['short_cycling']);
-    expect(attentionFor({ ...healthy, hasHeatPump: false, compressorStarts: [t0, t0 + 10 * 60_000] }, now)).toEqual([]);
+  it('opens on the default range, without a word, when the link gives none', () => {
+    expect(q('')).toEqual({ range: null, problem: null });
+    expect(q('tab=energy')).toEqual({ range: null, problem: null });
   });
-  it('flags V40 below 65 L, the minimum Regulation (EU) No 814/2013 sets for load profile M', () => {
-    expect(attentionFor({ ...healthy, v40L: 65 }, now)).toEqual([]);
-    expect(attentionFor({ ...healthy, v40L: 64.9 }, now)).toEqual(['low_hot_water']);
+  it('falls back to the default and says which field was wrong', () => {
+    const bad: [string, RegExp][] = [
+      ['from=yesterday&to=2026-03-01T19:00:00Z', /^The link's time range cannot be shown: from must be an ISO 8601/],
+      ['from=2026-03-01T07:00:00Z', /to is missing/],
+      ['to=2026-03-01T07:00:00Z', /from is missing/],
+      ['from=2026-03-01T19:00:00Z&to=2026-03-01T07:00:00Z', /to must be after from/],
+      ['from=2026-03-01T07:00:00Z&to=2026-03-01T07:00:00Z', /to must be after from/],
+      ['from=2026-01-01T00:00:00Z&to=2026-03-05T00:00:00Z', /at most 62 days/],
+      ['from=2026-03-01T07:00:00&to=2026-03-01T19:00:00Z', /from must be an ISO 8601 date-time with a time zone/],
+    ];
+    for (const [s, message] of bad) {
+      const r = q(s);
+      expect(r.range, s).toBeNull();
+      expect(r.problem, s).toMatch(message);
+    }
   });
-  it('flags a week without one hour at 60 °C at the top (HSE HSG274 Part 2), but not without data', () => {
-    expect(attentionFor({ ...healthy, topHeldHours: 0 }, now)).toEqual(['legionella_risk']);
-    expect(attentionFor({ ...healthy, topHeldHours: null }, now)).toEqual([]);
+  it('keeps a custom range in the address and drops it for a preset', () => {
+    const custom = { preset: 'custom' as const, from: Date.parse('2026-03-01T07:00:00Z'), to: Date.parse('2026-03-01T19:00:00Z') };
+    expect(rangeSearch(custom, '?from=x&to=y&tab=energy')).toBe('?tab=energy&from=2026-03-01T07%3A00%3A00.000Z&to=2026-03-01T19%3A00%3A00.000Z');
+    expect(rangeFromLink(new URLSearchParams(rangeSearch(custom, ''))).range).toEqual({ from: custom.from, to: custom.to });
+    expect(rangeSearch({ preset: '7d' }, '?from=x&to=y')).toBe('');
   });
-  it('flags an immersion using more than 30 % of the electricity beside a heat pump (common practice)', () => {
-    expect(attentionFor({ ...healthy, immersionWh: 310, compressorWh: 690 }, now)).toEqual(['immersion_heavy']);
-    expect(attentionFor({ ...healthy, immersionWh: 300, compressorWh: 700 }, now)).toEqual([]);
-  });
-  it('lists problems most urgent first', () => {
-    expect(attentionFor({ ...healthy, online: false, v40L: 10, layersC: [20, null] }, now)).toEqual(['offline', 'sensor_fault', 'low_hot_water']);
+  it('opens an alert six hours either side of its evidence, as alert links do', () => {
+    const at = Date.parse('2026-03-01T13:00:00Z');
+    expect(aroundEvidence(at)).toEqual({ from: Date.parse('2026-03-01T07:00:00Z'), to: Date.parse('2026-03-01T19:00:00Z') });
   });
 });

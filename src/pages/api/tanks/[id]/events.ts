@@ -1,8 +1,8 @@
+import { thresholdsFor } from '../../../../db/queries/alerts';
 import { commandsInRange, eventsInRange } from '../../../../db/queries/readings';
 import { requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
-import { attentionThresholds } from '../../../../lib/views/attention';
 import { eventsQuerySchema, searchParams, type EventsResponse, type TimelineEvent } from '../../../../lib/views/contracts';
 import { markShortCycles } from '../../../../lib/views/timeline';
 import { tankOr404 } from '../../../../lib/views/tank-detail.server';
@@ -12,8 +12,9 @@ export const GET = endpoint(async ({ locals, params, url }) => {
   const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
   const tank = await tankOr404(scopeOf(viewer), params.id ?? '');
   const { from, to } = eventsQuerySchema.parse(searchParams(url));
-  const [{ rows, startBefore }, commands] = await Promise.all([eventsInRange(tank.id, from, to), commandsInRange(tank.id, from, to)]);
-  const minGap = attentionThresholds.minStartGapMin;
+  const [{ rows, startBefore }, commands, th] = await Promise.all([eventsInRange(tank.id, from, to), commandsInRange(tank.id, from, to), thresholdsFor(viewer.companyId)]);
+  // Starts marked with the gap the short-cycling alert uses (the company's setting).
+  const minGap = th.shortCycleMinGapMin;
   const runs = markShortCycles(rows, minGap, startBefore);
   const cmds: TimelineEvent[] = commands.map((c) => ({
     kind: 'command', startedAt: c.createdAt.toISOString(), endedAt: c.appliedAt?.toISOString() ?? null, energyWh: null, litres: null,
