@@ -37,17 +37,7 @@ export function reading(tank: { sensorCount: number }, ts: number, over: Partial
 export const publishReading = (c: MqttClient, serial: string, body: unknown) =>
   c.publishAsync(topicFor(serial, 'telemetry'), typeof body === 'string' ? body : JSON.stringify(body), { qos: 1 });
 
-/** Polls `probe` until it returns a value that `done` accepts (or throws after `timeoutMs`). */
-export async function eventually<T>(probe: () => Promise<T>, done: (v: T) => boolean, timeoutMs = 15_000, what = 'the expected state'): Promise<T> {
-  const until = Date.now() + timeoutMs;
-  let last: T | undefined;
-  while (Date.now() < until) {
-    last = await probe();
-    if (done(last)) return last;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error(`Timed out waiting for ${what}; last value: ${JSON.stringify(last)}`);
-}
+export { eventually } from '../../support/eventually';
 
 export async function count(db: pg.Pool, sql: string, params: unknown[]): Promise<number> {
   const { rows } = await db.query(sql, params);
