@@ -64,6 +64,8 @@ export const energyDays = pgTable(
     coveredMinutes: real('covered_minutes').notNull(),
     computedAt: timestamp('computed_at', { withTimezone: true }).notNull().defaultNow(),
   },
+  // drizzle/0010 adds the tank and the summed figures to the (company_id, day) index with INCLUDE, so that
+  // the fleet figures are an index-only scan over the days asked for.
   (t) => [primaryKey({ columns: [t.tankId, t.day] }), index('energy_days_company_day_idx').on(t.companyId, t.day)],
 );
 export type EnergyDayRow = typeof energyDays.$inferSelect;
