@@ -1,10 +1,13 @@
 // `npm run bench:api`: seeds a 50,000-tank company in a throwaway PostgreSQL and prints p50/p95 and
 // answer sizes of the tank list (GET /api/tanks) and of a 7-day readings call, measured on the
-// handlers' query and shaping code (no HTTP, no sign-in), plus the fleet summary computed cold.
+// handlers' query and shaping code (no HTTP, no sign-in), plus the fleet summary computed cold, and
+// the gzipped JavaScript each page sends (its islands), from the production build.
 // Figures only: nothing here passes or fails. BENCH_KEEP=1 leaves the database running afterwards
 // (the command to reach it is printed) for EXPLAIN ANALYZE on the same data.
 import { loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
+import { buildDir, ensureBuild } from '../../scripts/lib/build';
+import { pageScriptSizes } from '../../scripts/lib/island-sizes';
 import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
 
 const TANKS = Number(process.env.BENCH_TANKS ?? 50_000);
@@ -136,6 +139,14 @@ async function main() {
       console.log(`GET /api/tanks/{id}/readings 7 days, ${resolution.padEnd(3)}        p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B (${gzipSync(body).length.toLocaleString('en-GB')} B gzipped), ${JSON.parse(body).t.length.toLocaleString('en-GB')} points`);
     }
     await closeDb();
+
+    // The JavaScript each page sends (its islands and what they import), from the production build.
+    ensureBuild();
+    console.log('');
+    console.log('Page scripts, gzipped (React islands and their imports, counted once a page):');
+    for (const p of pageScriptSizes(buildDir()).filter((x) => x.files > 0)) {
+      console.log(`  ${p.page.padEnd(26)} ${(p.gzipBytes / 1024).toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}`);
+    }
   } finally {
     if (KEEP) console.log(`database kept: psql ${server.url}   (stop: runuser -u postgres -- /usr/lib/postgresql/15/bin/pg_ctl stop -D ${server.dataDir})`);
     else stopPostgres(server.dataDir);
