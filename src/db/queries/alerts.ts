@@ -261,31 +261,6 @@ export async function getAlert(scope: Scope, id: string): Promise<AlertListItem 
   return r ? toItem(r) : null;
 }
 
-/**
- * The open and acknowledged alerts of a scope, most urgent first: what the fleet triage lists.
- * One row per tank with its kinds in the inbox's order of urgency.
- */
-export async function listOpenAlertsForCompany(scope: Scope): Promise<{ tankId: string; kinds: AlertKind[]; worst: AlertSeverity; since: string }[]> {
-  const res = await db().execute<{ tank_id: string; kinds: string; worst: number; since: Date }>(sql`
-    select a.tank_id, string_agg(a.kind::text, ' ' order by ${severityOrder}, a.opened_at) as kinds, min(${severityOrder}) as worst, min(a.opened_at) as since
-    from alerts a join tanks t on t.id = a.tank_id
-    where ${scopeSql(scope)} and a.state <> 'resolved'
-    group by a.tank_id order by worst, since`);
-  return res.rows.map((r) => ({ tankId: r.tank_id, kinds: r.kinds.split(' ') as AlertKind[], worst: (['critical', 'warning', 'info'] as const)[r.worst]!, since: new Date(r.since).toISOString() }));
-}
-
-/** Unresolved alerts of a scope counted by kind and by severity. */
-export async function countOpenAlerts(scope: Scope): Promise<{ byKind: Partial<Record<AlertKind, number>>; bySeverity: Partial<Record<AlertSeverity, number>>; total: number }> {
-  const res = await db().execute<{ kind: AlertKind; severity: AlertSeverity; n: number }>(sql`
-    select a.kind, a.severity, count(*)::int as n from alerts a join tanks t on t.id = a.tank_id
-    where ${scopeSql(scope)} and a.state <> 'resolved' group by a.kind, a.severity`);
-  const byKind: Partial<Record<AlertKind, number>> = {};
-  const bySeverity: Partial<Record<AlertSeverity, number>> = {};
-  let total = 0;
-  for (const r of res.rows) { byKind[r.kind] = (byKind[r.kind] ?? 0) + r.n; bySeverity[r.severity] = (bySeverity[r.severity] ?? 0) + r.n; total += r.n; }
-  return { byKind, bySeverity, total };
-}
-
 /** Acknowledges the open alerts among `ids` (others are left as they are); returns the ids changed. */
 export async function acknowledgeAlerts(scope: Scope, ids: readonly string[], userId: string, note: string | null): Promise<string[]> {
   const valid = ids.filter(isUuid);
