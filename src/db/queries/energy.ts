@@ -1,9 +1,10 @@
 // Named queries of energy and planning: tariffs (company defaults and a home's own) and what the
 // accounting and the planner read about a tank.
-import { and, asc, desc, eq, gte, isNull, lt, or } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, isNull, lt, or, sql } from 'drizzle-orm';
 import { db } from '..';
 import { homes, readings, tanks, tariffs, telemetryEvents, type TariffRow } from '../schema';
-import type { Tariff } from '../../lib/energy';
+import type { Tariff, TariffLayers } from '../../lib/energy';
+import { homeTariffs, type TariffSource } from '../../lib/tank-energy/tariff-layers';
 import type { Scope } from '../../lib/server/authz';
 import { homeInScope, isUuid, tankInScope } from './scope';
 
@@ -34,14 +35,9 @@ export async function listTariffs(companyId: string, homeId: string | null): Pro
   return db().select().from(tariffs).where(and(eq(tariffs.companyId, companyId), which)).orderBy(desc(tariffs.validFrom), desc(tariffs.createdAt));
 }
 
-/** The tariffs that price a home: its own when it has any, otherwise the company defaults. */
-export async function tariffsForHome(companyId: string, homeId: string | null): Promise<{ source: 'home' | 'company' | 'none'; tariffs: Tariff[] }> {
-  const rows = await listTariffs(companyId, homeId);
-  const own = rows.filter((r) => r.homeId !== null);
-  const chosen = own.length > 0 ? own : rows.filter((r) => r.homeId === null);
-  // Oldest first, so that priceAt's "latest start wins" sees the list in the order it was entered.
-  const list = chosen.map((r) => r.prices).reverse();
-  return { source: own.length > 0 ? 'home' : list.length > 0 ? 'company' : 'none', tariffs: list };
+/** The tariffs that price a home: its own where one is in force, the company defaults at other times. */
+export async function tariffsForHome(companyId: string, homeId: string | null): Promise<{ source: TariffSource; tariffs: TariffLayers }> {
+  return homeTariffs(await listTariffs(companyId, homeId), homeId);
 }
 
 /** What accounting and planning need to know about a tank the viewer may see, or null. */
@@ -61,7 +57,7 @@ export type EnergyTank = NonNullable<Awaited<ReturnType<typeof findEnergyTank>>>
 export async function listEnergyReadings(tankId: string, from: Date, to: Date) {
   return db().select({
     ts: readings.ts, layersCc: readings.layersCc, compressor: readings.compressor,
-    immersionW: readings.immersionW, powerW: readings.powerW, drawDlpm: readings.drawDlpm,
+    immersionW: readings.immersionW, powerW: readings.powerW, drawDlpm: readings.drawDlpm, solarSurplusW: readings.solarSurplusW,
   }).from(readings).where(and(eq(readings.tankId, tankId), gte(readings.ts, from), lt(readings.ts, to))).orderBy(asc(readings.ts));
 }
 export type EnergyReadingRow = Awaited<ReturnType<typeof listEnergyReadings>>[number];
@@ -72,4 +68,19 @@ export async function lastCompressorStart(tankId: string): Promise<Date | null> 
     .where(and(eq(telemetryEvents.tankId, tankId), eq(telemetryEvents.kind, 'compressor_run')))
     .orderBy(desc(telemetryEvents.startedAt)).limit(1);
   return row?.at ?? null;
+}
+
+/** The tanks of a home the viewer may see, oldest first (a home normally has one). */
+export async function tankIdsOfHome(scope: Scope, homeId: string): Promise<string[]> {
+  if (!isUuid(homeId)) return [];
+  const rows = await db().select({ id: tanks.id }).from(tanks).where(and(eq(tanks.homeId, homeId), tankInScope(scope))).orderBy(asc(tanks.createdAt));
+  return rows.map((r) => r.id);
+}
+
+/** Homes of the company with tariffs of their own, for the tariffs page (at most `limit`). */
+export async function homesWithOwnTariffs(companyId: string, limit = 200): Promise<{ id: string; reference: string; addressLine: string; town: string; tariffs: number }[]> {
+  const rows = await db().select({ id: homes.id, reference: homes.reference, addressLine: homes.addressLine, town: homes.town, tariffs: sql<number>`count(*)::int` })
+    .from(tariffs).innerJoin(homes, eq(homes.id, tariffs.homeId))
+    .where(eq(tariffs.companyId, companyId)).groupBy(homes.id).orderBy(asc(homes.reference)).limit(limit);
+  return rows;
 }

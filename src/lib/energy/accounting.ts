@@ -13,7 +13,7 @@
 import { storedEnergyKWh, waterCp, waterDensity } from '../thermal/index.js';
 import { EnergyInputError } from './errors.js';
 import { priceAt } from './tariff.js';
-import type { Tariff } from './tariff.js';
+import type { Tariffs } from './tariff.js';
 import { HALF_HOUR_MS, J_PER_KWH, kWhPerLitreAt40 } from './units.js';
 import { epochMs, finite, nonNegative, positive } from './validate.js';
 
@@ -84,7 +84,7 @@ function layerMean(layersC: readonly number[], shares: readonly number[] | null)
  * force at each half hour (`tariffs` as for priceAt); diverted solar costs nothing. Throws
  * EnergyInputError naming the first unusable reading field.
  */
-export function accountDay(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariff | readonly Tariff[], options: AccountDayOptions): DayEnergy {
+export function accountDay(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, options: AccountDayOptions): DayEnergy {
   const startMs = epochMs('options.startMs', options.startMs);
   const endMs = epochMs('options.endMs', options.endMs);
   if (endMs <= startMs) throw new EnergyInputError('options.endMs', 'options.endMs must be after options.startMs.');

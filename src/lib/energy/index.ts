@@ -10,7 +10,7 @@ export {
   priceUnits, MAX_PRICE_PENCE, MIN_NEGATIVE_PRICE_PENCE, pencePerUnit,
   flatTariffInput, dayNightTariffInput, tariffInput, parseTariff, priceAt, importPriceSeries,
 } from './tariff.js';
-export type { PriceUnit, FlatTariff, DayNightTariff, HalfHourlyTariff, Tariff, Price, FieldError } from './tariff.js';
+export type { PriceUnit, FlatTariff, DayNightTariff, HalfHourlyTariff, Tariff, TariffLayers, Tariffs, Price, FieldError } from './tariff.js';
 export { parseHalfHourlyCsv, MAX_CSV_ROWS } from './tariff-csv.js';
 export type { TariffRowError, HalfHourlyCsvOptions } from './tariff-csv.js';
 

@@ -44,12 +44,15 @@ function round(x: number): number {
 }
 
 const instant = z
-  .string()
+  .string({ required_error: 'must be given: an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z', invalid_type_error: 'must be an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z' })
   .datetime({ offset: true, message: 'must be an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z' })
   .transform((s) => Date.parse(s));
 
+/** A price as entered, in the tariff's unit; its range is checked after conversion (checkPrice). */
+const price = (what: string) => z.number({ required_error: `must be given: the ${what} price in the chosen unit`, invalid_type_error: `must be a number: the ${what} price in the chosen unit` });
+
 const clockTime = z
-  .string()
+  .string({ required_error: 'must be given as a 24-hour clock time HH:MM' })
   .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'must be a 24-hour clock time HH:MM')
   .transform((s) => Number(s.slice(0, 2)) * 60 + Number(s.slice(3, 5)));
 
@@ -113,7 +116,7 @@ export interface Price { importPence: number; exportPence: number }
 
 /** Form or API input of a flat tariff: prices in `unit`, instants as ISO 8601 strings. */
 export const flatTariffInput = z
-  .object({ kind: z.literal('flat'), ...common, import: z.number(), export: z.number().default(0) })
+  .object({ kind: z.literal('flat'), ...common, import: price('import'), export: price('export').default(0) })
   .strict()
   .superRefine((t, ctx) => {
     const k = pencePerUnit(t.unit);
@@ -132,7 +135,7 @@ export const dayNightTariffInput = z
     kind: z.literal('day_night'), ...common,
     timeZone: z.string().default('Europe/London').refine(isTimeZone, 'must be an IANA time-zone name such as Europe/London'),
     nightStart: clockTime, nightEnd: clockTime,
-    dayImport: z.number(), nightImport: z.number(), export: z.number().default(0),
+    dayImport: price('day import'), nightImport: price('night import'), export: price('export').default(0),
   })
   .strict()
   .superRefine((t, ctx) => {
@@ -200,16 +203,32 @@ function priceOf(t: Tariff, ms: number): Price {
 }
 
 /**
- * Import and export prices (p/kWh) in force at `epochMs`, or null when no tariff is in force then.
- * Given several tariffs (a home's history, or a company default and a home's own), the one in force
- * with the latest `validFromMs` wins: a new tariff supersedes an open-ended older one from its start.
+ * Lists of tariffs by precedence: at each instant the first list with a tariff in force prices it.
+ * A home's own tariffs come first and the company defaults after, so a home's tariff overrides the
+ * default for its validity period only, and the default prices the home before and after it.
  */
-export function priceAt(tariff: Tariff | readonly Tariff[], epochMs: number): Price | null {
+export interface TariffLayers { layers: readonly (readonly Tariff[])[] }
+
+/** What prices energy: one tariff, a list (latest start in force wins), or lists by precedence. */
+export type Tariffs = Tariff | readonly Tariff[] | TariffLayers;
+
+const isLayers = (t: Tariffs): t is TariffLayers => !Array.isArray(t) && 'layers' in (t as object);
+
+/**
+ * Import and export prices (p/kWh) in force at `epochMs`, or null when no tariff is in force then.
+ * Within one list (a home's history, or a company's defaults) the tariff in force with the latest
+ * `validFromMs` wins: a new tariff supersedes an open-ended older one from its start. Layers are
+ * tried in order ({@link TariffLayers}).
+ */
+export function priceAt(tariff: Tariffs, epochMs: number): Price | null {
   if (!Number.isFinite(epochMs)) throw new EnergyInputError('epochMs', `epochMs is ${String(epochMs)}: it must be epoch milliseconds.`);
-  const list = Array.isArray(tariff) ? (tariff as readonly Tariff[]) : [tariff as Tariff];
-  let best: Tariff | null = null;
-  for (const t of list) if (inForce(t, epochMs) && (best === null || t.validFromMs > best.validFromMs)) best = t;
-  return best === null ? null : priceOf(best, epochMs);
+  const lists = isLayers(tariff) ? tariff.layers : [Array.isArray(tariff) ? (tariff as readonly Tariff[]) : [tariff as Tariff]];
+  for (const list of lists) {
+    let best: Tariff | null = null;
+    for (const t of list) if (inForce(t, epochMs) && (best === null || t.validFromMs > best.validFromMs)) best = t;
+    if (best !== null) return priceOf(best, epochMs);
+  }
+  return null;
 }
 
 /**
@@ -217,7 +236,7 @@ export function priceAt(tariff: Tariff | readonly Tariff[], epochMs: number): Pr
  * at its step's start: the price series the charge planner takes. Throws EnergyInputError naming the
  * first step no tariff covers.
  */
-export function importPriceSeries(tariff: Tariff | readonly Tariff[], startMs: number, steps: number, stepMin = 30): number[] {
+export function importPriceSeries(tariff: Tariffs, startMs: number, steps: number, stepMin = 30): number[] {
   const out = new Array<number>(steps);
   for (let i = 0; i < steps; i++) {
     const ms = startMs + i * stepMin * 60_000;

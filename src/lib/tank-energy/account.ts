@@ -1,6 +1,6 @@
 // A tank's energy and cost for a run of local calendar days, and their months. Pure: no I/O.
 import { accountDay, localDate, localDayBounds, rollUpMonths } from '../energy';
-import type { AccountingTank, DayEnergy, EnergyReading, MonthEnergy, Tariff } from '../energy';
+import type { AccountingTank, DayEnergy, EnergyReading, MonthEnergy, Tariffs } from '../energy';
 
 /** The calendar dates from `from` to `to` inclusive ("YYYY-MM-DD"). */
 export function datesBetween(from: string, to: string): string[] {
@@ -21,7 +21,7 @@ export function readingWindow(from: string, to: string, timeZone: string, closeM
  * telemetry are left out, not reported as zero), and the months those days fall in. `readings`
  * sorted by time, as from {@link readingWindow}.
  */
-export function accountDays(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: readonly Tariff[], from: string, to: string, timeZone: string): { days: DayEnergy[]; months: MonthEnergy[] } {
+export function accountDays(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, from: string, to: string, timeZone: string): { days: DayEnergy[]; months: MonthEnergy[] } {
   const days: DayEnergy[] = [];
   let i = 0;
   for (const date of datesBetween(from, to)) {

@@ -1,6 +1,6 @@
 // The charge planner's input from what is stored about a tank, and its answer for the API. Pure.
 import { HALF_HOUR_MS, demandSeries, importPriceSeries, learnDemand, planCharge, v40Curve } from '../energy';
-import type { ChargePlan, ChargePlanInput, EnergyReading, Tariff } from '../energy';
+import type { ChargePlan, ChargePlanInput, EnergyReading, Tariffs } from '../energy';
 import { createTank, estimatedCop } from '../thermal';
 import type { PlanResponse } from './contracts';
 import { tankSpec, type EnergyTankFacts } from './inputs';
@@ -19,7 +19,7 @@ export interface PlanFacts {
   /** Latest layer temperatures, °C, bottom to top. */ layersC: number[];
   compressor: { running: boolean; lastStartMs: number | null };
   /** The home's recent readings, for demand by hour of week. */ history: readonly EnergyReading[];
-  tariffs: readonly Tariff[];
+  tariffs: Tariffs;
   nowMs: number; hours: number; comfortFloorL40: number; timeZone: string;
 }
 
@@ -40,7 +40,7 @@ export function planInput(f: PlanFacts): ChargePlanInput {
   }
   let importPence: number[];
   try {
-    importPence = importPriceSeries([...f.tariffs], startMs, steps);
+    importPence = importPriceSeries(f.tariffs, startMs, steps);
   } catch (cause) {
     throw new PlanRefusal('NoTariffInForce', 'tariff', `${(cause as Error).message} The plan needs a price for every half hour of the next ${f.hours} hours.`);
   }

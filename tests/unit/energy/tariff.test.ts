@@ -82,6 +82,20 @@ describe('priceAt', () => {
     expect(priceAt([old, newer], Date.UTC(2025, 3, 1))!.importPence).toBe(30);
   });
 
+  it('prices by the first layer with a tariff in force: a home’s own for its period, the default around it', () => {
+    const companyDefault = ok({ ...flatInput, import: 30 });
+    const homeOwn = ok({ ...flatInput, import: 12, validFrom: '2025-03-01T00:00:00Z', validTo: '2025-04-01T00:00:00Z' });
+    const layered = { layers: [[homeOwn], [companyDefault]] };
+    expect(priceAt(layered, Date.UTC(2025, 1, 28, 23, 59))!.importPence).toBe(30);
+    expect(priceAt(layered, Date.UTC(2025, 2, 1))!.importPence).toBe(12);
+    expect(priceAt(layered, Date.UTC(2025, 2, 31, 23, 59))!.importPence).toBe(12);
+    expect(priceAt(layered, Date.UTC(2025, 3, 1))!.importPence).toBe(30);
+    // An older home tariff still overrides a newer default while it is in force.
+    const newerDefault = ok({ ...flatInput, import: 40, validFrom: '2025-03-15T00:00:00Z' });
+    expect(priceAt({ layers: [[homeOwn], [companyDefault, newerDefault]] }, Date.UTC(2025, 2, 20))!.importPence).toBe(12);
+    expect(priceAt({ layers: [[], []] }, Date.UTC(2025, 2, 20))).toBeNull();
+  });
+
   it('builds a planner price series and names the first unpriced step', () => {
     const t = ok({ ...flatInput, validTo: '2025-01-02T00:00:00Z' });
     expect(importPriceSeries(t, Date.UTC(2025, 0, 1, 22), 4)).toEqual([24.5, 24.5, 24.5, 24.5]);
