@@ -4,7 +4,7 @@
 // values chosen to look like real installs; they are never check values.
 import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
-import { createTank, estimatedCop, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
+import { createTank, estimatedCop, mixedWaterLitres, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
 import { localMinuteOfDay, solarDiversion, type Diversion } from '../src/lib/energy';
 import { HOME_TIME_ZONE } from '../src/lib/tank-energy/contracts';
@@ -23,6 +23,19 @@ const MIN_START_GAP_MS = 60 * MIN;
 const PASTEUR_C = 61;
 const PASTEUR_HOLD_MS = 70 * MIN;
 const PASTEUR_WEEKDAYS = new Set([0, 3]);
+/**
+ * A schedule's comfort floor (litres at 40 °C): outside the windows the controller heats anyway once
+ * the tank holds less than the floor plus the first margin, until it holds the floor plus the second
+ * (demo controller values: the first is about a long shower, so that a draw larger than the plan
+ * expected does not take the store below the floor).
+ */
+export const COMFORT_START_MARGIN_L = 60;
+const COMFORT_STOP_MARGIN_L = 110;
+/** In a plan's charge window the heat pump stops once the sensor near the bottom is this close to the target, and starts again at twice it (demo). */
+const CHARGE_DEADBAND_K = 2;
+
+/** Why a heat source is on in a step: what the tests check a plan's schedule against. */
+export type HeatReason = 'schedule' | 'boost' | 'pasteurisation' | 'comfort' | 'space_heating' | 'solar' | 'fault';
 
 /** Outdoor air, °C: seasonal and daily swing (demo). */
 export function outdoorC(t: number): number {
@@ -52,6 +65,7 @@ export interface SimTankSnapshot {
   targetC: number;
   hysteresisK: number;
   windows: { from: string; to: string }[];
+  comfortFloorL40?: number | null;
   seq: number;
   stuckC: number | null;
   pasteurDay?: number;
@@ -72,6 +86,11 @@ export class SimTank {
   targetC: number;
   hysteresisK: number;
   windows: { from: string; to: string }[] = [];
+  /** Litres at 40 °C the schedule keeps at least (from a charge plan), or null. */
+  comfortFloorL40: number | null = null;
+  private comfortOn = false;
+  /** Why each source ran in the last step (null: off). */
+  lastHeat: { heatPump: HeatReason | null; immersion: HeatReason | null } = { heatPump: null, immersion: null };
   private seq = 0;
   private stuckC: number | null = null;
   /** The day (days since the epoch) of the last pasteurisation cycle started, and its hold's end. */
@@ -103,13 +122,14 @@ export class SimTank {
 
   snapshot(): SimTankSnapshot {
     return { nodesC: [...this.state.nodesC], hpOn: this.hpOn, lastStart: this.lastStart, tripUntil: this.tripUntil, boostUntil: this.boostUntil,
-      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, seq: this.seq, stuckC: this.stuckC,
+      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, comfortFloorL40: this.comfortFloorL40, seq: this.seq, stuckC: this.stuckC,
       pasteurDay: this.pasteurDay, pasteurHoldUntil: this.pasteurHoldUntil };
   }
 
   restore(s: SimTankSnapshot): void {
     if (s.nodesC.length === this.state.nodesC.length) this.state = { nodesC: [...s.nodesC] };
     Object.assign(this, { hpOn: s.hpOn, lastStart: s.lastStart ?? -Infinity, tripUntil: s.tripUntil, boostUntil: s.boostUntil, targetC: s.targetC, hysteresisK: s.hysteresisK, windows: s.windows, seq: s.seq, stuckC: s.stuckC });
+    this.comfortFloorL40 = s.comfortFloorL40 ?? null;
     this.pasteurDay = s.pasteurDay ?? -1;
     this.pasteurHoldUntil = s.pasteurHoldUntil ?? 0;
     this.pasteurising = this.pasteurHoldUntil > 0;
@@ -121,7 +141,10 @@ export class SimTank {
     else if (cmd.kind === 'set_target') {
       this.targetC = cmd.targetC;
       if (cmd.hysteresisK) this.hysteresisK = cmd.hysteresisK;
-    } else this.windows = cmd.windows;
+    } else {
+      this.windows = cmd.windows;
+      this.comfortFloorL40 = cmd.comfortFloorL40 ?? null;
+    }
     return null;
   }
 
@@ -160,6 +183,18 @@ export class SimTank {
     return 2500 * Math.sin((Math.PI * (hour - 10)) / 6) * (0.4 + 0.6 * this.rand());
   }
 
+  /**
+   * Whether the comfort floor calls for heat outside the schedule's windows now: on below the floor
+   * plus COMFORT_START_MARGIN_L, off again at the floor plus COMFORT_STOP_MARGIN_L.
+   */
+  private comfortCall(sensors: readonly number[], scheduled: boolean): boolean {
+    if (this.windows.length === 0 || this.comfortFloorL40 === null || scheduled) return (this.comfortOn = false);
+    const v40 = mixedWaterLitres({ layersC: sensors, volumeL: this.spec.volumeL, coldC: 10, deliveryC: 40 });
+    if (!this.comfortOn && v40 < this.comfortFloorL40 + COMFORT_START_MARGIN_L) this.comfortOn = true;
+    else if (this.comfortOn && v40 >= this.comfortFloorL40 + COMFORT_STOP_MARGIN_L) this.comfortOn = false;
+    return this.comfortOn;
+  }
+
   get boosting(): boolean {
     return this.boostUntil > 0;
   }
@@ -182,19 +217,29 @@ export class SimTank {
     const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(homeMinute, w.from, w.to));
     const hasHp = this.spec.heatSource !== 'immersion_only' && this.spec.hpOutputW > 0;
     const pasteur = this.pasteurisation(t, controlC);
+    const comfort = this.comfortCall(sensors, scheduled);
 
-    // Heat pump (or boiler) thermostat with hysteresis and the one-start-an-hour rule.
+    // Heat pump (or boiler) thermostat with hysteresis and the one-start-an-hour rule. It may heat
+    // inside the schedule's windows (and stops when one closes), or outside them for a boost, the
+    // pasteurisation cycle or the comfort floor. A plan's windows (a schedule with a comfort floor)
+    // are charge windows: in them it heats the whole store, until the sensor near the bottom reaches
+    // the target, as the charge planner's model assumes.
     if (hasHp) {
       const shortCycle = this.faults.has('short_cycle');
+      const charging = scheduled && this.windows.length > 0 && this.comfortFloorL40 !== null;
+      const chargeC = sensors[Math.floor(n * 0.15)];
       if (this.hpOn) {
         const tripped = shortCycle && t - this.runStart >= (4 + Math.floor(this.rand() * 3)) * MIN;
         if (tripped) this.tripUntil = t + 6 * MIN;
-        const satisfied = pasteur === 'heat' ? controlC >= PASTEUR_C : controlC >= this.targetC;
-        if (satisfied || tripped || (spaceHeatingBusy && !boost) || pasteur === 'hold') this.hpOn = false;
+        const satisfied = pasteur === 'heat' ? controlC >= PASTEUR_C : charging ? chargeC >= this.targetC - CHARGE_DEADBAND_K : controlC >= this.targetC;
+        const allowed = scheduled || boost || pasteur === 'heat' || comfort;
+        // A boost or the comfort floor takes the heat pump back from the house (hot-water priority).
+        if (satisfied || tripped || (spaceHeatingBusy && !boost && !comfort) || pasteur === 'hold' || !allowed) this.hpOn = false;
       } else {
-        const wants = controlC < this.targetC - this.hysteresisK || (boost && controlC < this.targetC) || pasteur === 'heat';
+        const wants = controlC < this.targetC - this.hysteresisK || ((boost || comfort) && controlC < this.targetC)
+          || (charging && chargeC < this.targetC - 2 * CHARGE_DEADBAND_K) || pasteur === 'heat';
         const mayStart = shortCycle ? t >= this.tripUntil : t - this.lastStart >= MIN_START_GAP_MS;
-        if (wants && mayStart && (scheduled || boost || pasteur === 'heat') && !spaceHeatingBusy) {
+        if (wants && mayStart && (scheduled || boost || pasteur === 'heat' || comfort) && (!spaceHeatingBusy || comfort)) {
           this.hpOn = true;
           this.lastStart = t;
           this.runStart = t;
@@ -205,18 +250,23 @@ export class SimTank {
     // Immersion: the only source of an immersion-only tank; otherwise a top-up while the heat
     // pump is busy with the house, a boost when no heat pump can take it, solar surplus, or a fault.
     let immersionOn = false;
-    if (this.faults.has('immersion_stuck')) immersionOn = true;
+    let immersionWhy: HeatReason | null = null;
+    if (this.faults.has('immersion_stuck')) [immersionOn, immersionWhy] = [true, 'fault'];
     else if (!hasHp) {
       if (this.immersionTopUp ? controlC >= this.targetC : controlC < this.targetC - this.hysteresisK) this.immersionTopUp = !this.immersionTopUp;
-      immersionOn = this.immersionTopUp && scheduled;
+      if (this.immersionTopUp && scheduled) [immersionOn, immersionWhy] = [true, 'schedule'];
+      else if (comfort) [immersionOn, immersionWhy] = [true, 'comfort'];
     } else {
       if (spaceHeatingBusy && topC < 42) this.immersionTopUp = true;
       if (this.immersionTopUp && (topC >= 48 || !spaceHeatingBusy)) this.immersionTopUp = false;
-      immersionOn = this.immersionTopUp;
+      if (this.immersionTopUp) [immersionOn, immersionWhy] = [true, 'space_heating'];
+      // The element backs the heat pump up on the comfort floor while the heat pump cannot run.
+      else if (comfort && !this.hpOn) [immersionOn, immersionWhy] = [true, 'comfort'];
     }
     // A boost switches the element on (its own thermostat still caps it) as well as the heat pump;
     // so does a pasteurisation cycle, and during its hold the element keeps the store at PASTEUR_C.
-    if (boost || pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C)) immersionOn = true;
+    if (boost) [immersionOn, immersionWhy] = [true, 'boost'];
+    else if (pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C)) [immersionOn, immersionWhy] = [true, 'pasteurisation'];
     // Solar surplus goes to the element through a proportional diverter, only while the water it can
     // reach has room below its thermostat (the energy core's rule); a full tank exports instead.
     const surplusW = this.demo.hasSolar ? this.solarSurplusW(t) : 0;
@@ -226,7 +276,7 @@ export class SimTank {
         volumeL: this.spec.volumeL, immersionHeightFrac: this.spec.immersionHeightFrac });
       this.lastDiversion = d.reason;
       if (d.divertW > 0) {
-        immersionOn = true;
+        [immersionOn, immersionWhy] = [true, 'solar'];
         immersionPowerW = d.divertW;
       }
     } else this.lastDiversion = surplusW > 0 ? 'element_busy' : 'no_surplus';
@@ -251,6 +301,10 @@ export class SimTank {
     }
 
     const flowC = pasteur === 'heat' ? 65 : Math.min(65, this.targetC + 5);
+    this.lastHeat = {
+      heatPump: !this.hpOn ? null : pasteur === 'heat' ? 'pasteurisation' : boost ? 'boost' : scheduled ? 'schedule' : 'comfort',
+      immersion: immersionWhy,
+    };
     const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC, ...(immersionPowerW === undefined ? {} : { immersionPowerW }) });
     if (this.active) {
       this.active.remainingJ -= out.drawnJ;

@@ -263,6 +263,12 @@ export const commandRequestSchema = z.discriminatedUnion('kind', [
     /** Local-time windows in which the heat pump may heat water; empty: any time. */
     windows: z.array(z.object({ from: hhmm, to: hhmm }), { error: 'windows must be a list of { from, to } times.' })
       .max(6, { error: 'windows can have at most 6 entries.' }),
+    /**
+     * Litres of mixed water at 40 °C to keep at least (a charge plan's comfort floor): outside the
+     * windows the tank heats anyway when it holds less. Optional; without it the windows are strict.
+     */
+    comfortFloorL40: z.number({ error: 'comfortFloorL40 must be a number of litres at 40 °C.' })
+      .min(0, { error: 'comfortFloorL40 must be 0 L or more.' }).max(1000, { error: 'comfortFloorL40 must be at most 1000 L.' }).optional(),
   }),
 ], { error: 'kind must be one of boost, set_target, set_schedule.' });
 export type CommandRequest = z.infer<typeof commandRequestSchema>;
