@@ -76,15 +76,15 @@ async function openKindsOf(tx: Tx, tankId: string): Promise<Set<AlertKind>> {
   return new Set(res.rows.map((r) => r.kind));
 }
 
-type ReadingRow = { ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null };
+type ReadingRow = { ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null; solar_surplus_w: number | null };
 
 async function readingsAfter(tx: Tx, tankId: string, afterMs: number, limit: number): Promise<Reading[]> {
   const res = await tx.execute<ReadingRow>(sql`
-    select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm
+    select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w
     from readings where tank_id = ${tankId} and ts > ${new Date(afterMs).toISOString()}::timestamptz order by ts limit ${limit}`);
   return res.rows.map((x) => fromStored({
     tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
-    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm,
+    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm, solarSurplusW: x.solar_surplus_w,
   }));
 }
 

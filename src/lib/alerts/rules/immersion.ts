@@ -1,8 +1,9 @@
 // Immersion doing too much: the immersion element's share of the heat put into the cylinder over
 // the window (7 days) above the configured share, on a tank that has a heat pump. The heat of each
 // source comes from the energy core's accountDay (an energy balance over the readings), one UTC day
-// at a time, kept as daily sums so that each batch only adds to them. Diverted solar surplus is not
-// reported by the controllers yet, so it counts as immersion heat. Pure: no I/O.
+// at a time, kept as daily sums so that each batch only adds to them. Heat from diverted solar surplus
+// (readings' solarSurplusW) is free and displaces nothing the household pays for, so only the
+// element's grid heat counts. Pure: no I/O.
 import { accountDay } from '../../energy';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
@@ -13,7 +14,7 @@ const MIN_HEAT_KWH = 3;
 /** The share must fall this many points below the limit to clear: no flapping at the edge. */
 const CLEAR_BAND_PCT = 5;
 
-type Row = { ts: number; layersC: number[]; compressor?: boolean; immersionW?: number; powerW?: number; drawLpm?: number };
+type Row = { ts: number; layersC: number[]; compressor?: boolean; immersionW?: number; powerW?: number; drawLpm?: number; solarSurplusW?: number };
 export interface ImmersionState { days: { day: number; hpKWh: number; immKWh: number; coveredMin: number }[]; prev: Row | null }
 
 export const initialImmersion = (): ImmersionState => ({ days: [], prev: null });
@@ -31,6 +32,7 @@ export function accountBatch(s: ImmersionState, readings: readonly Reading[], ta
     if (r.immersionW !== undefined) row.immersionW = r.immersionW;
     if (r.powerW !== undefined) row.powerW = r.powerW;
     if (r.drawLpm !== undefined) row.drawLpm = r.drawLpm;
+    if (r.solarSurplusW !== undefined) row.solarSurplusW = r.solarSurplusW;
     rows.push(row);
   }
   if (rows.length >= 2) {
@@ -45,7 +47,7 @@ export function accountBatch(s: ImmersionState, readings: readonly Reading[], ta
       let d = s.days.find((x) => x.day === day);
       if (!d) s.days.push((d = { day, hpKWh: 0, immKWh: 0, coveredMin: 0 }));
       d.hpKWh += Math.max(0, e.heatPumpHeatKWh);
-      d.immKWh += e.immersionGridHeatKWh + e.immersionSolarHeatKWh;
+      d.immKWh += e.immersionGridHeatKWh;
       d.coveredMin += e.coveredMinutes;
       i = j;
     }
