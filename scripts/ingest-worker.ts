@@ -1,11 +1,13 @@
 // The ingest worker process (`npm start` and the tests start it): MQTT → validation → PostgreSQL,
-// plus the periodic jobs that belong with the data: rollups, partition upkeep and retention.
+// plus the periodic jobs that belong with the data: rollups, each tank's energy per day, partition
+// upkeep and retention.
 import { closeDb, getPool } from '../src/db';
 import { refreshRollups, runRetention, setReadingsRetention } from '../src/db/queries/rollups';
 import { env } from '../src/lib/server/env';
 import { SERVICE_USERNAME, servicePassword } from '../src/lib/telemetry/device-token';
 import { IngestWorker } from '../src/lib/telemetry/ingest-worker.server';
 import { AlertClock, BatchEvaluator } from '../src/lib/alerts/runner.server';
+import { ENERGY_DAYS_KEPT, catchUpEnergyDays, pruneEnergyDays } from '../src/lib/tank-energy/energy-days.server';
 
 const ROLLUP_EVERY_MS = 30_000;
 const RETENTION_EVERY_MS = 3_600_000;
@@ -35,10 +37,13 @@ async function main(): Promise<void> {
       if (!retentionSet) { await setReadingsRetention(e.READINGS_RETENTION_DAYS); retentionSet = true; }
       if (Date.now() - lastRetention > RETENTION_EVERY_MS) {
         await runRetention({ rollupDays: e.ROLLUPS_RETENTION_DAYS, deadLetterDays: DEAD_LETTER_DAYS });
+        await pruneEnergyDays(ENERGY_DAYS_KEPT);
         lastRetention = Date.now();
       }
       // Catch up in slices so one call never holds a long transaction (a backfill leaves many buckets).
       for (let i = 0; i < 50 && (await refreshRollups(2000)) > 0; i++);
+      // Then the days those rollups closed (the fleet's energy figures read them).
+      await catchUpEnergyDays();
     } catch (err) {
       console.error(`[ingest] periodic job failed (will retry): ${err instanceof Error ? err.message : String(err)}`);
     } finally {

@@ -5,6 +5,7 @@ export interface NavItem { href: string; label: string; roles: readonly Role[] }
 /** The app shell's navigation: each person sees the parts of the product their role uses. */
 export const navItems: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
+  { href: '/fleet/energy', label: 'Energy', roles: ['admin', 'operator'] },
   { href: '/alerts', label: 'Alerts', roles: ['admin', 'operator', 'engineer'] },
   { href: '/tanks', label: 'Cylinders', roles: ['admin', 'operator', 'engineer'] },
   { href: '/commissioning', label: 'Commissioning', roles: ['admin', 'operator', 'engineer'] },
@@ -15,4 +16,11 @@ export const navItems: readonly NavItem[] = [
 
 export function navFor(role: Role | undefined): NavItem[] {
   return role ? navItems.filter((n) => n.roles.includes(role)) : [];
+}
+
+/** The item the page at `path` belongs to: the longest href it starts with (so /fleet/energy is Energy, not Fleet). */
+export function currentHref(items: readonly NavItem[], path: string): string | null {
+  let best: string | null = null;
+  for (const n of items) if ((path === n.href || path.startsWith(`${n.href}/`)) && (best === null || n.href.length > best.length)) best = n.href;
+  return best;
 }

@@ -1,6 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import { energyQuery } from '../../lib/query/energy.queries';
-import { fmtMoney } from '../../lib/tank-energy/present';
+import { fmtMoney, solarSentence } from '../../lib/tank-energy/present';
 import { ChargePlanPanel } from './ChargePlanPanel';
 
 /** The householder's cost card, in plain words, and the simple charge plan. */
@@ -19,6 +19,7 @@ export function HotWaterCost({ tankId }: { tankId: string }) {
               <p className="mt-1"><span className="figure text-3xl font-semibold">{fmtMoney(e.totals.costPence)}</span> <span className="text-sm">over the last {e.totals.days} day{e.totals.days === 1 ? '' : 's'}</span></p>
               <p className="mt-1 text-sm">That heated about {Math.round(e.totals.drawnLitres40)} litres of warm water, about {fmtMoney(e.totals.costPence / e.totals.days)} a day.
                 {e.tariffSource === 'none' ? ' No tariff is set for your home yet, so this is not priced; ask your installer.' : ''}</p>
+              {solarSentence(e.totals.solarHeatKWh, e.totals.days) && <p className="mt-1 text-sm" data-testid="solar-sentence">{solarSentence(e.totals.solarHeatKWh, e.totals.days)}</p>}
             </>
           )}
       </section>

@@ -31,8 +31,10 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/admin/audit': { GET: ['admin'] },
   '/dev/mail': { GET: ['admin'] },
   '/homes/[id]/householders': { GET: staff },
+  '/homes/[id]/tariff': { GET: staff },
   // views: fleet triage, one tank in depth, hot water at home
   '/fleet': { GET: desk },
+  '/fleet/energy': { GET: desk },
   '/tanks': { GET: staff },
   '/tanks/[id]': { GET: staff },
   '/home': { GET: ['householder'] },
@@ -95,6 +97,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/tanks/[id]/energy': { GET: everyone },
   '/api/tanks/[id]/plan': { POST: everyone },
   '/api/tanks/[id]/plan/send': { POST: everyone },
+  '/api/fleet/energy': { GET: desk },
 };
 
 export { desk, everyone, staff };

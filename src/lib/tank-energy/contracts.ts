@@ -1,6 +1,7 @@
 // Request shapes of the energy, tariff and planning endpoints (zod), shared by islands and endpoints.
 import { z } from 'zod';
 import type { DayEnergy, MonthEnergy, PlanStep } from '../energy';
+import type { Fence, outlierRule } from './fleet-outliers';
 
 /** The household clock every demo home keeps. */
 export const HOME_TIME_ZONE = 'Europe/London';
@@ -49,9 +50,15 @@ export const tariffCsvQuery = z.object({
 /** What GET /api/tanks/{id}/energy answers. */
 export interface EnergyResponse {
   from: string; to: string; timeZone: string;
+  /** The tank's home (its tariff page is /homes/{homeId}/tariff), or null for a tank not yet in a home. */
+  homeId: string | null;
   tariffSource: 'home' | 'company' | 'none';
   days: DayEnergy[]; months: MonthEnergy[];
-  totals: { costPence: number; electricityKWh: number; drawnLitres40: number; heatInKWh: number; dhwCop: number | null; days: number };
+  totals: {
+    costPence: number; electricityKWh: number; drawnLitres40: number; heatInKWh: number; dhwCop: number | null; days: number;
+    /** Heat from the immersion on diverted solar surplus (free), kWh, and what that surplus would have earned exported, pence. */
+    solarHeatKWh: number; solarExportForgonePence: number;
+  };
 }
 
 /** What POST /api/tanks/{id}/plan answers. */
@@ -64,4 +71,48 @@ export interface PlanResponse {
   windows: { from: string; to: string }[] | null;
   costPence: number; baselineCostPence: number; savingsPence: number;
   floorMet: boolean; tariffSource: 'home' | 'company';
+}
+
+/** Longest range the fleet figures compare, days (stored days are kept 400). */
+export const MAX_FLEET_ENERGY_DAYS = 366;
+
+/**
+ * GET /api/fleet/energy?from&to: local calendar dates, inclusive; by default the 30 days that ended
+ * yesterday (today has not ended, so it has no stored figures yet).
+ */
+export const fleetEnergyQuery = z.object({ from: date.optional(), to: date.optional() }).strict().transform((q, ctx) => {
+  const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+  const to = q.to ?? yesterday;
+  const from = q.from ?? new Date(Date.parse(`${to}T00:00:00Z`) - 29 * 86_400_000).toISOString().slice(0, 10);
+  const days = (Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000 + 1;
+  if (days < 1) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be on or after from.' });
+  if (days > MAX_FLEET_ENERGY_DAYS) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: `The range is ${days} days; at most ${MAX_FLEET_ENERGY_DAYS} fit in one request.` });
+  return { from, to };
+});
+export type FleetEnergyQuery = z.infer<typeof fleetEnergyQuery>;
+
+/** One home that stands apart on one figure. */
+export interface FleetOutlier {
+  tankId: string; serial: string; homeReference: string | null; town: string | null;
+  metric: 'cost_per_100l' | 'dhw_cop';
+  /** Pence per 100 litres at 40 °C, or the DHW COP. */ value: number;
+  side: 'high' | 'low';
+  /** How far beyond its fence, in interquartile ranges (null when the IQR is 0). */ beyondIqr: number | null;
+  days: number;
+}
+
+/** What GET /api/fleet/energy answers. */
+export interface FleetEnergyResponse {
+  from: string; to: string; timeZone: string;
+  /** Homes (tanks) with stored days in the range, and those days. */ homes: number; homeDays: number;
+  averages: {
+    /** Fleet cost over fleet home-days, pence. */ costPencePerHomeDay: number | null;
+    /** Fleet cost over fleet litres drawn, pence per 100 L at 40 °C. */ costPencePer100L: number | null;
+    /** Fleet heat-pump heat over its electricity. */ dhwCop: number | null;
+    /** Free heat from diverted solar surplus across the fleet, kWh. */ solarHeatKWh: number;
+    /** Grid electricity no tariff priced (left out of the costs), kWh. */ unpricedKWh: number;
+  };
+  fences: { cost_per_100l: Fence | null; dhw_cop: Fence | null };
+  outliers: FleetOutlier[];
+  rule: typeof outlierRule;
 }

@@ -3,13 +3,15 @@
 import {
   findEnergyTank, findHomeInScope, insertTariff, lastCompressorStart, listEnergyReadings, listTariffs, tariffsForHome, type EnergyTank,
 } from '../../db/queries/energy';
+import { fleetEnergyFigures, queueDaysForTariff } from '../../db/queries/energy-days';
 import { getLatestState } from '../../db/queries/telemetry';
 import type { TariffRow } from '../../db/schema';
 import { HttpError, type Scope } from '../server/authz';
 import type { Viewer } from '../server/viewer';
 import { sendCommand } from '../telemetry/commands.server';
 import { accountDays, readingWindow } from './account';
-import { HOME_TIME_ZONE, type EnergyQuery, type EnergyResponse, type PlanBody, type PlanResponse } from './contracts';
+import { HOME_TIME_ZONE, type EnergyQuery, type EnergyResponse, type FleetEnergyQuery, type FleetEnergyResponse, type PlanBody, type PlanResponse } from './contracts';
+import { fence, outlierRule } from './fleet-outliers';
 import { accountingTank, energyReadings } from './inputs';
 import { PlanRefusal, planCharge, planInput, shapePlan } from './plan';
 import type { TariffProblem } from './tariff-upload';
@@ -47,12 +49,13 @@ export async function tankEnergy(scope: Scope, tankId: string | undefined, q: En
   const hpHeat = sum((d) => d.heatPumpHeatKWh);
   const hpElec = sum((d) => d.heatPumpElectricityKWh);
   return {
-    from: q.from, to: q.to, timeZone: HOME_TIME_ZONE, tariffSource: source, days, months,
+    from: q.from, to: q.to, timeZone: HOME_TIME_ZONE, homeId: tank.homeId, tariffSource: source, days, months,
     totals: {
       costPence: sum((d) => d.costPence),
       electricityKWh: sum((d) => d.heatPumpElectricityKWh + d.immersionGridElectricityKWh),
       drawnLitres40: sum((d) => d.drawnLitres40), heatInKWh: sum((d) => d.heatInKWh),
       dhwCop: hpElec > 0 ? hpHeat / hpElec : null, days: days.length,
+      solarHeatKWh: sum((d) => d.immersionSolarHeatKWh), solarExportForgonePence: sum((d) => d.solarExportForgonePence),
     },
   };
 }
@@ -88,7 +91,8 @@ export async function sendPlan(viewer: Viewer, scope: Scope, tankId: string | un
   if (plan.windows === null) {
     throw new HttpError(409, 'NothingToSchedule', 'The plan does not heat the tank in the next 24 hours (it holds enough already), so there is no schedule to send. The tank keeps its current schedule.');
   }
-  const sent = await sendCommand({ tank, request: { kind: 'set_schedule', windows: plan.windows }, actorUserId: viewer.userId });
+  // The floor travels with the windows, so that the tank heats outside them rather than run short.
+  const sent = await sendCommand({ tank, request: { kind: 'set_schedule', windows: plan.windows, comfortFloorL40: plan.comfortFloorL40 }, actorUserId: viewer.userId });
   return { plan, ...sent };
 }
 
@@ -117,10 +121,32 @@ export function tariffRefusal(problems: readonly TariffProblem[]): Response {
 
 /** Stores a validated tariff and answers 201 with it. */
 export async function storeTariff(viewer: Viewer, homeId: string | null, tariff: Tariff): Promise<Response> {
-  return json({ tariff: await insertTariff({ companyId: viewer.companyId, homeId, tariff, createdBy: viewer.userId }) }, 201);
+  const row = await insertTariff({ companyId: viewer.companyId, homeId, tariff, createdBy: viewer.userId });
+  // The stored daily figures of the days it prices are accounted again by the energy-day job.
+  await queueDaysForTariff({ companyId: viewer.companyId, homeId, validFromMs: tariff.validFromMs, validToMs: tariff.validToMs, timeZone: HOME_TIME_ZONE });
+  return json({ tariff: row }, 201);
 }
 
 export async function tariffsVisible(scope: Scope, homeId: string | undefined): Promise<TariffRow[]> {
   if (homeId !== undefined && !(await findHomeInScope(scope, homeId))) throw new HttpError(404, 'HomeNotFound', 'There is no such home.');
   return listTariffs(scope.companyId, homeId ?? null);
+}
+
+/** The desk's fleet energy figures over local dates, from the stored days (src/db/queries/energy-days.ts). */
+export async function fleetEnergy(scope: Scope, q: FleetEnergyQuery): Promise<FleetEnergyResponse> {
+  const r = await fleetEnergyFigures(scope.companyId, q.from, q.to, outlierRule);
+  const s = r.summary;
+  const ratio = (a: number | null, b: number | null, k = 1) => (a !== null && b !== null && b > 0 ? (k * a) / b : null);
+  return {
+    from: q.from, to: q.to, timeZone: HOME_TIME_ZONE, homes: s.homes, homeDays: s.home_days ?? 0,
+    averages: {
+      costPencePerHomeDay: ratio(s.cost, s.home_days), costPencePer100L: ratio(s.cost, s.litres, 100), dhwCop: ratio(s.hp_heat, s.hp_elec),
+      solarHeatKWh: s.solar ?? 0, unpricedKWh: s.unpriced ?? 0,
+    },
+    fences: { cost_per_100l: fence(s.n_cpl, s.q_cpl), dhw_cop: fence(s.n_cop, s.q_cop) },
+    outliers: (r.outliers ?? []).map((o) => ({
+      tankId: o.tank_id, serial: o.serial, homeReference: o.reference, town: o.town, metric: o.metric, value: o.value, side: o.side, beyondIqr: o.beyond_iqr, days: o.days,
+    })),
+    rule: outlierRule,
+  };
 }

@@ -14,6 +14,8 @@ export interface EnergyTankFacts {
 export interface StoredReading {
   ts: Date; layersCc: (number | null)[]; compressor: boolean | null;
   immersionW: number | null; powerW: number | null; drawDlpm: number | null;
+  /** Solar power beyond the household's use, before diversion, W (null: the tank does not report it). */
+  solarSurplusW: number | null;
 }
 
 /** Air around an indoor cylinder, °C: EN 12897 measures standing loss in a room at about 20 °C (from memory). */
@@ -36,6 +38,7 @@ export function energyReadings(rows: readonly StoredReading[]): EnergyReading[] 
     if (r.immersionW !== null) e.immersionW = r.immersionW;
     if (r.powerW !== null) e.powerW = r.powerW;
     if (r.drawDlpm !== null) e.drawLpm = r.drawDlpm / 10;
+    if (r.solarSurplusW !== null) e.solarSurplusW = r.solarSurplusW;
     out.push(e);
   }
   return out;

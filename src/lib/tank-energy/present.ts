@@ -1,5 +1,21 @@
 // Shaping energy and plan answers for the views: money in plain words, chart columns. Pure.
+import { kWhPerLitreAt40 } from '../energy/browser';
 import type { PlanResponse } from './contracts';
+
+/** Below this much solar heat a week there is nothing worth telling a householder, kWh (a few minutes of an element). */
+const SOLAR_WORTH_SAYING_KWH = 0.05;
+
+/**
+ * The householder's sentence about free heat from their solar panels, in litres of warm water (no
+ * energy units on that page), or null when there was none worth mentioning. Litres at 40 °C from
+ * 10 °C mains, the EN 16147 V40 reference.
+ */
+export function solarSentence(solarHeatKWh: number, days: number): string | null {
+  if (!(solarHeatKWh >= SOLAR_WORTH_SAYING_KWH)) return null;
+  const litres = Math.max(1, Math.round(solarHeatKWh / kWhPerLitreAt40(10)));
+  const over = days === 1 ? 'the last day' : `the last ${days} days`;
+  return `Your solar panels heated about ${litres} litre${litres === 1 ? '' : 's'} of it for free over ${over}, with spare power that would otherwise have gone to the grid.`;
+}
 
 /** Pence as people say it: "45p" under a pound, "£3.20" from a pound. */
 export function fmtMoney(pence: number): string {

@@ -40,7 +40,9 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/admin/audit': { methods: { GET: { who: admin } } },
   '/dev/mail': { methods: { GET: { who: admin } } },
   '/homes/[id]/householders': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' } } },
+  '/homes/[id]/tariff': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/fleet': { methods: { GET: { who: desk } } },
+  '/fleet/energy': { methods: { GET: { who: desk } } },
   '/tanks': { methods: { GET: { who: staff } } },
   '/tanks/[id]': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/home': { methods: { GET: { who: householder } } },
@@ -104,4 +106,5 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/tanks/[id]/energy': { params: { id: 'tank' }, methods: { GET: { who: everyone, scope: 'home' } } },
   '/api/tanks/[id]/plan': { params: { id: 'tank' }, methods: { POST: { who: everyone, scope: 'home' } } },
   '/api/tanks/[id]/plan/send': { params: { id: 'spareTank' }, methods: { POST: { who: everyone, scope: 'home' } } },
+  '/api/fleet/energy': { methods: { GET: { who: desk } } },
 };
