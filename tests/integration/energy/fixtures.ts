@@ -1,7 +1,9 @@
 // Homes and tanks of their own for the energy tests, with readings, latest state and tariffs
 // written straight into the product's tables, so that every figure can be worked by hand.
 import { randomUUID } from 'node:crypto';
+import { hash } from '@node-rs/argon2';
 import { query } from '../../support/db';
+import { signIn } from '../../support/session';
 import { companyId } from '../../support/accounts';
 import type { DemoCompanySlug } from '../../support/session';
 import { localDayBounds } from '../../../src/lib/energy';
@@ -58,6 +60,17 @@ export async function writeHandWorkedDay(t: EnergyTank, date: string): Promise<v
     [t.id, new Date(startMs), new Date(endMs)]);
 }
 
+/**
+ * On top of {@link writeHandWorkedDay}: from 12:00 to 13:00 local the immersion takes 2000 W while the
+ * solar surplus is 1500 W, so 1.5 kWh of its heat is free and 0.5 kWh comes from the grid.
+ */
+export async function addSolarHour(t: EnergyTank, date: string): Promise<void> {
+  const { startMs } = localDayBounds(date, 'Europe/London');
+  await query(
+    `update readings set immersion_w = 2000, power_w = 2000, solar_surplus_w = 1500
+     where tank_id = $1 and ts >= $2 and ts < $3`, [t.id, new Date(startMs + 12 * 3_600_000), new Date(startMs + 13 * 3_600_000)]);
+}
+
 export async function dropTanks(): Promise<void> {
   const ids = made.map((t) => t.id);
   await query('delete from readings where tank_id = any($1::uuid[])', [ids]);
@@ -75,4 +88,47 @@ export async function call(cookie: string, method: string, path: string, body?: 
   });
   const text = await res.text();
   return { status: res.status, body: text ? JSON.parse(text) : null };
+}
+
+/** A company of its own (invented, example.com), so that its fleet figures and defaults touch nobody else's. */
+export async function ownCompany(name: string): Promise<{ id: string; tag: string; domain: string }> {
+  const tag = randomUUID().slice(0, 8);
+  const domain = `${name.toLowerCase()}.example.com`;
+  const [c] = await query<{ id: string }>(`insert into companies (slug, name, email_domain) values ($1, $2, $3) returning id`, [`${name.toLowerCase()}-${tag}`, `${name} Heating ${tag}`, domain]);
+  return { id: c!.id, tag, domain };
+}
+
+/** A member of that company with a password, signed in: the session cookie. */
+export async function staffOf(company: { id: string; tag: string; domain: string }, role: string): Promise<string> {
+  const email = `${role}-${company.tag}@${company.domain}`;
+  const [u] = await query<{ id: string }>(`insert into "user" (id, email, name, password_hash, "emailVerified") values ($1, $2, $3, $4, now()) returning id`,
+    [randomUUID(), email, `Test ${role}`, await hash('energy-test-password')]);
+  await query('insert into memberships (user_id, company_id, role) values ($1, $2, $3)', [u!.id, company.id, role]);
+  return signIn(base(), email, 'energy-test-password');
+}
+
+/**
+ * A home with one tank in `companyId`, and one stored day (energy_days) per entry: `litres` at 40 °C
+ * drawn, `cost` pence, heat-pump `hpElec` kWh making `hpHeat` kWh, 0.5 kWh of solar heat. Returns the tank id.
+ */
+export async function homeWithDays(companyId: string, n: number, days: { date: string; litres: number; cost: number; hpElec: number; hpHeat: number }[]): Promise<string> {
+  const tag = randomUUID().slice(0, 6).toUpperCase();
+  const [home] = await query<{ id: string }>(`insert into homes (company_id, reference, address_line, town, postcode, occupants) values ($1, $2, $3, 'Tarnfield', 'WM9 4ZZ', 3) returning id`,
+    [companyId, `FH-${n}-${tag}`, `${n} Fen Row`]);
+  const [tank] = await query<{ id: string }>(
+    `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, target_c, hysteresis_k)
+     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 8, 'hp_plate', 5000, 3000, 55, 5) returning id`, [companyId, home!.id, `FH${tag}-${n}`]);
+  for (const d of days) {
+    await query(`insert into energy_days (tank_id, day, company_id, cost_pence, heat_pump_heat_kwh, heat_pump_electricity_kwh, immersion_grid_heat_kwh,
+        immersion_solar_heat_kwh, drawn_litres40, standing_loss_kwh, solar_export_forgone_pence, unpriced_kwh, covered_minutes)
+      values ($1, $2, $3, $4, $5, $6, 0, 0.5, $7, 1, 0, 0, 1440)`, [tank!.id, d.date, companyId, d.cost, d.hpHeat, d.hpElec, d.litres]);
+  }
+  return tank!.id;
+}
+
+/** Removes a company made by {@link ownCompany}, with its homes, tanks, tariffs and stored days. */
+export async function dropCompany(companyId: string): Promise<void> {
+  await query('delete from readings where tank_id in (select id from tanks where company_id = $1)', [companyId]);
+  await query('delete from tanks where company_id = $1', [companyId]);
+  await query('delete from companies where id = $1', [companyId]);
 }
