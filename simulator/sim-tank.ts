@@ -173,14 +173,16 @@ export class SimTank {
   }
 
   /**
-   * Solar power beyond the household's own use, W (demo): a midday bump from April to September,
-   * varying minute to minute with the clouds; nothing at night or in winter.
+   * Solar power beyond the household's own use, W (demo): a midday bump, about 2.5 kW at its peak in
+   * midsummer and 0.5 kW in midwinter over a shorter day, varying minute to minute with the clouds.
    */
   private solarSurplusW(t: number): number {
-    const month = new Date(t).getUTCMonth();
-    const hour = (t % DAY) / 3_600_000;
-    if (month < 3 || month > 8 || hour <= 10 || hour >= 16) return 0;
-    return 2500 * Math.sin((Math.PI * (hour - 10)) / 6) * (0.4 + 0.6 * this.rand());
+    const doy = (t % (365.25 * DAY)) / DAY;
+    const summer = 0.5 + 0.5 * Math.cos((2 * Math.PI * (doy - 172)) / 365.25); // 1 at the June solstice, 0 at December's
+    const halfDayH = 3 + 2 * summer;
+    const fromNoonH = (t % DAY) / 3_600_000 - 12;
+    if (Math.abs(fromNoonH) >= halfDayH) return 0;
+    return (500 + 2000 * summer) * Math.cos((Math.PI * fromNoonH) / (2 * halfDayH)) * (0.4 + 0.6 * this.rand());
   }
 
   /**
