@@ -8,23 +8,18 @@ import { loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
 import { buildDir, ensureBuild } from '../../scripts/lib/build';
 import { pageScriptSizes } from '../../scripts/lib/island-sizes';
-import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
+import { benchPort, pct, seedBenchCompany, withBenchDatabase } from './fleet-database';
 
 const TANKS = Number(process.env.BENCH_TANKS ?? 50_000);
 const RUNS = Number(process.env.BENCH_RUNS ?? 40);
 // Inside the caller's test port block (base + 90), so it can run beside other contributors' tests.
-const PORT = Number(process.env.BENCH_PG_PORT ?? (process.env.HEATLAYER_TEST_PORT_BASE ? Number(process.env.HEATLAYER_TEST_PORT_BASE) + 90 : 55790));
+const PORT = benchPort(90);
 const KEEP = process.env.BENCH_KEEP === '1';
 
-const pct = (xs: number[], p: number) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
 async function time<T>(fn: () => Promise<T>): Promise<[number, T]> { const t = performance.now(); const r = await fn(); return [performance.now() - t, r]; }
 
 async function main() {
-  const server = await startPostgres({ port: PORT, dataDir: defaultDataDir(PORT, true), fresh: true });
-  process.env.DATABASE_URL = server.url;
-  try {
-    const { runMigrations } = await import('../../scripts/migrate');
-    await runMigrations();
+  await withBenchDatabase(PORT, async () => {
     const { db, closeDb } = await import('../../src/db');
     const { sql } = await import('drizzle-orm');
     const { listTanks } = await import('../../src/db/queries/tanks');
@@ -35,11 +30,7 @@ async function main() {
     const d = db();
 
     const seedStart = performance.now();
-    const [{ id: companyId }] = (await d.execute<{ id: string }>(sql`insert into companies (slug, name, email_domain) values ('bench', 'Bench Fleet', 'bench.example.com') returning id`)).rows;
-    await d.execute(sql`
-      insert into homes (company_id, reference, address_line, town, postcode)
-      select ${companyId}, 'BH-' || g, g || ' Bench Street', (array['Ashby Wend','Larkholt','Cobbmere','Tarnfield'])[1 + g % 4], 'WM1 1AA'
-      from generate_series(1, ${TANKS}) g`);
+    const companyId = await seedBenchCompany(TANKS);
     await d.execute(sql`
       insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w)
       select ${companyId}, h.id, 'BN-' || lpad(substr(h.reference, 4), 6, '0'), 'C210 cylinder', 210, 1.4, 12,
@@ -147,10 +138,7 @@ async function main() {
     for (const p of pageScriptSizes(buildDir()).filter((x) => x.files > 0)) {
       console.log(`  ${p.page.padEnd(26)} ${(p.gzipBytes / 1024).toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}`);
     }
-  } finally {
-    if (KEEP) console.log(`database kept: psql ${server.url}   (stop: runuser -u postgres -- /usr/lib/postgresql/15/bin/pg_ctl stop -D ${server.dataDir})`);
-    else stopPostgres(server.dataDir);
-  }
+  }, KEEP);
 }
 
 main().catch((err) => { console.error(err); process.exitCode = 1; });

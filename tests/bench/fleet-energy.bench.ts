@@ -3,23 +3,17 @@
 // (GET /api/fleet/energy's query and shaping, no HTTP) over 7, 30 and 90 days; plus the energy-day
 // job accounting one day of minute readings for 200 tanks. Figures only: nothing passes or fails.
 import { loadavg } from 'node:os';
-import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
+import { benchPort, pct, seedBenchCompany, withBenchDatabase } from './fleet-database';
 
 const HOMES = Number(process.env.BENCH_HOMES ?? 50_000);
 const DAYS = 30;
 const RUNS = Number(process.env.BENCH_RUNS ?? 15);
 const JOB_TANKS = 200;
 // Inside the caller's test port block (base + 96), so it can run beside other contributors' tests.
-const PORT = Number(process.env.BENCH_PG_PORT ?? (process.env.HEATLAYER_TEST_PORT_BASE ? Number(process.env.HEATLAYER_TEST_PORT_BASE) + 96 : 55796));
-
-const pct = (xs: number[], p: number) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
+const PORT = benchPort(96);
 
 async function main() {
-  const server = await startPostgres({ port: PORT, dataDir: defaultDataDir(PORT, true), fresh: true });
-  process.env.DATABASE_URL = server.url;
-  try {
-    const { runMigrations } = await import('../../scripts/migrate');
-    await runMigrations();
+  await withBenchDatabase(PORT, async () => {
     const { db, closeDb } = await import('../../src/db');
     const { sql } = await import('drizzle-orm');
     const { fleetEnergy } = await import('../../src/lib/tank-energy/energy.server');
@@ -27,10 +21,7 @@ async function main() {
     const d = db();
 
     const seedStart = performance.now();
-    const [{ id: companyId }] = (await d.execute<{ id: string }>(sql`insert into companies (slug, name, email_domain) values ('bench', 'Bench Fleet', 'bench.example.com') returning id`)).rows;
-    await d.execute(sql`
-      insert into homes (company_id, reference, address_line, town, postcode)
-      select ${companyId}, 'BH-' || g, g || ' Bench Street', (array['Ashby Wend','Larkholt','Cobbmere','Tarnfield'])[1 + g % 4], 'WM1 1AA' from generate_series(1, ${HOMES}) g`);
+    const companyId = await seedBenchCompany(HOMES);
     await d.execute(sql`
       insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, declared_loss_w, target_c, hysteresis_k)
       select ${companyId}, h.id, 'BT' || h.reference, 'C210 cylinder', 210, 1.4, 8, 'hp_plate', 6000, 3000, 60, 55, 5 from homes h where h.company_id = ${companyId}`);
@@ -78,9 +69,7 @@ async function main() {
     for (const l of lines) console.log(l);
     console.log(`Energy-day job: ${written} tank-days of 1,441 readings each in ${(jobMs / 1000).toFixed(1)} s (${(jobMs / Math.max(1, written)).toFixed(1)} ms a tank-day)`);
     await closeDb();
-  } finally {
-    stopPostgres(server.dataDir);
-  }
+  });
 }
 
 main().catch((err) => { console.error(err); process.exit(1); });
