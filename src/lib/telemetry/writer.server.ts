@@ -273,7 +273,7 @@ async function copyStraightIn(client: pg.PoolClient, rows: readonly StoredReadin
     await client.query('rollback to savepoint straight_in');
     return false;
   }
-  await client.query('release savepoint straight_in');
+  // Left in place: commit releases it, and one round trip fewer a batch.
   return true;
 }
 
