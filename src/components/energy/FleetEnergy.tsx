@@ -15,7 +15,7 @@ const lastDays = (n: number) => ({ from: isoDay(Date.now() - n * DAY_MS), to: is
 const metrics: Record<OutlierMetric, { title: string; unit: string; fmt: (x: number) => string; worse: 'high' | 'low'; why: string }> = {
   cost_per_100l: {
     title: 'Cost per 100 litres of warm water', unit: 'p per 100 L at 40 °C', fmt: (x) => `${x.toFixed(1)}p`, worse: 'high',
-    why: 'A home high here pays more than its neighbours for the same hot water: look for immersion use, a poor tariff or a heat pump that struggles. Low ones may have a meter or sensor fault.',
+    why: 'A home high here pays more than its neighbours for the same hot water: look for immersion use, a poor tariff or a heat pump that struggles. Low ones may have a meter or sensor fault. Heat-pump homes only: a cylinder heated by its immersion alone costs more per litre by design.',
   },
   dhw_cop: {
     title: 'DHW COP (heat-pump heat over its electricity)', unit: '', fmt: (x) => x.toFixed(2), worse: 'low',

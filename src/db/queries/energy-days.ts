@@ -130,10 +130,12 @@ export async function fleetEnergyFigures(companyId: string, from: string, to: st
       where company_id = ${companyId} and day between ${from}::date and ${to}::date
       group by tank_id
     ), m as (
-      select *,
-        case when days >= ${rule.minDays}::int and litres >= ${rule.minLitres40PerDay}::float8 * days then 100 * cost / litres end as cpl,
+      -- Cost per litre is compared among heat-pump homes only: a cylinder heated by its immersion
+      -- alone costs two to three times as much per litre by design, and would swamp the fences.
+      select per_home.*,
+        case when days >= ${rule.minDays}::int and litres >= ${rule.minLitres40PerDay}::float8 * days and t.heat_source <> 'immersion_only' then 100 * cost / litres end as cpl,
         case when days >= ${rule.minDays}::int and hp_elec >= ${rule.minHeatPumpKWhPerDay}::float8 * days then hp_heat / hp_elec end as cop
-      from per_home
+      from per_home join tanks t on t.id = per_home.tank_id
     ), f as (
       select count(*)::int as homes, sum(days)::int as home_days, sum(cost) as cost, sum(litres) as litres, sum(hp_heat) as hp_heat,
         sum(hp_elec) as hp_elec, sum(solar) as solar, sum(unpriced) as unpriced,

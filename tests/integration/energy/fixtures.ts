@@ -111,13 +111,13 @@ export async function staffOf(company: { id: string; tag: string; domain: string
  * A home with one tank in `companyId`, and one stored day (energy_days) per entry: `litres` at 40 °C
  * drawn, `cost` pence, heat-pump `hpElec` kWh making `hpHeat` kWh, 0.5 kWh of solar heat. Returns the tank id.
  */
-export async function homeWithDays(companyId: string, n: number, days: { date: string; litres: number; cost: number; hpElec: number; hpHeat: number }[]): Promise<string> {
+export async function homeWithDays(companyId: string, n: number, days: { date: string; litres: number; cost: number; hpElec: number; hpHeat: number }[], heatSource = 'hp_plate'): Promise<string> {
   const tag = randomUUID().slice(0, 6).toUpperCase();
   const [home] = await query<{ id: string }>(`insert into homes (company_id, reference, address_line, town, postcode, occupants) values ($1, $2, $3, 'Tarnfield', 'WM9 4ZZ', 3) returning id`,
     [companyId, `FH-${n}-${tag}`, `${n} Fen Row`]);
   const [tank] = await query<{ id: string }>(
     `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, target_c, hysteresis_k)
-     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 8, 'hp_plate', 5000, 3000, 55, 5) returning id`, [companyId, home!.id, `FH${tag}-${n}`]);
+     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 8, $4, 5000, 3000, 55, 5) returning id`, [companyId, home!.id, `FH${tag}-${n}`, heatSource]);
   for (const d of days) {
     await query(`insert into energy_days (tank_id, day, company_id, cost_pence, heat_pump_heat_kwh, heat_pump_electricity_kwh, immersion_grid_heat_kwh,
         immersion_solar_heat_kwh, drawn_litres40, standing_loss_kwh, solar_export_forgone_pence, unpriced_kwh, covered_minutes)

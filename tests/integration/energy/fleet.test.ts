@@ -107,6 +107,22 @@ describe('GET /api/fleet/energy', () => {
     expect((await call(await signInAs(base(), 'householder'), 'GET', '/api/fleet/energy')).status).toBe(403);
   });
 
+  it('compares cost per litre among heat-pump homes only, and still counts an immersion-only home in the averages', async () => {
+    const c = await ownCompany('Marrowby');
+    const operator = await staffOf(c, 'operator');
+    try {
+      for (let i = 0; i < 8; i++) await homeWithDays(c.id, i + 1, rangeDays.map((date) => ({ date, litres: 100, cost: 10 + i, hpElec: 1, hpHeat: 2.8 })));
+      // Immersion only: 100 L at 40 °C a day for 40 p, far above the heat-pump homes' upper fence.
+      const immersion = await homeWithDays(c.id, 9, rangeDays.map((date) => ({ date, litres: 100, cost: 40, hpElec: 0, hpHeat: 0 })), 'immersion_only');
+      const b = (await call(operator, 'GET', `/api/fleet/energy?from=${from}&to=${to}`)).body;
+      expect(b.homes).toBe(9);
+      expect(b.fences.cost_per_100l.homes).toBe(8);
+      expect(b.outliers.map((o: { tankId: string }) => o.tankId)).not.toContain(immersion);
+    } finally {
+      await dropCompany(c.id);
+    }
+  });
+
   it('refuses a bad range naming the field', async () => {
     const bad = await call(company.operator, 'GET', '/api/fleet/energy?from=last-week');
     expect(bad.status).toBe(400);
