@@ -9,12 +9,13 @@ export const baseUrl = (): string => {
   return url;
 };
 
-export function launchBrowser(): Promise<Browser> {
+/** `extraArgs`, e.g. Chromium's fake camera for the barcode scanner. */
+export function launchBrowser(extraArgs: string[] = []): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',
     headless: true,
     // The machine's network is closed: keep Chromium from phoning home at every start.
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', ...extraArgs],
   });
 }
 

@@ -33,7 +33,8 @@ async function saveStep(page: Page, nextTitle: string) {
 }
 
 beforeAll(async () => {
-  browser = await launchBrowser();
+  // Chromium's built-in fake camera (a moving test pattern), allowed without asking, for the serial scanner.
+  browser = await launchBrowser(['--use-fake-device-for-media-stream', '--use-fake-ui-for-media-stream']);
   engineerCookie = await signIn(baseUrl(), 'engineer@kestrelvale.example.com', 'heatlayer-demo');
   context = await contextFor(engineerCookie);
   // The company's administrator keeps the list of heat-pump models.
@@ -71,7 +72,15 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await page.fill('#f-contactEmail', householderEmail);
     await saveStep(page, 'Cylinder');
 
-    // 2. Cylinder: a bad value first, refused with the field named
+    // 2. Cylinder. The scanner shows the camera (a test pattern with no code: nothing is read) and
+    // stops it again; the serial is then typed.
+    await page.getByRole('button', { name: 'Scan the code' }).click();
+    const camera = page.getByLabel('Camera view for scanning the serial');
+    await camera.waitFor({ timeout: 15_000 });
+    await page.waitForFunction(() => (document.querySelector('[aria-label="Camera view for scanning the serial"]') as HTMLMediaElement | null)?.readyState! >= 2, undefined, { timeout: 15_000 });
+    await page.getByRole('button', { name: 'Stop scanning' }).click();
+    await expect(camera.count()).resolves.toBe(0);
+    // A bad value first, refused with the field named
     await page.fill('#f-serial', serial);
     await page.fill('#f-model', 'C210 cylinder');
     await page.fill('#f-volumeL', 'two hundred');
