@@ -44,7 +44,8 @@ export function webService(c: RunConfig): ServiceSpec {
   return {
     name: 'web',
     command: process.execPath,
-    args: [join(buildDir(), 'server/entry.mjs')],
+    // Our server step settles the client's address before Astro reads it (scripts/web-server.ts).
+    args: ['--import', 'tsx', 'scripts/web-server.ts', join(buildDir(), 'server/entry.mjs')],
     ready: () => waitFor('The web server', () => httpOk(`http://127.0.0.1:${c.webPort}/api/health`)),
   };
 }
@@ -76,7 +77,8 @@ export function productServices(c: RunConfig): ServiceSpec[] {
 
 /** The processes the test suite needs running beside it. */
 export function testServices(c: RunConfig): ServiceSpec[] {
-  // TRUST_PROXY: tests act as several client addresses through X-Forwarded-For (sign-in throttle).
-  // ALERTS_CLOCK_MS=0: alert tests run the alert clock on simulated time themselves.
-  return [...fakeMail(c), ...fakeS3(c), brokerService(c), { ...ingestService(c), env: { ALERTS_CLOCK_MS: '0' } }, { ...webService(c), env: { TRUST_PROXY: '1' } }];
+  // TRUSTED_PROXIES=loopback: tests stand in for a proxy on this machine, acting as several client
+  // addresses through X-Forwarded-For (sign-in throttle). ALERTS_CLOCK_MS=0: alert tests run the
+  // alert clock on simulated time themselves.
+  return [...fakeMail(c), ...fakeS3(c), brokerService(c), { ...ingestService(c), env: { ALERTS_CLOCK_MS: '0' } }, { ...webService(c), env: { TRUSTED_PROXIES: 'loopback' } }];
 }

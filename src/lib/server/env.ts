@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { parseTrustedProxies } from './client-address';
 
 /**
  * Every environment variable the server side reads, declared and validated in one place.
@@ -31,7 +32,15 @@ export const envSchema = z.object({
   DEMO_PASSWORD: z.string().min(8).default('heatlayer-demo'),
   /** Where this copy keeps generated secrets and captured mail (scripts/lib/config.ts sets it). */
   HEATLAYER_DATA_DIR: z.string().default('.data'),
-  /** '1' when a reverse proxy in front sets X-Forwarded-For / X-Forwarded-Proto (never trust them otherwise). */
+  /**
+   * The reverse proxies in front whose X-Forwarded-For / X-Forwarded-Proto are believed: comma-separated
+   * IP addresses, CIDR ranges, or loopback / linklocal / uniquelocal (src/lib/server/client-address.ts).
+   * Empty: the connection's own address is the client, whatever the headers say.
+   */
+  TRUSTED_PROXIES: z.string().default('').superRefine((value, ctx) => {
+    try { parseTrustedProxies(value); } catch (err) { ctx.addIssue({ code: z.ZodIssueCode.custom, message: (err as Error).message }); }
+  }),
+  /** '1' is shorthand for TRUSTED_PROXIES=loopback (a proxy on this machine). */
   TRUST_PROXY: z.enum(['0', '1']).default('0'),
   SIMULATOR_TANKS: z.coerce.number().int().min(0).max(1_000_000).default(240),
   SIMULATOR_SPEED: z.coerce.number().positive().max(10_000).default(1),
@@ -51,7 +60,11 @@ export const envSchema = z.object({
   LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error']).default('info'),
 });
 
-export type Env = z.infer<typeof envSchema> & { DATABASE_URL: string; MQTT_URL: string; SMTP_URL: string; S3_ENDPOINT: string };
+export type Env = Omit<z.infer<typeof envSchema>, 'TRUSTED_PROXIES'> & {
+  DATABASE_URL: string; MQTT_URL: string; SMTP_URL: string; S3_ENDPOINT: string;
+  /** TRUSTED_PROXIES as a list, with loopback added by TRUST_PROXY=1. */
+  TRUSTED_PROXIES: string[];
+};
 
 let cached: Env | undefined;
 
@@ -70,6 +83,7 @@ export function env(): Env {
     MQTT_URL: e.MQTT_URL ?? `mqtt://127.0.0.1:${e.MQTT_PORT}`,
     SMTP_URL: e.SMTP_URL ?? `smtp://127.0.0.1:${e.SMTP_PORT}`,
     S3_ENDPOINT: e.S3_ENDPOINT ?? `http://127.0.0.1:${e.S3_PORT}`,
+    TRUSTED_PROXIES: [...parseTrustedProxies(e.TRUSTED_PROXIES), ...(e.TRUST_PROXY === '1' ? ['loopback'] : [])],
   };
   return cached;
 }

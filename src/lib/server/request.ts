@@ -1,17 +1,14 @@
 import { env } from './env';
 
-/**
- * Facts about the incoming request that depend on whether a reverse proxy sits in front.
- * X-Forwarded-* headers are believed only when TRUST_PROXY=1: otherwise anyone could claim
- * any address (and slip past the per-address sign-in throttle).
- */
+/** Facts about the incoming request that depend on whether a reverse proxy sits in front. */
 interface RequestLike { request: Request; url: URL; clientAddress?: string }
 
+/**
+ * The client's address. The web process (scripts/web-server.ts) has already replaced
+ * X-Forwarded-For with the address it resolved from the connection and TRUSTED_PROXIES
+ * (src/lib/server/client-address.ts), and Astro's `clientAddress` reads that header.
+ */
 export function clientAddress(context: RequestLike): string {
-  if (env().TRUST_PROXY === '1') {
-    const forwarded = context.request.headers.get('x-forwarded-for')?.split(',')[0]?.trim();
-    if (forwarded) return forwarded;
-  }
   try {
     return context.clientAddress ?? 'unknown';
   } catch {
@@ -24,7 +21,8 @@ export function clientAddress(context: RequestLike): string {
 export function isHttps(context: RequestLike): boolean {
   const e = env();
   if (e.AUTH_URL?.startsWith('https:')) return true;
-  if (e.TRUST_PROXY === '1' && context.request.headers.get('x-forwarded-proto') === 'https') return true;
+  // The web process drops X-Forwarded-Proto unless a trusted proxy sent it.
+  if (e.TRUSTED_PROXIES.length && context.request.headers.get('x-forwarded-proto') === 'https') return true;
   return context.url.protocol === 'https:';
 }
 
@@ -47,4 +45,10 @@ export function isCrossSite(context: RequestLike): boolean {
   if (origin === 'null') return true;
   const site = context.request.headers.get('sec-fetch-site');
   return site === 'cross-site' || site === 'same-site';
+}
+
+/** A browser navigation (a plain form post) rather than a script's call: answer with a page, not JSON. */
+export function isPageNavigation(context: RequestLike): boolean {
+  const h = context.request.headers;
+  return h.get('sec-fetch-mode') === 'navigate' || !!h.get('accept')?.includes('text/html');
 }
