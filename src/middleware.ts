@@ -1,16 +1,23 @@
 import { defineMiddleware, sequence } from 'astro:middleware';
 import { viewerForSession } from './db/queries/accounts';
 import { csrfTokenFor } from './lib/auth/handler';
-import { getSession } from './lib/auth/session';
+import { clearSessionCookie, getSession } from './lib/auth/session';
 import { accessFor, allows } from './lib/server/access';
 import { problem } from './lib/server/http';
 import { isCrossSite, isHttps } from './lib/server/request';
 
-/** Session → Astro.locals.viewer: the Auth.js session cookie, then the person's role read fresh. */
+/**
+ * Session → Astro.locals.viewer: the Auth.js session cookie, its server-side record (ended by
+ * signing out), then the person's role read fresh. A cookie whose session has ended is dropped.
+ */
 const loadViewer = defineMiddleware(async (context, next) => {
   context.locals.viewer = null;
-  const session = await getSession(context.cookies, isHttps(context));
-  if (session) context.locals.viewer = await viewerForSession(session.userId, session.issuedAt);
+  const secure = isHttps(context);
+  const session = await getSession(context.cookies, secure);
+  if (session) {
+    context.locals.viewer = await viewerForSession(session.userId, session.sessionId);
+    if (!context.locals.viewer) clearSessionCookie(context.cookies, secure);
+  }
   return next();
 });
 

@@ -67,3 +67,14 @@ export async function signIn(baseUrl: string, email: string, password: string): 
 export function signInAs(baseUrl: string, role: Role, company: DemoCompanySlug = 'kestrel-vale'): Promise<string> {
   return signIn(baseUrl, demoEmail(role, company), demoPassword());
 }
+
+/** Signs out the standard Auth.js way (POST /api/auth/signout with its CSRF token); returns the answer. */
+export async function signOut(baseUrl: string, sessionCookie: string): Promise<Response> {
+  const { token, jar } = await csrf(baseUrl, { cookie: sessionCookie });
+  return fetch(`${baseUrl}/api/auth/signout`, {
+    method: 'POST',
+    redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', origin: baseUrl, cookie: `${sessionCookie}; ${cookieHeader(jar)}` },
+    body: new URLSearchParams({ csrfToken: token, callbackUrl: '/signin?signedOut=1' }),
+  });
+}

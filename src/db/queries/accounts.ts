@@ -1,6 +1,6 @@
-import { and, asc, eq, ne, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, ne, sql } from 'drizzle-orm';
 import { db } from '..';
-import { companies, homeMembers, homes, memberships, users, type Role } from '../schema';
+import { companies, homeMembers, homes, memberships, userSessions, users, type Role } from '../schema';
 import type { Viewer } from '../../lib/server/viewer';
 
 export interface SignInCandidate {
@@ -31,24 +31,25 @@ export async function companyOfUser(userId: string): Promise<string | null> {
 }
 
 /**
- * Who a session belongs to, read fresh on every request so that a role change or a removal
- * takes effect at once. Null when the account or its membership is gone, or the session was
- * issued before the account's sessions were revoked (password changed).
+ * Who a session belongs to, read fresh on every request. Null when the session is no longer on
+ * record (signed out, or ended by a reset, a role change or a removal), has expired, or the
+ * account or its membership is gone.
  */
-export async function viewerForSession(userId: string, issuedAtS: number | undefined): Promise<Viewer | null> {
+export async function viewerForSession(userId: string, sessionId: string): Promise<Viewer | null> {
   const [row] = await db()
     .select({
-      userId: users.id, email: users.email, name: users.name, sessionsValidAfter: users.sessionsValidAfter,
+      userId: users.id, email: users.email, name: users.name,
       companyId: companies.id, companyName: companies.name, role: memberships.role,
     })
     .from(users)
+    // The session must still be on record: signing out, a reset, a role change or a removal deletes it.
+    .innerJoin(userSessions, and(eq(userSessions.id, sessionId), eq(userSessions.userId, users.id), gt(userSessions.expiresAt, sql`now()`)))
     .innerJoin(memberships, eq(memberships.userId, users.id))
     .innerJoin(companies, eq(companies.id, memberships.companyId))
     .where(eq(users.id, userId))
     .orderBy(asc(memberships.createdAt))
     .limit(1);
   if (!row) return null;
-  if (row.sessionsValidAfter && (issuedAtS ?? 0) < Math.floor(row.sessionsValidAfter.getTime() / 1000)) return null;
   let homeIds: string[] | null = null;
   if (row.role === 'householder') {
     const linked = await db().select({ id: homes.id }).from(homeMembers)

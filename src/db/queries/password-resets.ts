@@ -3,6 +3,7 @@ import { db } from '..';
 import { passwordResets, users } from '../schema';
 import { companyOfUser } from './accounts';
 import { recordAudit } from './audit';
+import { endAllUserSessions } from './sessions';
 
 export async function createPasswordReset(userId: string, tokenHash: string, expiresAt: Date): Promise<void> {
   await db().insert(passwordResets).values({ userId, tokenHash, expiresAt });
@@ -13,8 +14,8 @@ export type ResetOutcome =
   | { ok: false; reason: 'not_found' | 'used' | 'expired' };
 
 /**
- * Uses a reset link once: sets the new password, and revokes every session issued before now
- * (the person is signed out everywhere else). Any other reset links of the account stop working.
+ * Uses a reset link once: sets the new password and ends every session of the account (the
+ * person is signed out everywhere; the caller then signs this browser in afresh). Any other reset links of the account stop working.
  */
 export async function completePasswordReset(tokenHash: string, passwordHash: string, address: string): Promise<ResetOutcome> {
   return db().transaction(async (tx) => {
@@ -24,8 +25,9 @@ export async function completePasswordReset(tokenHash: string, passwordHash: str
     if (reset.expiresAt <= new Date()) return { ok: false, reason: 'expired' };
     const now = new Date();
     await tx.update(passwordResets).set({ usedAt: now }).where(and(eq(passwordResets.userId, reset.userId), isNull(passwordResets.usedAt)));
-    const [user] = await tx.update(users).set({ passwordHash, sessionsValidAfter: now }).where(eq(users.id, reset.userId))
+    const [user] = await tx.update(users).set({ passwordHash }).where(eq(users.id, reset.userId))
       .returning({ id: users.id, email: users.email, name: users.name });
+    await endAllUserSessions(user.id, tx);
     await recordAudit({ companyId: await companyOfUser(user.id), actorUserId: user.id, action: 'password.reset', subject: `user:${user.id}`, detail: { address } }, tx);
     return { ok: true, user };
   });

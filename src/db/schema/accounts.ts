@@ -43,13 +43,14 @@ export const passwordResets = pgTable(
   (t) => [index('password_resets_user_idx').on(t.userId)],
 );
 
-export const throttleKinds = ['account', 'address', 'mail'] as const;
+/** account_address: failed sign-ins of one account from one address; address: from one address; mail: e-mails sent. */
+export const throttleKinds = ['account_address', 'address', 'mail'] as const;
 export type ThrottleKind = (typeof throttleKinds)[number];
 export const throttleKindEnum = pgEnum('throttle_kind', throttleKinds);
 
 /**
- * One row per counted event (a failed sign-in per account and per address, a mail sent per
- * address); the throttle counts rows inside a sliding window.
+ * One row per counted event (a failed sign-in per account-and-address pair and per address, a
+ * mail sent per e-mail address); the throttle counts rows inside a sliding window.
  */
 export const throttleEvents = pgTable(
   'throttle_events',

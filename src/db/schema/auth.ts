@@ -1,4 +1,4 @@
-import { integer, pgTable, primaryKey, text, timestamp } from 'drizzle-orm/pg-core';
+import { index, integer, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
 
 /**
  * The tables @auth/drizzle-adapter expects (users, accounts, sessions, verification tokens), with
@@ -11,8 +11,6 @@ export const users = pgTable('user', {
   emailVerified: timestamp('emailVerified', { mode: 'date', withTimezone: true }),
   image: text('image'),
   passwordHash: text('password_hash'),
-  /** Sessions issued before this instant are refused (set when the password changes). */
-  sessionsValidAfter: timestamp('sessions_valid_after', { withTimezone: true }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 });
 export type User = typeof users.$inferSelect;
@@ -49,4 +47,20 @@ export const verificationTokens = pgTable(
     expires: timestamp('expires', { mode: 'date', withTimezone: true }).notNull(),
   },
   (t) => [primaryKey({ columns: [t.identifier, t.token] })],
+);
+
+/**
+ * Our record of every signed-in session: the session cookie (Auth.js's JWT) carries the row's id
+ * as `sid`, and a cookie whose row is gone is refused on the next request. Signing out deletes
+ * the row; "sign out everywhere", a password reset, a role change and a removal delete them all.
+ */
+export const userSessions = pgTable(
+  'user_sessions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+  },
+  (t) => [index('user_sessions_user_idx').on(t.userId)],
 );

@@ -5,6 +5,7 @@ export const auditActionLabels: Record<string, string> = {
   'signin.throttled': 'Sign-in blocked after repeated failures',
   'signin.link_sent': 'Sign-in link sent',
   signout: 'Signed out',
+  'sessions.ended': 'Signed out everywhere',
   'password.reset_requested': 'Password reset asked for',
   'password.reset': 'Password changed with a reset link',
   'invitation.created': 'Invitation sent',

@@ -7,11 +7,12 @@ import { db } from '../../db';
 import { accounts, sessions, users, verificationTokens } from '../../db/schema';
 import { companyOfUser, findAccountByEmail } from '../../db/queries/accounts';
 import { recordAudit } from '../../db/queries/audit';
+import { endUserSession } from '../../db/queries/sessions';
 import { signInLinkMail } from '../mail/messages';
 import { sendMail } from '../mail/send';
 import { env } from '../server/env';
 import { checkPasswordSignIn } from './password-sign-in';
-import { authSecret, SESSION_MAX_AGE_S } from './session';
+import { authSecret, SESSION_MAX_AGE_S, startSession } from './session';
 import { takeMailAllowance } from './throttle';
 import { normaliseEmail } from './tokens';
 
@@ -90,8 +91,12 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
         }
         return !!known?.companyId;
       },
-      jwt({ token, user }) {
-        if (user?.id) token.sub = user.id;
+      async jwt({ token, user }) {
+        // `user` is there only at sign-in: that is when the server-side session record starts.
+        if (user?.id) {
+          token.sub = user.id;
+          token.sid = await startSession(user.id);
+        }
         return token;
       },
       session({ session, token }) {
@@ -106,9 +111,11 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
         await recordAudit({ companyId: known?.companyId ?? null, actorUserId: user.id, action: 'signin.succeeded', subject: `user:${user.id}`, detail: { method: 'link' } });
       },
       async signOut(message) {
-        const sub = 'token' in message ? message.token?.sub : undefined;
-        if (!sub) return;
-        await recordAudit({ companyId: await companyOfUser(sub), actorUserId: sub, action: 'signout', subject: `user:${sub}` });
+        const token = 'token' in message ? message.token : null;
+        if (!token?.sub) return;
+        // Ends the session on the server too: a copy of the cookie stops working.
+        if (typeof token.sid === 'string') await endUserSession(token.sid);
+        await recordAudit({ companyId: await companyOfUser(token.sub), actorUserId: token.sub, action: 'signout', subject: `user:${token.sub}` });
       },
     },
   };

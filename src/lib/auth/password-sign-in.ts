@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { recordAudit } from '../../db/queries/audit';
 import { findAccountByEmail } from '../../db/queries/accounts';
 import { hashPassword, verifyPassword } from '../server/password';
-import { clearAccountFailures, recordSignInFailure, signInVerdict } from './throttle';
+import { clearSignInFailures, recordSignInFailure, signInVerdict } from './throttle';
 import { normaliseEmail } from './tokens';
 
 export const passwordSignInSchema = z.object({
@@ -42,7 +42,7 @@ export async function checkPasswordSignIn(input: unknown, address: string): Prom
     await recordAudit({ companyId: account?.companyId ?? null, actorUserId: null, action: 'signin.failed', subject: email, detail: { address, method: 'password' } });
     return { ok: false, reason: 'credentials' };
   }
-  await clearAccountFailures(email);
+  await clearSignInFailures(email, address);
   await recordAudit({ companyId: account.companyId, actorUserId: account.id, action: 'signin.succeeded', subject: `user:${account.id}`, detail: { address, method: 'password' } });
   return { ok: true, user: { id: account.id, email: account.email, name: account.name } };
 }

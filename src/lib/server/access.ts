@@ -54,6 +54,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/health': { GET: 'public' },
   '/api/auth/[...auth]': { GET: 'public', POST: 'public' },
   '/api/me': { GET: 'signedIn' },
+  '/api/me/sessions/revoke': { POST: 'signedIn' },
   '/api/password-resets': { POST: 'public' },
   '/api/password-resets/complete': { POST: 'public' },
   '/api/invitations': { GET: ['admin'], POST: ['admin'] },

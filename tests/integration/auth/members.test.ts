@@ -18,16 +18,19 @@ const call = (method: string, path: string, cookie: string, body?: unknown) => f
 });
 
 describe('staff roles', () => {
-  it('a role change takes effect on the member’s next request and is audited', async () => {
+  it('a role change ends the member’s sessions at once; signed in again they have the new role; it is audited', async () => {
     const member = await createAccount({ company: 'kestrel-vale', role: 'engineer', label: 'promote' });
     const session = await signIn(baseUrl(), member.email, member.password);
+    const other = await signIn(baseUrl(), member.email, member.password);
     expect((await call('GET', '/api/audit', session)).status).toBe(403);
     const res = await call('PATCH', `/api/members/${member.id}`, kvAdmin, { role: 'admin' });
     expect(res.status).toBe(200);
-    expect((await call('GET', '/api/me', session).then((r) => r.json())).role).toBe('admin');
-    expect((await call('GET', '/api/audit', session)).status).toBe(200);
+    for (const old of [session, other]) expect((await call('GET', '/api/me', old)).status).toBe(401);
+    const fresh = await signIn(baseUrl(), member.email, member.password);
+    expect((await call('GET', '/api/me', fresh).then((r) => r.json())).role).toBe('admin');
+    expect((await call('GET', '/api/audit', fresh)).status).toBe(200);
     const [row] = await query(`select detail from audit_log where action = 'member.role_changed' and subject = $1`, [`user:${member.id}`]);
-    expect(row.detail).toEqual({ from: 'engineer', to: 'admin' });
+    expect(row.detail).toEqual({ from: 'engineer', to: 'admin', sessionsEnded: 2 });
   });
 
   it('never leaves the company without an administrator', async () => {
@@ -46,11 +49,15 @@ describe('staff roles', () => {
     expect(m.role).toBe('operator');
   });
 
-  it('a removed member loses access at once', async () => {
+  it('a removed member loses access at once, and their old session stays ended if they are taken back', async () => {
     const member = await createAccount({ company: 'kestrel-vale', role: 'operator', label: 'remove' });
     const session = await signIn(baseUrl(), member.email, member.password);
     expect((await call('DELETE', `/api/members/${member.id}`, kvAdmin)).status).toBe(204);
     expect((await call('GET', '/api/me', session)).status).toBe(401);
+    // Taken back (a new invitation would do this): the copied cookie still opens nothing.
+    await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'operator')`, [member.id, member.companyId]);
+    expect((await call('GET', '/api/me', session)).status).toBe(401);
+    expect((await call('GET', '/api/me', await signIn(baseUrl(), member.email, member.password))).status).toBe(200);
   });
 
   it('the audit log shows an admin their own company only', async () => {

@@ -7,7 +7,7 @@ import { routeAccess } from '../../../src/lib/server/access';
 import { createAccount, companyId, type TestAccount } from '../../support/accounts';
 import { baseUrl } from '../../support/browser';
 import { closeTestDb, query } from '../../support/db';
-import { signInAs, type DemoCompanySlug } from '../../support/session';
+import { signIn, signInAs, type DemoCompanySlug } from '../../support/session';
 import { routeExpectations, type Method, type MethodExpectation, type SampleKind } from './route-expectations';
 
 afterAll(closeTestDb);
@@ -87,6 +87,13 @@ async function sample(kind: SampleKind, target: Target): Promise<string> {
       return i.id;
     }
   }
+}
+
+/** A fresh session of a throwaway account in the role, for calls that end the caller's sessions. */
+async function throwawaySession(v: ViewerKey): Promise<string | undefined> {
+  if (v === 'anonymous') return undefined;
+  const acct = await createAccount({ company: 'kestrel-vale', role: v, homeId: v === 'householder' ? homes.ownHome : undefined, label: 'matrix-session' });
+  return signIn(baseUrl(), acct.email, acct.password);
 }
 
 // ---- what the answer must be ----
@@ -169,7 +176,7 @@ describe('role matrix: every route × every role × own/other company and home',
               path = path.replace(new RegExp(`\\[(\\.\\.\\.)?${name}\\]`), value);
             }
             const headers: Record<string, string> = { origin: baseUrl() };
-            const cookie = cookies.get(v);
+            const cookie = e.endsSession ? await throwawaySession(v) : cookies.get(v);
             if (cookie) headers.cookie = cookie;
             let body: string | undefined;
             if (method !== 'GET' && method !== 'DELETE') { headers['content-type'] = 'application/json'; body = JSON.stringify(e.body ?? {}); }

@@ -8,12 +8,14 @@
 // params: the kind of sample id for each path parameter, or { fixed } for a literal value.
 // ok:     the statuses that count as "let in" when not the defaults (pages: 200 or a redirect
 //         elsewhere than sign-in; APIs: 2xx, or 400/409/410/422 for the deliberately empty body).
+// endsSession: the call ends the caller's sessions, so each role calls it from a throwaway
+//         account's fresh session (never the shared demo accounts' sessions).
 import type { Role } from '../../../src/db/schema/companies';
 
 // tank: a seeded tank of the home; spareTank: a fresh tank in that home (for routes that change it).
 export type SampleKind = 'home' | 'tank' | 'spareTank' | 'invitation' | 'member' | 'commissioning';
 export type Who = 'anyone' | 'signedIn' | 'device' | readonly Role[];
-export interface MethodExpectation { who: Who; scope?: 'company' | 'home'; body?: unknown; ok?: readonly number[] }
+export interface MethodExpectation { who: Who; scope?: 'company' | 'home'; body?: unknown; ok?: readonly number[]; endsSession?: true }
 export type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 export interface RouteExpectation {
   params?: Record<string, SampleKind | { fixed: string }>;
@@ -51,6 +53,7 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/health': { methods: { GET: { who: 'anyone' } } },
   '/api/auth/[...auth]': { params: { auth: { fixed: 'session' } }, methods: { GET: { who: 'anyone' }, POST: { who: 'anyone', ok: [302, 400] } } },
   '/api/me': { methods: { GET: { who: 'signedIn' } } },
+  '/api/me/sessions/revoke': { methods: { POST: { who: 'signedIn', endsSession: true } } },
   '/api/password-resets': { methods: { POST: { who: 'anyone' } } },
   '/api/password-resets/complete': { methods: { POST: { who: 'anyone' } } },
   '/api/invitations': { methods: { GET: { who: admin }, POST: { who: admin } } },
