@@ -48,3 +48,25 @@ export {
   MODEL_PROPERTY_C,
 } from './tank-model.js';
 export type { TankSpec, TankState, StepInputs, StepResult, HeatSource } from './tank-model.js';
+
+export {
+  tankFigures,
+  coldWaterC,
+  sensorPositions,
+  layerThicknesses,
+  EN16147_COLD_C,
+  EN16147_DELIVERY_C,
+} from './figures.js';
+export type { TankGeometry, TankFigures, FiguresQuality, FiguresStatus, FigureOptions } from './figures.js';
+
+export {
+  sensorFaults,
+  implausible,
+  inverted,
+  stepStuck,
+  initialStuck,
+  stuckSensors,
+  DEFAULT_SENSOR_LIMITS,
+  DEFAULT_STUCK_LIMITS,
+} from './sensor-check.js';
+export type { SensorFault, SensorLimits, StuckLimits, StuckState } from './sensor-check.js';
