@@ -43,11 +43,38 @@ describe('signing in, in Chromium', () => {
     const cookie = (await ctx.cookies()).find((c) => c.name === 'authjs.session-token');
     expect(cookie).toMatchObject({ httpOnly: true, sameSite: 'Lax', secure: false });
 
-    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click();
     await page.waitForURL(/\/signin\?signedOut=1/);
     expect(await page.getByRole('status').innerText()).toContain('You are signed out');
     expect((await ctx.cookies()).some((c) => c.name === 'authjs.session-token')).toBe(false);
+    // A copy of the cookie taken before signing out opens nothing afterwards.
+    const replay = await fetch(`${baseUrl()}/api/me`, { headers: { cookie: `authjs.session-token=${cookie!.value}` } });
+    expect(replay.status).toBe(401);
     await ctx.close();
+  });
+
+  it('sign out everywhere, from the account menu, ends the session in another browser too', async () => {
+    const acct = await createAccount({ company: 'kestrel-vale', role: 'engineer', label: 'e2e-everywhere' });
+    const laptop = await context();
+    const phone = await context();
+    const here = await laptop.newPage();
+    const there = await phone.newPage();
+    await signInWithPassword(here, acct.email, acct.password);
+    await signInWithPassword(there, acct.email, acct.password);
+    await there.goto(`${baseUrl()}/tanks`);
+    expect(new URL(there.url()).pathname).toBe('/tanks');
+
+    await here.locator('summary', { hasText: 'Account' }).click();
+    const button = here.getByRole('button', { name: 'Sign out everywhere' });
+    await button.focus();
+    await screenshot(here, 'account-menu');
+    await button.press('Enter');
+    await here.waitForURL(/\/signin\?signedOut=everywhere/);
+    expect(await here.getByRole('status').innerText()).toContain('signed out on every device and browser');
+
+    await there.goto(`${baseUrl()}/tanks`);
+    expect(there.url()).toBe(`${baseUrl()}/signin?next=%2Ftanks`);
+    await laptop.close(); await phone.close();
   });
 
   it('keeps where the person was going: /admin/staff → sign in → back to /admin/staff', async () => {
