@@ -6,6 +6,7 @@ import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
 import { createTank, estimatedCop, mixedWaterLitres, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
+import { capabilities, hasMainSource } from '../src/lib/heat-sources';
 import { localMinuteOfDay, solarDiversion, type Diversion } from '../src/lib/energy';
 import { HOME_TIME_ZONE } from '../src/lib/tank-energy/contracts';
 import { drawsForDay, type PlannedDraw } from './household';
@@ -111,7 +112,7 @@ export class SimTank {
       // Declared standing loss is measured with the store 45 K above the room (EN 12897, from memory): UA = S / 45 K.
       uaWPerK: demo.declaredLossW / 45,
       heatSource: demo.heatSource, hpOutputW: demo.hpOutputW, immersionW: demo.immersionW,
-      immersionHeightFrac: demo.heatSource === 'immersion_only' ? 0.15 : 0.55,
+      immersionHeightFrac: capabilities(demo.heatSource).immersion === 'only' ? 0.15 : 0.55,
       maxFlowC: 65,
     };
     this.targetC = this.faults.has('low_setpoint') ? 45 : demo.targetC;
@@ -217,7 +218,7 @@ export class SimTank {
     // Schedule windows are wall-clock times at the home (they move with British Summer Time).
     const homeMinute = this.windows.length === 0 ? minuteOfDay : localMinuteOfDay(t, HOME_TIME_ZONE);
     const scheduled = this.windows.length === 0 || this.windows.some((w) => inWindow(homeMinute, w.from, w.to));
-    const hasHp = this.spec.heatSource !== 'immersion_only' && this.spec.hpOutputW > 0;
+    const hasHp = hasMainSource(this.spec.heatSource) && this.spec.hpOutputW > 0; // heat pump or boiler
     const pasteur = this.pasteurisation(t, controlC);
     const comfort = this.comfortCall(sensors, scheduled);
 

@@ -3,8 +3,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { useCallback, useEffect, useState } from 'react';
 import { LEGIONELLA_GUIDANCE, SCALD_CAUTION, UNVENTED_CAUTION, ELECTRICAL_CAUTION } from '../../lib/commissioning/cautions';
+import { hasHeatPump, heatSourceDescriptions, heatSourceKinds, isHeatSource } from '../../lib/heat-sources';
 import {
-  exchangerLabels, exchangers, heatSourceKinds, heatSourceLabels, isHeatPump, LEGIONELLA_STORE_C, safetyItems, stepIds, stepTitles, type HeatSourceKind, type StepId,
+  exchangerLabels, exchangers, LEGIONELLA_STORE_C, safetyItems, stepIds, stepTitles, type StepId,
 } from '../../lib/commissioning/steps';
 import { ApiError, fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
@@ -135,8 +136,8 @@ function Wizard(props: Props) {
 
         {step === 'heat_source' && (
           <div className="space-y-4">
-            <Select name="heatSource" label="Heat source" options={heatSourceKinds.map((k) => ({ value: k, label: heatSourceLabels[k] }))} {...f} />
-            {typeof values.heatSource === 'string' && values.heatSource !== '' && isHeatPump(values.heatSource as HeatSourceKind) && (
+            <Select name="heatSource" label="Heat source" options={heatSourceKinds.map((k) => ({ value: k, label: heatSourceDescriptions[k] }))} {...f} />
+            {isHeatSource(values.heatSource) && hasHeatPump(values.heatSource) && (
               <>
                 <Select name="heatPumpModelId" label="Heat-pump model" {...f}
                   hint={models.data?.models.length ? 'The list is kept by your company’s administrator. Choose “Choose…” to enter a sensor curve by hand.' : 'Your company has no heat-pump models listed yet: enter the sensor input’s curve by hand, or ask an administrator to add the model.'}

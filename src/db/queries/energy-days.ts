@@ -5,6 +5,9 @@ import { db } from '..';
 import type { DayEnergy } from '../../lib/energy';
 import type { StoredTariff } from '../../lib/tank-energy/tariff-layers';
 import type { EnergyTankFacts } from '../../lib/tank-energy/inputs';
+import { heatPumpKinds } from '../../lib/heat-sources';
+
+const heatPumpSql = sql.join(heatPumpKinds.map((k) => sql`${k}::heat_source`), sql`, `);
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
@@ -131,9 +134,10 @@ export async function fleetEnergyFigures(companyId: string, from: string, to: st
       group by tank_id
     ), m as (
       -- Cost per litre is compared among heat-pump homes only: a cylinder heated by its immersion
-      -- alone costs two to three times as much per litre by design, and would swamp the fences.
+      -- alone costs two to three times as much per litre by design, and would swamp the fences; a
+      -- boiler's fuel is not in the electricity cost at all.
       select per_home.*,
-        case when days >= ${rule.minDays}::int and litres >= ${rule.minLitres40PerDay}::float8 * days and t.heat_source <> 'immersion_only' then 100 * cost / litres end as cpl,
+        case when days >= ${rule.minDays}::int and litres >= ${rule.minLitres40PerDay}::float8 * days and t.heat_source in (${heatPumpSql}) then 100 * cost / litres end as cpl,
         case when days >= ${rule.minDays}::int and hp_elec >= ${rule.minHeatPumpKWhPerDay}::float8 * days then hp_heat / hp_elec end as cop
       from per_home join tanks t on t.id = per_home.tank_id
     ), f as (

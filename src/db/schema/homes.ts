@@ -4,6 +4,7 @@ import {
 import { sql } from 'drizzle-orm';
 import { users } from './auth';
 import { companies } from './companies';
+import { heatSourceKinds, type HeatSource } from '../../lib/heat-sources';
 
 /** A household served by a company. */
 export const homes = pgTable(
@@ -45,9 +46,10 @@ export const homeMembers = pgTable(
   (t) => [primaryKey({ columns: [t.homeId, t.userId] }), index('home_members_user_idx').on(t.userId)],
 );
 
-export const heatSources = ['hp_plate', 'hp_coil', 'immersion_only', 'boiler_coil'] as const;
-export type HeatSource = (typeof heatSources)[number];
-export const heatSourceEnum = pgEnum('heat_source', heatSources);
+// The kinds and what each can do: src/lib/heat-sources.ts.
+export const heatSources = heatSourceKinds;
+export type { HeatSource };
+export const heatSourceEnum = pgEnum('heat_source', heatSourceKinds);
 
 /** An installed cylinder: its specification and how it is controlled. */
 export const tanks = pgTable(

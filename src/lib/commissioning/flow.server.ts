@@ -18,9 +18,10 @@ import { publishAsService } from '../telemetry/service-client.server';
 import { CREDENTIALS_ROTATED_TOPIC, topicFor } from '../telemetry/wire';
 import { amendableFields, amendedAnswers, fieldValue, type AmendableFieldId } from './amendments';
 import { handoverMail } from './handover-mail';
+import { hasHeatPump } from '../heat-sources';
 import { recordView, type SignedRecord } from './record';
 import {
-  isHeatPump, registrationSteps, stepIds, stepSchemas, validateAnswers, type CommissioningAnswers, type CylinderStep, type HeatSourceStep, type StepId,
+  registrationSteps, stepIds, stepSchemas, validateAnswers, type CommissioningAnswers, type CylinderStep, type HeatSourceStep, type StepId,
 } from './steps';
 import { thermistorWorking } from './thermistor';
 
@@ -55,7 +56,7 @@ export async function saveStep(viewer: Viewer, id: string, step: StepId, value: 
 
 /** A heat pump chosen from the company's list takes its sensor curve and output from the list. */
 async function withModelCurve(viewer: Viewer, s: HeatSourceStep): Promise<HeatSourceStep> {
-  if (!isHeatPump(s.heatSource) || !s.heatPumpModelId) return s;
+  if (!hasHeatPump(s.heatSource) || !s.heatPumpModelId) return s;
   const model = await findHeatPumpModel(viewer.companyId, s.heatPumpModelId);
   if (!model) throw invalid([{ field: 'heat_source.heatPumpModelId', message: 'That heat-pump model is not in your company’s list (it may have been removed). Choose another.' }]);
   return { ...s, heatPumpName: model.name, ntcR25Ohm: model.ntcR25Ohm, ntcBetaK: model.ntcBetaK, hpOutputW: s.hpOutputW ?? model.outputW };
@@ -119,7 +120,7 @@ export async function signOff(viewer: Viewer, id: string) {
     const t = await latestTelemetry(row.tankId);
     if (!t) throw new HttpError(422, 'NoTelemetryYet', 'No telemetry has arrived from this cylinder yet. Check its controller’s connection and device token, then sign off once its layers show.', [{ field: 'connection', message: 'No telemetry yet.' }]);
     const hs = answers.heat_source;
-    const thermistor = isHeatPump(hs.heatSource)
+    const thermistor = hasHeatPump(hs.heatSource)
       ? (() => {
         const w = thermistorWorking({ sensor: { r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK! }, callC: hs.callC!, satisfiedC: hs.satisfiedC! });
         return { heatPumpName: hs.heatPumpName ?? null, r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK!, callC: hs.callC!, satisfiedC: hs.satisfiedC!, callOhm: w.lines[0].ohm, satisfiedOhm: w.lines[1].ohm };

@@ -1,9 +1,10 @@
 // The signed commissioning record: the snapshot frozen at sign-off, and the same facts laid out
 // in labelled sections for the PDF and the record page. Pure.
 import { ALL_CAUTIONS } from './cautions';
+import { hasHeatPump, heatSourceDescriptions } from '../heat-sources';
 import { formatOhm } from './thermistor';
 import {
-  exchangerLabels, heatSourceLabels, isHeatPump, safetyItems, stepTitles, type CommissioningAnswers,
+  exchangerLabels, safetyItems, stepTitles, type CommissioningAnswers,
 } from './steps';
 
 export interface SignedRecord {
@@ -58,8 +59,8 @@ export function recordView(r: SignedRecord, amendments: readonly { field: string
     {
       title: stepTitles.heat_source,
       rows: [
-        ['Heat source', heatSourceLabels[a.heat_source.heatSource]],
-        ...(isHeatPump(a.heat_source.heatSource) && r.thermistor ? ([
+        ['Heat source', heatSourceDescriptions[a.heat_source.heatSource]],
+        ...(hasHeatPump(a.heat_source.heatSource) && r.thermistor ? ([
           ['Heat pump', `${r.thermistor.heatPumpName ?? 'Not from the model list'}, ${kw(a.heat_source.hpOutputW ?? 0)}`],
           ['Sensor input', `NTC ${formatOhm(r.thermistor.r25Ohm)} at 25 °C, B = ${r.thermistor.betaK} K`],
           ['Call for heat', `${formatOhm(r.thermistor.callOhm)} (reads ${r.thermistor.callC} °C)`],

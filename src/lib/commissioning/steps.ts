@@ -2,6 +2,7 @@
 // field errors before saving) and the endpoints (which trust nothing the browser sends).
 import { z } from 'zod';
 import { SERIAL_PATTERN } from '../telemetry/wire';
+import { capabilities, hasHeatPump, heatSourceDescriptions, heatSourceKinds, type HeatSource } from '../heat-sources';
 
 export const stepIds = ['home', 'cylinder', 'heat_source', 'target', 'controls', 'connection', 'safety', 'photos', 'signoff'] as const;
 export type StepId = (typeof stepIds)[number];
@@ -83,16 +84,6 @@ export const cylinderStepSchema = z.object({
 });
 export type CylinderStep = z.infer<typeof cylinderStepSchema>;
 
-export const heatSourceKinds = ['hp_plate', 'hp_coil', 'boiler_coil', 'immersion_only'] as const;
-export type HeatSourceKind = (typeof heatSourceKinds)[number];
-export const heatSourceLabels: Record<HeatSourceKind, string> = {
-  hp_plate: 'Heat pump through a plate heat exchanger',
-  hp_coil: 'Heat pump through the cylinder’s coil',
-  boiler_coil: 'Boiler through the cylinder’s coil',
-  immersion_only: 'Immersion heater only',
-};
-export const isHeatPump = (k: HeatSourceKind): boolean => k === 'hp_plate' || k === 'hp_coil';
-
 export const heatSourceStepSchema = z.object({
   heatSource: z.enum(heatSourceKinds, { errorMap: () => ({ message: 'Choose the heat source.' }) }),
   heatPumpModelId: z.preprocess((v) => (v === '' ? undefined : v), z.string().uuid('Choose a heat-pump model from the list.').optional()),
@@ -103,7 +94,7 @@ export const heatSourceStepSchema = z.object({
   callC: optionalNumber('call-for-heat temperature', '°C', -20, 80),
   satisfiedC: optionalNumber('satisfied temperature', '°C', -20, 90),
 }).superRefine((s, ctx) => {
-  if (!isHeatPump(s.heatSource)) return;
+  if (!hasHeatPump(s.heatSource)) return;
   const need = (key: keyof typeof s, message: string) => { if (s[key] === undefined) ctx.addIssue({ code: 'custom', path: [key], message }); };
   need('hpOutputW', 'Enter the heat pump’s output in W.');
   need('ntcR25Ohm', 'Enter the resistance of the heat pump’s hot-water sensor input at 25 °C (Ω), or choose its model.');
@@ -197,10 +188,11 @@ export function stepProblems(step: StepId, value: unknown): FieldProblem[] {
 }
 
 /** Which sources a cylinder's exchanger can take: a coil for a coil source, ports for a plate exchanger. */
-export function exchangerProblem(exchanger: Exchanger, source: HeatSourceKind): string | null {
-  if ((source === 'hp_coil' || source === 'boiler_coil') && exchanger !== 'coil') return `${heatSourceLabels[source]} needs a cylinder with an internal coil (this one has: ${exchangerLabels[exchanger].toLowerCase()}).`;
-  if (source === 'hp_plate' && exchanger !== 'plate_ports') return `${heatSourceLabels[source]} needs a cylinder with ports for a plate heat exchanger (this one has: ${exchangerLabels[exchanger].toLowerCase()}).`;
-  return null;
+export function exchangerProblem(exchanger: Exchanger, source: HeatSource): string | null {
+  const need = capabilities(source).exchanger;
+  if (need === null || exchanger === need) return null;
+  const what = need === 'coil' ? 'an internal coil' : 'ports for a plate heat exchanger';
+  return `${heatSourceDescriptions[source]} needs a cylinder with ${what} (this one has: ${exchangerLabels[exchanger].toLowerCase()}).`;
 }
 
 /** Steps whose answers the cylinder's registration (connection check) needs. */

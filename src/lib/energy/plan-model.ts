@@ -25,6 +25,7 @@
 // through the full tank model (planner.ts).
 import { MODEL_PROPERTY_C, createTank, mixedWaterLitres, stepTankInPlace, tankEnergyJ, tankNodeCount, waterCp, waterDensity } from '../thermal/index.js';
 import type { TankSpec, TankState } from '../thermal/index.js';
+import { capabilities } from '../heat-sources.js';
 import { J_PER_KWH, kWhPerLitreAt40 } from './units.js';
 
 /** A step's action: bit 2 heat pump, bit 1 immersion (0 none, 1 immersion, 2 heat pump, 3 both). */
@@ -85,7 +86,7 @@ export interface V40Curve { energyKWh: number[]; litres40: number[] }
 export function v40Curve(spec: TankSpec, coldC: number, topC: number): V40Curve {
   const n = tankNodeCount(spec);
   const k = Math.min(n - 1, Math.floor(spec.immersionHeightFrac * n));
-  const init = spec.heatSource === 'immersion_only' ? Array.from({ length: n }, (_, i) => (i >= k ? topC : coldC)) : topC;
+  const init = capabilities(spec.heatSource).immersion === 'only' ? Array.from({ length: n }, (_, i) => (i >= k ? topC : coldC)) : topC;
   const state = createTank(spec, init);
   const e: number[] = [], v: number[] = [];
   const volumeL = spec.volumeL;
@@ -129,7 +130,7 @@ export function buildPlanModel(p: PlanModelInput): PlanModel {
   const cap = capacityKWhPerK(p.spec);
   const a = Math.exp((-p.spec.uaWPerK * stepH * 3600) / (cap * J_PER_KWH));
   const b = cap * (p.spec.ambientC - p.coldC) * (1 - a);
-  const hasHp = p.hpOutputW > 0 && p.spec.heatSource !== 'immersion_only';
+  const hasHp = p.hpOutputW > 0 && capabilities(p.spec.heatSource).heatPump;
   const hasImm = p.immersionW > 0;
   const statC = p.spec.immersionStatC ?? 65;
   const share = immersionShare(p.spec);

@@ -11,6 +11,7 @@
 //    `floorMet` is the full model's verdict, never the reduced model's.
 // 4. Simulate a fixed rule (a thermostat, or a thermostat in a fixed window) for comparison.
 import type { TankSpec, TankState } from '../thermal/index.js';
+import { capabilities } from '../heat-sources.js';
 import { EnergyInputError } from './errors.js';
 import { baselineController, simulate } from './plan-simulation.js';
 import type { BaselineRule, Simulation, SimulationInput } from './plan-simulation.js';
@@ -24,7 +25,7 @@ import { epochMs, finite, nonNegative, positive, wholeIn } from './validate.js';
 
 /** Limits of the heat sources for planning. */
 export interface HeatSourceLimits {
-  /** Heat-pump thermal output to the tank, W (default spec.hpOutputW; 0 = no heat pump). */ hpOutputW?: number;
+  /** Heat-pump thermal output to the tank, W (default spec.hpOutputW; 0 = no heat pump; ignored without one). */ hpOutputW?: number;
   /** Immersion rating, W (default spec.immersionW; 0 = never plan the immersion). */ immersionW?: number;
   /** Least time between two hot-water compressor starts, minutes (default 60: one start an hour). */ minStartSpacingMin?: number;
   /** Highest water temperature the heat pump reaches, °C (default spec.maxFlowC, else 55 for a heat pump, 70 for a boiler). */ hpTopC?: number;
@@ -138,10 +139,11 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   const floor = nonNegative('comfortFloorL40', input.comfortFloorL40, 'litres at 40 °C');
   const coldC = finite('coldC', input.coldC ?? 10, '°C');
   const limits = input.limits ?? {};
-  const hasHpSource = spec.heatSource !== 'immersion_only';
+  // Only a heat pump is planned as the main source: a boiler's fuel is not the tariff's electricity.
+  const hasHpSource = capabilities(spec.heatSource).heatPump;
   const hpOutputW = hasHpSource ? nonNegative('limits.hpOutputW', limits.hpOutputW ?? spec.hpOutputW, 'W') : 0;
   const immersionW = nonNegative('limits.immersionW', limits.immersionW ?? spec.immersionW, 'W');
-  const hpTopC = finite('limits.hpTopC', limits.hpTopC ?? spec.maxFlowC ?? (spec.heatSource === 'boiler_coil' ? 70 : 55), '°C');
+  const hpTopC = finite('limits.hpTopC', limits.hpTopC ?? spec.maxFlowC ?? (capabilities(spec.heatSource).boiler ? 70 : 55), '°C');
   const spacingMin = nonNegative('limits.minStartSpacingMin', limits.minStartSpacingMin ?? 60, 'minutes');
   const compressor = input.compressor ?? { running: false, lastStartMs: null };
   const tuning = input.tuning ?? {};

@@ -3,7 +3,7 @@
 import { parse } from 'csv-parse/sync';
 import { z } from 'zod';
 import type { ImportRow } from '../../db/queries/commissioning';
-import { heatSourceKinds } from '../commissioning/steps';
+import { hasHeatPump, heatSourceKinds } from '../heat-sources';
 import { SERIAL_PATTERN } from '../telemetry/wire';
 
 export const installColumns = [
@@ -53,7 +53,7 @@ const rowSchema = z.object({
     .refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)) && new Date(`${d}T00:00:00Z`).toISOString().startsWith(d), 'commissioned_on is not a real date.')
     .refine((d) => Date.parse(`${d}T00:00:00Z`) <= Date.now(), 'commissioned_on cannot be in the future.').optional()),
 }).superRefine((r, ctx) => {
-  if ((r.heat_source === 'hp_plate' || r.heat_source === 'hp_coil') && !r.heat_pump_output_w) {
+  if (hasHeatPump(r.heat_source) && !r.heat_pump_output_w) {
     ctx.addIssue({ code: 'custom', path: ['heat_pump_output_w'], message: 'heat_pump_output_w is needed when the heat source is a heat pump.' });
   }
 });

@@ -80,7 +80,7 @@ export async function tankPlan(scope: Scope, tankId: string | undefined, body: P
     });
     return { tank, plan: shapePlan(input, planCharge(input), HOME_TIME_ZONE, source) };
   } catch (err) {
-    if (err instanceof PlanRefusal) throw new HttpError(err.code === 'NoTariffInForce' ? 409 : 422, err.code, err.message, [{ field: err.field, message: err.message }]);
+    if (err instanceof PlanRefusal) throw new HttpError(err.code === 'NoTariffInForce' || err.code === 'NotElectricallyHeated' ? 409 : 422, err.code, err.message, [{ field: err.field, message: err.message }]);
     throw err;
   }
 }

@@ -2,6 +2,7 @@
 // Pure: no I/O.
 import type { AccountingTank, EnergyReading } from '../energy';
 import type { TankSpec } from '../thermal';
+import { capabilities, hasMainSource } from '../heat-sources';
 
 /** What the planner and the accounting need of a tank row. */
 export interface EnergyTankFacts {
@@ -54,10 +55,10 @@ export function accountingTank(t: EnergyTankFacts): AccountingTank {
 
 /** The thermal-core model of a stored tank (immersion heights as the fleet simulator fits them). */
 export function tankSpec(t: EnergyTankFacts): TankSpec {
-  const immersionOnly = t.heatSource === 'immersion_only';
+  const immersionOnly = capabilities(t.heatSource).immersion === 'only';
   return {
     volumeL: t.volumeL, sensorCount: t.sensorCount, heightM: t.heightM, ambientC: AMBIENT_C, uaWPerK: uaWPerK(t),
-    heatSource: t.heatSource, hpOutputW: immersionOnly ? 0 : t.hpOutputW, immersionW: t.immersionW,
+    heatSource: t.heatSource, hpOutputW: hasMainSource(t.heatSource) ? t.hpOutputW : 0, immersionW: t.immersionW,
     immersionHeightFrac: immersionOnly ? 0.15 : 0.55,
   };
 }

@@ -2,6 +2,7 @@
 import { HALF_HOUR_MS, demandSeries, importPriceSeries, learnDemand, planCharge, v40Curve } from '../energy';
 import type { ChargePlan, ChargePlanInput, EnergyReading, Tariffs } from '../energy';
 import { createTank, estimatedCop } from '../thermal';
+import { capabilities } from '../heat-sources';
 import type { PlanResponse } from './contracts';
 import { tankSpec, type EnergyTankFacts } from './inputs';
 import { scheduleWindows } from './schedule-command';
@@ -29,12 +30,15 @@ export class PlanRefusal extends Error {
 }
 
 export function planInput(f: PlanFacts): ChargePlanInput {
+  if (!capabilities(f.tank.heatSource).electricMain) {
+    throw new PlanRefusal('NotElectricallyHeated', 'heatSource', 'A boiler heats this cylinder on its own programmer. A charge plan schedules heat-pump and immersion electricity against the tariff, so there is nothing here to plan.');
+  }
   const spec = tankSpec(f.tank);
   const startMs = Math.ceil(f.nowMs / HALF_HOUR_MS) * HALF_HOUR_MS;
   const steps = f.hours * 2;
   // The heat pump heats to the tank's own target; the planner cannot ask more of it.
   const hpTopC = Math.min(f.tank.targetC, 65);
-  const most = v40Curve(spec, COLD_C, spec.heatSource === 'immersion_only' ? 65 : hpTopC).litres40.at(-1)!;
+  const most = v40Curve(spec, COLD_C, capabilities(spec.heatSource).immersion === 'only' ? 65 : hpTopC).litres40.at(-1)!;
   if (f.comfortFloorL40 > most) {
     throw new PlanRefusal('FloorAboveCapacity', 'comfortFloorL40', `comfortFloorL40 is ${f.comfortFloorL40} L, but this ${f.tank.volumeL} L cylinder holds at most about ${Math.floor(most)} L at 40 °C when full at ${hpTopC} °C. Choose a lower floor.`);
   }

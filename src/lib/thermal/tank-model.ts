@@ -12,9 +12,10 @@
 import { ThermalInputError } from './errors.js';
 import { finite, nonNegative, positive, record, waterTemp } from './validate.js';
 import { waterCp, waterDensity } from './water.js';
+import { capabilities, heatSourceKinds, type HeatSource, type HeatSourceCapabilities } from '../heat-sources.js';
 
-/** How heat reaches the stored water. */
-export type HeatSource = 'hp_plate' | 'hp_coil' | 'immersion_only' | 'boiler_coil';
+/** How heat reaches the stored water (the kinds and what each can do: src/lib/heat-sources.ts). */
+export type { HeatSource };
 
 /** Fixed description of one cylinder and its heat sources. Treat as immutable once used. */
 export interface TankSpec {
@@ -67,7 +68,7 @@ const AXIAL_CONDUCTIVITY_W_PER_MK = 0.64;
 const PLATE_MIN_RISE_K = 5;
 /** A coil passes its full rating at this mean flow-to-water difference, K (common practice). */
 const COIL_FULL_OUTPUT_DT_K = 10;
-const HEAT_SOURCES: readonly HeatSource[] = ['hp_plate', 'hp_coil', 'immersion_only', 'boiler_coil'];
+const HEAT_SOURCES: readonly HeatSource[] = heatSourceKinds;
 
 interface Derived {
   n: number;
@@ -81,6 +82,8 @@ interface Derived {
   coilNodes: number;
   maxFlowC: number;
   immersionStatC: number;
+  /** How the main source's heat enters the water (null: there is none). */
+  exchanger: HeatSourceCapabilities['exchanger'];
 }
 
 const derivedCache = new WeakMap<TankSpec, Derived>();
@@ -122,8 +125,8 @@ function derive(spec: TankSpec): Derived {
   nonNegative('spec.immersionW', spec.immersionW, 'W');
   const immFrac = fraction('spec.immersionHeightFrac', spec.immersionHeightFrac);
   const n = spec.nodes === undefined ? Math.max(sensorCount, 12) : integerIn('spec.nodes', spec.nodes, 1, 400);
-  const isBoiler = spec.heatSource === 'boiler_coil';
-  const maxFlowC = spec.maxFlowC === undefined ? (isBoiler ? 70 : 55) : waterTemp('spec.maxFlowC', spec.maxFlowC);
+  const source = capabilities(spec.heatSource);
+  const maxFlowC = spec.maxFlowC === undefined ? (source.boiler ? 70 : 55) : waterTemp('spec.maxFlowC', spec.maxFlowC);
   const immersionStatC = spec.immersionStatC === undefined ? 65 : waterTemp('spec.immersionStatC', spec.immersionStatC);
   const coilFrac = spec.coilHeightFrac === undefined ? 0.3 : fraction('spec.coilHeightFrac', spec.coilHeightFrac);
 
@@ -143,6 +146,7 @@ function derive(spec: TankSpec): Derived {
     coilNodes: Math.max(1, Math.round(coilFrac * n)),
     maxFlowC,
     immersionStatC,
+    exchanger: source.exchanger,
   };
   if (scratchSum.length < n) {
     scratchSum = new Float64Array(n);
@@ -235,8 +239,8 @@ export function stepTankInPlace(spec: TankSpec, state: TankState, inputs: StepIn
   // 2. Main heat source.
   let hpHeatJ = 0;
   if (inputs.hpOn && hpW > 0) {
-    if (spec.heatSource === 'hp_plate') hpHeatJ = plateHeat(d, T, hpW * dt, flowC);
-    else if (spec.heatSource === 'hp_coil' || spec.heatSource === 'boiler_coil') hpHeatJ = coilHeat(d, T, hpW, dt, flowC);
+    if (d.exchanger === 'plate_ports') hpHeatJ = plateHeat(d, T, hpW * dt, flowC);
+    else if (d.exchanger === 'coil') hpHeatJ = coilHeat(d, T, hpW, dt, flowC);
   }
 
   // 3. Immersion element, held back by its own thermostat.

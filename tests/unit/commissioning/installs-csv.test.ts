@@ -25,7 +25,7 @@ describe('CSV of existing installs', () => {
     expect(r.total).toBe(6);
     expect(r.errors.map((e) => [e.row, e.field])).toEqual([[3, 'volume_l'], [4, 'heat_source'], [6, 'serial'], [6, 'commissioned_on'], [7, 'heat_pump_output_w']]);
     expect(r.errors[0].message).toBe('volume_l must be a number.');
-    expect(r.errors[1].message).toBe('heat_source must be one of hp_plate, hp_coil, boiler_coil, immersion_only.');
+    expect(r.errors[1].message).toBe('heat_source must be one of hp_plate, hp_coil, immersion_only, boiler_coil.');
     expect(r.errors[3].message).toBe('commissioned_on is not a real date.');
   });
 
