@@ -10,6 +10,7 @@ import type { AlertEvidence, AlertKind, AlertSeverity, AlertState } from '../../
 import { fromStored } from '../../lib/telemetry/writer.server';
 import type { Reading } from '../../lib/telemetry/wire';
 import type { NotificationChannel } from '../schema/alerts';
+import type { HeatSource } from '../../lib/heat-sources';
 import { isUuid } from './scope';
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
@@ -49,7 +50,7 @@ export async function saveThresholdOverrides(companyId: string, overrides: Thres
 // ---------------------------------------------------------------- evaluation
 
 type TankRow = {
-  id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: string; declared_loss_w: number | null; occupants: number | null;
+  id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: HeatSource; declared_loss_w: number | null; occupants: number | null;
   evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null; seen_ms: string | null;
 };
 
@@ -67,7 +68,7 @@ async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
 }
 
 const factsOf = (r: TankRow): TankFacts => ({
-  volumeL: r.volume_l, sensorCount: r.sensor_count, hasHeatPump: r.heat_source !== 'immersion_only',
+  volumeL: r.volume_l, sensorCount: r.sensor_count, heatSource: r.heat_source,
   declaredLossW: r.declared_loss_w, occupants: r.occupants ?? 2,
 });
 

@@ -4,6 +4,8 @@
 // clear for its clear delay; in between nothing changes, so an alert never flaps. Everything a
 // rule needs from the past travels in EngineState. Pure: no I/O, no clock of its own.
 import type { Reading } from '../telemetry/wire';
+import type { HeatSource } from '../heat-sources';
+import { ruleApplies } from './applicability';
 import type { Thresholds } from './thresholds';
 import { alertKinds, type AlertEvidence, type AlertKind } from './types';
 import { MIN, type Finding } from './rules/common';
@@ -19,7 +21,8 @@ import { heatLossFinding, initialHeatLoss, stepHeatLoss, type HeatLossState } fr
 export interface TankFacts {
   volumeL: number;
   sensorCount: number;
-  hasHeatPump: boolean;
+  /** What heats it: decides which rules apply (`ruleApplies`). */
+  heatSource: HeatSource;
   /** Declared standing loss, W (null: not known, so no heat-loss rule). */
   declaredLossW: number | null;
   occupants: number;
@@ -66,7 +69,7 @@ function delays(kind: AlertKind, th: Thresholds): { openMin: number; clearMin: n
 
 class Run {
   readonly transitions: Transition[] = [];
-  constructor(readonly s: EngineState, readonly th: Thresholds, openKinds: ReadonlySet<AlertKind>) {
+  constructor(readonly s: EngineState, readonly th: Thresholds, readonly heatSource: HeatSource, openKinds: ReadonlySet<AlertKind>) {
     // Align with what is stored: a person may have resolved an alert (start afresh), or one may be open that the state forgot.
     for (const kind of alertKinds) {
       const t = s.tracks[kind];
@@ -75,7 +78,9 @@ class Run {
     }
   }
 
-  apply(kind: AlertKind, f: Finding, at: number): void {
+  apply(kind: AlertKind, finding: Finding, at: number): void {
+    // A rule that does not apply to this heat source is clear (and so resolves one opened before the tank's source was corrected).
+    const f: Finding = ruleApplies(kind, this.heatSource) ? finding : { active: false };
     if (f.active === null) return;
     const t = (this.s.tracks[kind] ??= { activeSince: null, clearSince: null, open: false });
     const { openMin, clearMin } = delays(kind, this.th);
@@ -110,7 +115,7 @@ export function evaluateReadings(
   state: EngineState | null, readings: readonly Reading[], tank: TankFacts, th: Thresholds, openKinds: ReadonlySet<AlertKind>,
 ): { state: EngineState; transitions: Transition[] } {
   const s: EngineState = state ?? initialState(tank.sensorCount);
-  const run = new Run(s, th, openKinds);
+  const run = new Run(s, th, tank.heatSource, openKinds);
   const fresh = readings.filter((r) => s.lastTs === null || r.ts > s.lastTs).sort((a, b) => a.ts - b.ts);
   if (fresh.length === 0) return { state: s, transitions: [] };
 
@@ -122,7 +127,7 @@ export function evaluateReadings(
     stepLegionella(s.legionella, r, th);
     stepLowHotWater(s.lowHotWater, r, tank.volumeL);
     stepHeatLoss(s.heatLoss, r, tank.volumeL, tank.declaredLossW, th, trusted);
-    run.apply('short_cycling', shortCycleFinding(s.shortCycle, r.ts, th, tank.hasHeatPump), r.ts);
+    run.apply('short_cycling', shortCycleFinding(s.shortCycle, r.ts, th), r.ts);
     run.apply('sensor_fault', sensorFinding(s.sensor, r.ts, th), r.ts);
     // Figures from a column the sensor checks doubt are not evidence either way.
     run.apply('legionella_risk', trusted ? legionellaFinding(s.legionella, r.ts, th) : { active: null }, r.ts);
@@ -131,7 +136,7 @@ export function evaluateReadings(
   }
   const last = fresh[fresh.length - 1]!.ts;
   accountBatch(s.immersion, fresh, { volumeL: tank.volumeL, uaWPerK: (tank.declaredLossW ?? DEFAULT_LOSS_W) / 45, ambientC: th.heatLossAmbientC }, th);
-  run.apply('immersion_heavy', immersionFinding(s.immersion, last, th, tank.hasHeatPump), last);
+  run.apply('immersion_heavy', immersionFinding(s.immersion, last, th), last);
   run.apply('heat_loss', heatLossFinding(s.heatLoss, th), last);
   // Readings are arriving, so the tank is not offline (the clock resolves it once they have kept coming).
   return { state: s, transitions: run.transitions };
@@ -148,7 +153,7 @@ export function evaluateClock(
   state: EngineState | null, now: number, tank: TankFacts, th: Thresholds, openKinds: ReadonlySet<AlertKind>, lastReadingTs: number | null,
 ): { state: EngineState; transitions: Transition[] } {
   const s: EngineState = state ?? initialState(tank.sensorCount);
-  const run = new Run(s, th, openKinds);
+  const run = new Run(s, th, tank.heatSource, openKinds);
   const lastTs = Math.max(s.lastTs ?? -Infinity, lastReadingTs ?? -Infinity);
   run.apply('offline', offlineFinding(Number.isFinite(lastTs) ? lastTs : null, now, th), now);
   if (!sensorSuspect(s.sensor) && s.lastTs !== null && now > s.lastTs) run.apply('legionella_risk', legionellaFinding(s.legionella, now, th), now);

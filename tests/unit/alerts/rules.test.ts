@@ -12,7 +12,7 @@ import type { AlertKind } from '../../../src/lib/alerts/types';
 const MIN = 60_000;
 const t0 = Date.UTC(2026, 10, 2);
 const th: Thresholds = defaultThresholds;
-const tank: TankFacts = { volumeL: 200, sensorCount: 4, hasHeatPump: true, declaredLossW: 57, occupants: 2 };
+const tank: TankFacts = { volumeL: 200, sensorCount: 4, heatSource: 'hp_plate', declaredLossW: 57, occupants: 2 };
 const r = (min: number, layersC: (number | null)[], extra: Partial<Reading> = {}): Reading => ({ ts: t0 + min * MIN, layersC, compressor: false, immersionW: 0, drawLpm: 0, ...extra });
 const steady = (min: number) => r(min, [20, 35, 50, 55 + ((min % 3) - 1) * 0.02]);
 
@@ -37,20 +37,17 @@ describe('short-cycling', () => {
   it('allows starts exactly the gap apart and runs exactly the minimum long', () => {
     const s = cycles(60, 10, 5);
     expect(s.violations).toEqual([]);
-    expect(shortCycleFinding(s, t0 + 300 * MIN, th, true)).toEqual({ active: false });
+    expect(shortCycleFinding(s, t0 + 300 * MIN, th)).toEqual({ active: false });
   });
   it('counts starts a minute too soon, and opens at the third within the window', () => {
     const s = cycles(59, 10, 3);
     expect(s.violations.map((v) => v.kind)).toEqual(['gap', 'gap']);
-    expect(shortCycleFinding(s, t0 + 200 * MIN, th, true).active).toBeNull(); // two: in the band, nothing changes
+    expect(shortCycleFinding(s, t0 + 200 * MIN, th).active).toBeNull(); // two: in the band, nothing changes
     const s4 = cycles(59, 10, 4);
-    expect(shortCycleFinding(s4, t0 + 200 * MIN, th, true).active).toBe(true);
+    expect(shortCycleFinding(s4, t0 + 200 * MIN, th).active).toBe(true);
   });
   it('counts a run a minute shorter than the minimum', () => {
     expect(cycles(60, 9, 3).violations.map((v) => v.kind)).toEqual(['short_run', 'short_run', 'short_run']);
-  });
-  it('never applies to a tank without a heat pump', () => {
-    expect(shortCycleFinding(cycles(20, 3, 6), t0 + 200 * MIN, th, false)).toEqual({ active: false });
   });
 });
 

@@ -1,5 +1,5 @@
 // Immersion doing too much: the immersion element's share of the heat put into the cylinder over
-// the window (7 days) above the configured share, on a tank that has a heat pump. The heat of each
+// the window (7 days) above the configured share (applies where a heat pump exists: applicability.ts). The heat of each
 // source comes from the energy core's accountDay (an energy balance over the readings), one UTC day
 // at a time, kept as daily sums so that each batch only adds to them. Heat from diverted solar surplus
 // (readings' solarSurplusW) is free and displaces nothing the household pays for, so only the
@@ -57,8 +57,7 @@ export function accountBatch(s: ImmersionState, readings: readonly Reading[], ta
   s.days = s.days.filter((d) => d.day >= oldest).sort((a, b) => a.day - b.day);
 }
 
-export function immersionFinding(s: ImmersionState, at: number, th: Thresholds, hasHeatPump: boolean): Finding {
-  if (!hasHeatPump) return clear;
+export function immersionFinding(s: ImmersionState, at: number, th: Thresholds): Finding {
   const from = at - th.immersionWindowDays * DAY;
   const days = s.days.filter((d) => (d.day + 1) * DAY > from);
   const hp = days.reduce((a, d) => a + d.hpKWh, 0);

@@ -49,8 +49,7 @@ export function stepShortCycle(s: ShortCycleState, r: Reading, th: Thresholds): 
  * on time, long enough) has been seen since the last one. Anything between keeps the alert as it
  * is: a heat pump that simply has not run is no proof that it has stopped short-cycling.
  */
-export function shortCycleFinding(s: ShortCycleState, at: number, th: Thresholds, hasHeatPump: boolean): Finding {
-  if (!hasHeatPump) return clear;
+export function shortCycleFinding(s: ShortCycleState, at: number, th: Thresholds): Finding {
   const recent = s.violations.filter((v) => v.at > at - th.shortCycleWindowH * HOUR);
   if (recent.length === 0) {
     if (s.lastViolationAt === null) return clear;
