@@ -25,7 +25,7 @@ export const acknowledgeSchema = z.object({
 
 export const alertActionSchema = z.discriminatedUnion('action', [
   z.object({ action: z.literal('resolve'), note }),
-  z.object({ action: z.literal('assign'), assigneeId: z.string().min(1, 'assigneeId must name a person.').nullable() }),
+  z.object({ action: z.literal('assign'), assigneeId: z.string().min(1, 'assigneeId must name a person.').max(100, 'assigneeId must name a person.').nullable() }),
 ], { errorMap: () => ({ message: 'action must be resolve or assign.' }) });
 
 export const noticePreferenceSchema = z.object({ householderNotices: z.boolean({ required_error: 'householderNotices is required.', invalid_type_error: 'householderNotices must be true or false.' }) });

@@ -128,7 +128,8 @@ export const controlsStepSchema = z.object({
 });
 export type ControlsStep = z.infer<typeof controlsStepSchema>;
 
-export const connectionStepSchema = z.object({}).passthrough();
+// Nothing typed here: the server checks the connection itself. Unknown keys are dropped, not stored.
+export const connectionStepSchema = z.object({});
 
 export const safetyItems = [
   { id: 'expansion', label: 'Expansion provision fitted and charged to the manufacturer’s pressure (vessel or air gap)' },
@@ -147,7 +148,8 @@ export const safetyStepSchema = z.object({
 });
 export type SafetyStep = z.infer<typeof safetyStepSchema>;
 
-export const photosStepSchema = z.object({}).passthrough();
+// Photos are uploads (POST /api/uploads); the step itself holds nothing.
+export const photosStepSchema = z.object({});
 
 export const signoffStepSchema = z.object({
   householderEmail: z.string({ required_error: 'Enter the e-mail address to send the invitation and record to.' }).trim().toLowerCase()

@@ -133,7 +133,7 @@ export const flatTariffInput = z
 export const dayNightTariffInput = z
   .object({
     kind: z.literal('day_night'), ...common,
-    timeZone: z.string().default('Europe/London').refine(isTimeZone, 'must be an IANA time-zone name such as Europe/London'),
+    timeZone: z.string().max(64, 'must be an IANA time-zone name such as Europe/London').default('Europe/London').refine(isTimeZone, 'must be an IANA time-zone name such as Europe/London'),
     nightStart: clockTime, nightEnd: clockTime,
     dayImport: price('day import'), nightImport: price('night import'), export: price('export').default(0),
   })

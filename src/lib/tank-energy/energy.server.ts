@@ -18,17 +18,6 @@ import type { TariffProblem } from './tariff-upload';
 import type { Tariff } from '../energy';
 import { json } from '../server/http';
 
-/** The request's JSON body ({} when empty), or 400. */
-export async function jsonBody(request: Request): Promise<unknown> {
-  const text = await request.text();
-  if (!text.trim()) return {};
-  try {
-    return JSON.parse(text);
-  } catch {
-    throw new HttpError(400, 'InvalidJson', 'The body must be JSON.', [{ field: '(body)', message: 'must be valid JSON.' }]);
-  }
-}
-
 /** Days of history the planner learns demand from. */
 const DEMAND_HISTORY_DAYS = 14;
 

@@ -3,6 +3,7 @@
 import { getPool } from '../../db';
 import { insertDeadLetters, type IngestTank } from '../../db/queries/telemetry';
 import { HttpError } from '../server/authz';
+import { readBoundedBody } from '../server/body';
 import { env } from '../server/env';
 import { hashDeviceToken } from './device-token';
 import { TankDirectory } from './tank-directory.server';
@@ -36,22 +37,9 @@ export async function deviceFromAuthorization(header: string | null): Promise<In
 }
 
 /** Reads the body, refusing (413) anything over the payload limit without reading it all. */
-export async function readLimitedBody(request: Request): Promise<Buffer> {
-  const declared = Number(request.headers.get('content-length') ?? 'NaN');
-  const tooLarge = () => new HttpError(413, 'PayloadTooLarge', `The body is larger than ${limits.maxPayloadBytes} bytes. Send the backlog in batches of at most ${limits.maxBatch} readings.`);
-  if (Number.isFinite(declared) && declared > limits.maxPayloadBytes) throw tooLarge();
-  if (!request.body) return Buffer.alloc(0);
-  const chunks: Buffer[] = [];
-  let size = 0;
-  const reader = request.body.getReader();
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    size += value.byteLength;
-    if (size > limits.maxPayloadBytes) { await reader.cancel(); throw tooLarge(); }
-    chunks.push(Buffer.from(value));
-  }
-  return Buffer.concat(chunks);
+export function readLimitedBody(request: Request): Promise<Buffer> {
+  return readBoundedBody(request, limits.maxPayloadBytes, () => new HttpError(413, 'PayloadTooLarge',
+    `The body is larger than ${limits.maxPayloadBytes} bytes. Send the backlog in batches of at most ${limits.maxBatch} readings.`));
 }
 
 /** Validates and stores one request's reading or batch for `tank`. */

@@ -1,4 +1,5 @@
 import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
+import { jsonBody } from '../../../lib/server/body';
 import { endpoint } from '../../../lib/server/endpoint';
 import { json } from '../../../lib/server/http';
 import { csvFromRequest } from '../../../lib/imports/installs.server';
@@ -23,13 +24,7 @@ export const POST = endpoint(async ({ locals, request, url }) => {
   const scope = scopeOf(viewer);
   const type = request.headers.get('content-type') ?? '';
   if (type.startsWith('application/json')) {
-    let raw: unknown;
-    try {
-      raw = await request.json();
-    } catch {
-      throw new HttpError(400, 'InvalidJson', 'The body must be JSON.', [{ field: '(body)', message: 'must be valid JSON.' }]);
-    }
-    const body = tariffJsonBody.parse(raw);
+    const body = await jsonBody(request, tariffJsonBody);
     const homeId = await tariffOwner(viewer, scope, body.homeId);
     const parsed = tariffFromJson(body.tariff);
     return parsed.ok ? storeTariff(viewer, homeId, parsed.tariff) : tariffRefusal(parsed.problems);

@@ -1,6 +1,7 @@
 import { listCommands } from '../../../../db/queries/commands';
 import { findTankInScope } from '../../../../db/queries/telemetry';
 import { HttpError, requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { readJson } from '../../../../lib/server/body';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
 import { sendCommand } from '../../../../lib/telemetry/commands.server';
@@ -26,13 +27,7 @@ export const GET = endpoint(async ({ locals, params }) => {
  */
 export const POST = endpoint(async ({ locals, params, request }) => {
   const { viewer, tank } = await tankFor(locals, params.id);
-  let body: unknown;
-  try {
-    body = await request.json();
-  } catch {
-    throw new HttpError(400, 'InvalidJson', 'The body must be JSON.', [{ field: '(body)', message: 'must be valid JSON.' }]);
-  }
-  const parsed = commandRequestSchema.safeParse(body);
+  const parsed = commandRequestSchema.safeParse(await readJson(request));
   if (!parsed.success) throw new HttpError(400, 'InvalidCommand', 'The command has invalid fields; see "fields".', zodFieldErrors(parsed.error));
   if (parsed.data.kind === 'set_target' && viewer.role === 'householder') {
     throw new HttpError(403, 'NotAllowedForRole', 'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.');

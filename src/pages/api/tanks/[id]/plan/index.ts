@@ -1,13 +1,14 @@
 import { requireViewer, scopeOf } from '../../../../../lib/server/authz';
+import { readJson } from '../../../../../lib/server/body';
 import { endpoint } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/http';
 import { planBody } from '../../../../../lib/tank-energy/contracts';
-import { jsonBody, tankOr404, tankPlan } from '../../../../../lib/tank-energy/energy.server';
+import { tankOr404, tankPlan } from '../../../../../lib/tank-energy/energy.server';
 
 /** POST /api/tanks/{id}/plan `{ comfortFloorL40?, hours? }`: the cheapest charge plan from now, with the fixed schedule it beats. */
 export const POST = endpoint(async ({ locals, params, request }) => {
   const scope = scopeOf(requireViewer(locals));
   await tankOr404(scope, params.id);
-  const body = planBody.parse(await jsonBody(request));
+  const body = planBody.parse(await readJson(request, { emptyAs: {} }));
   return json((await tankPlan(scope, params.id, body)).plan);
 });

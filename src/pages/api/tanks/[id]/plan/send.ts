@@ -1,8 +1,9 @@
 import { requireViewer, scopeOf } from '../../../../../lib/server/authz';
+import { readJson } from '../../../../../lib/server/body';
 import { endpoint } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/http';
 import { planBody } from '../../../../../lib/tank-energy/contracts';
-import { jsonBody, sendPlan, tankOr404 } from '../../../../../lib/tank-energy/energy.server';
+import { sendPlan, tankOr404 } from '../../../../../lib/tank-energy/energy.server';
 
 /**
  * POST /api/tanks/{id}/plan/send `{ comfortFloorL40?, hours? }`: plans from now and sends the first
@@ -12,6 +13,6 @@ export const POST = endpoint(async ({ locals, params, request }) => {
   const viewer = requireViewer(locals);
   const scope = scopeOf(viewer);
   await tankOr404(scope, params.id);
-  const body = planBody.parse(await jsonBody(request));
+  const body = planBody.parse(await readJson(request, { emptyAs: {} }));
   return json(await sendPlan(viewer, scope, params.id, body), 202);
 });
