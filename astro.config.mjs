@@ -3,6 +3,7 @@ import { defineConfig } from 'astro/config';
 import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwind from '@astrojs/tailwind';
+import { pageCspDirectives } from './src/lib/server/security-headers.ts';
 
 // Hostnames the server answers for. Astro 5.14+ treats every request as coming to
 // http://localhost/ unless the host is listed here, which breaks the origin check on form posts
@@ -23,6 +24,9 @@ export default defineConfig({
       ...extraHosts.map((hostname) => ({ hostname })),
     ],
   },
+  // Pages send a Content-Security-Policy header: inline scripts and styles only by Astro's hashes
+  // (src/lib/server/security-headers.ts has the rest of the policy and the other answers' headers).
+  experimental: { csp: { directives: pageCspDirectives } },
   server: { host: '127.0.0.1' },
   vite: {
     ssr: { external: ['@node-rs/argon2', 'pg-native'] },

@@ -1,12 +1,14 @@
 // The web process (`npm start` and the tests start it): the built Astro app's standalone handler
 // (pages, API and static files), behind one step of our own that settles who the client is from
-// the TCP connection and TRUSTED_PROXIES. Astro alone would believe any X-Forwarded-For.
+// the TCP connection and TRUSTED_PROXIES (Astro alone would believe any X-Forwarded-For) and sets
+// the security headers of every answer, static files included (src/lib/server/security-headers.ts).
 // Usage: tsx scripts/web-server.ts [path/to/dist/server/entry.mjs]
 import { createServer } from 'node:http';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { settleForwardedHeaders, trustPredicate } from '../src/lib/server/client-address';
 import { env } from '../src/lib/server/env';
+import { setSecurityHeaders } from '../src/lib/server/security-headers';
 import { buildDir } from './lib/build';
 
 type NodeHandler = (req: import('node:http').IncomingMessage, res: import('node:http').ServerResponse) => void;
@@ -20,6 +22,7 @@ async function main(): Promise<void> {
   const { handler } = (await import(pathToFileURL(entry).href)) as { handler: NodeHandler };
   const server = createServer((req, res) => {
     settleForwardedHeaders(req, trust);
+    setSecurityHeaders(res);
     handler(req, res);
   });
   server.listen(e.PORT, e.HOST, () => {

@@ -1,13 +1,17 @@
 import { sql } from 'drizzle-orm';
 import { db } from '..';
 
-/** Round-trip to the database; resolves with the server's latency and version. */
-export async function checkDatabase(): Promise<{ up: true; latencyMs: number; version: string } | { up: false; error: string }> {
+/**
+ * Round-trip to the database; resolves with its latency. Nothing about the server (version,
+ * address, error text) leaves here: the health endpoint is public. A failure is logged instead.
+ */
+export async function checkDatabase(): Promise<{ up: true; latencyMs: number } | { up: false }> {
   const started = performance.now();
   try {
-    const res = await db().execute<{ version: string }>(sql`select current_setting('server_version') as version`);
-    return { up: true, latencyMs: Math.round((performance.now() - started) * 10) / 10, version: res.rows[0].version };
+    await db().execute(sql`select 1`);
+    return { up: true, latencyMs: Math.round((performance.now() - started) * 10) / 10 };
   } catch (err) {
-    return { up: false, error: err instanceof Error ? err.message : String(err) };
+    console.error(`[health] database check failed: ${err instanceof Error ? err.message : String(err)}`);
+    return { up: false };
   }
 }
