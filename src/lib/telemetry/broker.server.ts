@@ -1,12 +1,15 @@
 // The MQTT broker (aedes) on loopback, with Heatlayer's authentication and authorisation: every
 // client logs in (a tank: username = serial, password = its device token; Heatlayer's own
 // processes: the service account), a tank publishes only to its own telemetry, status and replies
-// topics and subscribes only to its own command topic.
+// topics and subscribes only to its own command topic. A packet larger than the contract's
+// `limits.maxPacketBytes` closes its connection unacknowledged, and a tank has one live connection:
+// a new login with its credentials takes over from the old one (see `takeOver`).
 import { createServer, type Server } from 'node:net';
 import { Aedes, type AuthenticateError, type Client } from 'aedes';
 import { clientIdAllowed, looksLikeSerial, mayPublish, maySubscribe, type Principal } from './acl';
 import { SERVICE_USERNAME, tokenMatches } from './device-token';
-import { CREDENTIALS_ROTATED_TOPIC, INGEST_CLIENT_ID, ingestFilters, parseTopic } from './wire';
+import { PacketSizeGuard } from './packet-size';
+import { CREDENTIALS_ROTATED_TOPIC, INGEST_CLIENT_ID, ingestFilters, limits, parseTopic } from './wire';
 
 export interface BrokerOptions {
   host?: string;
@@ -18,6 +21,8 @@ export interface BrokerOptions {
   concurrency?: number;
   /** How long a subscriber's full socket is tolerated before it is cut off. */
   drainTimeoutMs?: number;
+  /** Largest MQTT packet taken, headers included (default: the contract's). */
+  maxPacketBytes?: number;
   log?: (line: string) => void;
 }
 
@@ -76,6 +81,7 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
         const p: Principal = { kind: 'device', serial: username };
         if (!clientIdAllowed(p, client.id)) return done(authError(`The client id must be the serial (${username}) or start with "${username}-".`, 5), false);
         principals.set(client, p);
+        await takeOver(client, username);
         done(null, true);
       })();
     },
@@ -101,7 +107,27 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
   });
 
   // Public at run time, missing from aedes' type definitions.
-  const internals = aedes as unknown as { clients: Record<string, Client>; persistence: { outgoingStream(c: { id: string }): AsyncIterable<unknown> } };
+  const internals = aedes as unknown as {
+    clients: Record<string, Client>;
+    persistence: { outgoingStream(c: { id: string }): AsyncIterable<unknown>; cleanSubscriptions(c: { id: string }): Promise<void> };
+  };
+
+  /**
+   * One live connection per tank. A tank logging in again (a rebooted controller whose old TCP
+   * connection has not timed out yet, or one that changed its client id) takes over: the tank's
+   * other connections are closed first. With the same client id aedes does this itself (MQTT
+   * 3.1.1 §3.1.4) and keeps the session; a different client id's session is also forgotten, so
+   * commands stop queueing for a client that is gone. Refusing the newcomer instead would lock a
+   * rebooted tank out until its old connection's keep-alive ran out.
+   */
+  async function takeOver(newcomer: Client, serial: string): Promise<void> {
+    const others = Object.values(internals.clients).filter((c) => c !== newcomer && c.id !== newcomer.id && principals.get(c)?.kind === 'device' && (principals.get(c) as { serial: string }).serial === serial);
+    for (const old of others) {
+      log(`[broker] ${serial} logged in again as ${newcomer.id}; closing its connection as ${old.id}`);
+      await new Promise<void>((resolve) => old.close(() => resolve()));
+      await internals.persistence.cleanSubscriptions({ id: old.id });
+    }
+  }
 
   // Token rotation: end the sessions that logged in with the old token.
   aedes.subscribe(CREDENTIALS_ROTATED_TOPIC, (packet, cb) => {
@@ -113,7 +139,20 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
     cb();
   }, () => undefined);
 
-  const server = createServer(aedes.handle);
+  const maxPacketBytes = opts.maxPacketBytes ?? limits.maxPacketBytes;
+  const server = createServer((socket) => {
+    aedes.handle(socket);
+    // aedes reads the socket with read() on 'readable'; a 'data' listener added beside it sees
+    // each chunk as aedes reads it and does not change that (Node's stream docs: 'readable' takes
+    // precedence). The oversize packet is cut off at its header, before its body is buffered.
+    const guard = new PacketSizeGuard(maxPacketBytes);
+    socket.on('data', (chunk: Buffer) => {
+      const size = guard.push(chunk);
+      if (size === null) return;
+      log(`[broker] closed ${socket.remoteAddress ?? '?'}:${socket.remotePort ?? '?'}: a packet of ${size} bytes (at most ${maxPacketBytes})`);
+      socket.destroy();
+    });
+  });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(opts.port, opts.host ?? '127.0.0.1', () => resolve());

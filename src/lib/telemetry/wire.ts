@@ -48,6 +48,11 @@ export const limits = {
   maxBatch: 1000,
   /** Bytes in one payload: a full batch of 16-sensor readings is about 250 kB. */
   maxPayloadBytes: 1024 * 1024,
+  /**
+   * Bytes in one MQTT packet, headers included: a full payload plus 1 KiB for the fixed header,
+   * topic and packet id. The broker closes a connection that sends a larger one, unacknowledged.
+   */
+  maxPacketBytes: 1024 * 1024 + 1024,
   maxLayers: 64,
   /**
    * Plausible stored-water temperatures, °C. Outside this a sensor is miswired or its value
