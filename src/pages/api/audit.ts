@@ -5,7 +5,7 @@ import { endpoint } from '../../lib/server/endpoint';
 import { json } from '../../lib/server/http';
 
 const querySchema = z.object({
-  before: z.coerce.number().int().positive().optional(),
+  before: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER).optional(),
   limit: z.coerce.number().int().min(1).max(500).default(50),
 });
 
