@@ -1,3 +1,4 @@
+import contentDisposition from 'content-disposition';
 import { findUploadInScope } from '../../../db/queries/commissioning';
 import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
 import { endpoint } from '../../../lib/server/endpoint';
@@ -13,7 +14,8 @@ export const GET = endpoint(async ({ locals, params }) => {
   return new Response(new Uint8Array(bytes), {
     headers: {
       'content-type': upload.contentType,
-      'content-disposition': `inline; filename="${upload.filename.replace(/"/g, '')}"`,
+      // Any name people give their files (RFC 6266 with an RFC 5987 UTF-8 filename*).
+      'content-disposition': contentDisposition(upload.filename, { type: 'inline' }),
       'cache-control': 'private, max-age=3600',
       'x-content-type-options': 'nosniff',
     },

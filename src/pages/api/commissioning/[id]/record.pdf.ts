@@ -1,3 +1,4 @@
+import contentDisposition from 'content-disposition';
 import { recordPdf } from '../../../../lib/commissioning/flow.server';
 import { HttpError, requireViewer } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
@@ -10,7 +11,7 @@ export const GET = endpoint(async ({ locals, params }) => {
   return new Response(new Uint8Array(pdf.bytes), {
     headers: {
       'content-type': 'application/pdf',
-      'content-disposition': `inline; filename="commissioning-record-${pdf.serial}.pdf"`,
+      'content-disposition': contentDisposition(`commissioning-record-${pdf.serial}.pdf`, { type: 'inline' }),
       'cache-control': 'private, no-store',
     },
   });

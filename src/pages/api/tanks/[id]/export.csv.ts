@@ -1,3 +1,4 @@
+import contentDisposition from 'content-disposition';
 import { readingsInRange } from '../../../../db/queries/readings';
 import { requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
@@ -16,6 +17,6 @@ export const GET = endpoint(async ({ locals, params, url }) => {
   const series = toSeries(rows, { ...tank, positionsM: sensorPositions(tank.sensorCount, tank.heightM, tank.sensorHeightsM) }, range);
   const name = `${tank.serial}_${range.from.toISOString().slice(0, 16)}_${range.to.toISOString().slice(0, 16)}_${range.resolution}.csv`.replace(/:/g, '');
   return new Response(readingsCsv(series, tank.serial), {
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${name}"`, 'cache-control': 'no-store' },
+    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': contentDisposition(name), 'cache-control': 'no-store' },
   });
 });
