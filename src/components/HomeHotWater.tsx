@@ -7,6 +7,7 @@ import { tankQuery } from '../lib/query/tanks.queries';
 import { defaultAssumptions, everydayEquivalents, plural } from '../lib/views/everyday';
 import { fmtAgo, fmtClock, fmtDuration } from '../lib/views/format';
 import { householdNotices } from '../lib/views/notices';
+import { householdWords } from '../lib/views/quality-words';
 import { refillEstimate } from '../lib/views/refill';
 import { HotWaterCost } from './energy/HotWaterCost';
 import { cn } from './ui/cn';
@@ -75,11 +76,12 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
       <section aria-labelledby="now-title" className="card">
         <h1 id="now-title" className="text-base font-medium text-ink-soft">Warm water ready now</h1>
         {v40 === null ? (
-          <p className="mt-2 text-lg">We cannot tell right now: {t.latest ? 'a temperature sensor is not giving a reading.' : 'your cylinder has not sent any readings yet.'}</p>
+          <p className="mt-2 text-lg" data-testid="litres-withheld">{(t.figures && householdWords(t.figures.quality)) ?? 'We cannot tell right now: your cylinder has not sent any readings yet.'}</p>
         ) : (
           <>
             <p className="mt-1"><span className="figure text-6xl font-semibold tracking-tight" data-testid="litres-now">{Math.round(v40)}</span> <span className="text-2xl">litres</span></p>
             <p className="text-sm text-ink-soft">at shower temperature (40 °C), mixed with cold water at the tap</p>
+            {t.figures?.quality.status === 'estimated' && <p className="mt-2 rounded-md bg-ochre-pale p-2 text-sm" data-testid="litres-estimated">{householdWords(t.figures.quality)}</p>}
             <p className="mt-3 text-lg" data-testid="everyday">
               That is about <strong>{plural(every!.showers, 'shower', 'showers')}</strong> or <strong>{plural(every!.baths, 'bath', 'baths')}</strong>.
             </p>

@@ -18,6 +18,7 @@ import { CommissioningRecord } from './tank/CommissioningRecord';
 import { LayerReadout } from './tank/LayerReadout';
 import { RangePicker } from './tank/RangePicker';
 import { AttentionBadge } from './ui/AttentionBadge';
+import { QualityNote } from './ui/FiguresQuality';
 import { Empty, ErrorNotice, Freshness, Loading, OfflineBanner } from './ui/States';
 import { useNow } from './ui/useOnline';
 
@@ -94,12 +95,18 @@ function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
         <div className="card">
           <dl className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6">
             {([
-              ['State of charge', fmtPct(f?.soc)], ['V40', fmtL(f?.v40L)], ['Stored heat', f ? `${f.storedKWh.toFixed(1)} kWh` : '—'],
-              ['MIX number', f ? f.mix.toFixed(2) : '—'], ['Thermocline', f?.thermoclineM !== null && f?.thermoclineM !== undefined ? `${f.thermoclineM.toFixed(2)} m` : '—'],
-              ['Last reading', fmtAgo(t.latest?.lastSeenAt, now)],
-            ] as const).map(([k, v]) => <div key={k}><dt className="text-xs text-ink-muted">{k}</dt><dd className="figure text-xl" data-figure={k}>{v}</dd></div>)}
+              ['State of charge', fmtPct(f?.soc)], ['V40', fmtL(f?.v40L)], ['Stored heat', f?.storedKWh != null ? `${f.storedKWh.toFixed(1)} kWh` : '—'],
+              ['MIX number', f?.mix != null ? f.mix.toFixed(2) : '—'], ['Thermocline', f?.thermoclineM != null ? `${f.thermoclineM.toFixed(2)} m` : '—'],
+            ] as const).map(([k, v]) => (
+              <div key={k}><dt className="text-xs text-ink-muted">{k}</dt>
+                <dd className="text-xl" data-figure={k} data-quality={f?.quality.status ?? 'none'}>
+                  {f?.quality.status === 'withheld' ? <span className="text-base text-brick">withheld</span> : <span className="figure">{v}</span>}
+                  {f?.quality.status === 'estimated' && k !== 'Thermocline' && <span className="ml-1 text-xs text-ochre">est.</span>}
+                </dd></div>
+            ))}
+            <div><dt className="text-xs text-ink-muted">Last reading</dt><dd className="figure text-xl" data-figure="Last reading">{fmtAgo(t.latest?.lastSeenAt, now)}</dd></div>
           </dl>
-          {!f && layersNow.length > 0 && <p className="mt-2 text-sm text-ochre">Figures need every sensor; at least one gives no reading.</p>}
+          {f && <QualityNote q={f.quality} className="mt-3" />}
           <p className="mt-3 text-xs text-ink-muted">
             Heat pump {t.latest?.compressor ? 'running' : 'off'} · immersion {(t.latest?.immersionW ?? 0) > 0 ? `on (${t.latest?.immersionW} W)` : 'off'} · flow {fmtC(t.latest?.flowC)} · return {fmtC(t.latest?.returnC)} · draw {t.latest?.drawLpm ?? 0} L/min
           </p>
@@ -149,7 +156,9 @@ function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
                 {layersNow.map((_, k) => layersNow.length - 1 - k).map((k) => (
                   <li key={k} className="flex items-center gap-2">
                     <span aria-hidden="true" className="h-4 w-6 rounded-sm border border-line" style={{ background: layersNow[k] === null ? undefined : temperatureColour(layersNow[k]!) }} />
-                    <span className="text-ink-soft">Sensor {k + 1}</span><span className="figure ml-auto">{fmtC(layersNow[k])}</span>
+                    <span className="text-ink-soft">Sensor {k + 1}</span>
+                    {f?.quality.leftOut.includes(k + 1) && <span className="text-xs text-ochre" data-left-out={k + 1}>left out{f.layersC ? `, about ${fmtC(f.layersC[k])}` : ''}</span>}
+                    <span className="figure ml-auto">{fmtC(layersNow[k])}</span>
                   </li>
                 ))}
               </ol>
@@ -161,6 +170,7 @@ function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
             </div>
             <div>
               <h3 className="mb-1 text-sm font-semibold">State of charge and V40</h3>
+              <QualityNote q={readings.data.quality} className="mb-2" />
               <LineChart t={readings.data.t} from={bounds.from} to={bounds.to} series={chargeSeries} yLabel="%" y2Label="L" yRange={[0, 100]} height={180} />
             </div>
           </>

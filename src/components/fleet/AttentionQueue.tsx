@@ -2,6 +2,7 @@ import { attentionKinds, attentionLabels } from '../../lib/views/attention';
 import type { FleetSummary } from '../../lib/views/contracts';
 import { fmtAgo, fmtL } from '../../lib/views/format';
 import { AttentionBadge } from '../ui/AttentionBadge';
+import { QualifiedFigure } from '../ui/FiguresQuality';
 import { Empty } from '../ui/States';
 
 /** The tanks to deal with first, most urgent problem first, and counts per problem. */
@@ -22,7 +23,7 @@ export function AttentionQueue({ s, now }: { s: FleetSummary; now: number }) {
               <a href={`/tanks/${t.id}`} className="font-mono font-medium text-dusk underline-offset-2 hover:underline">{t.serial}</a>
               <span className="text-sm text-ink-soft">{t.home ? `${t.home.reference}, ${t.home.town}` : 'No home'}</span>
               <span className="flex flex-wrap gap-1">{t.attention.map((k) => <AttentionBadge key={k} kind={k} />)}</span>
-              <span className="ml-auto text-xs text-ink-muted">V40 {fmtL(t.v40L)} · last reading {fmtAgo(t.lastSeenAt, now)}</span>
+              <span className="ml-auto text-xs text-ink-muted" data-tank={t.serial}>V40 <QualifiedFigure value={fmtL(t.v40L)} q={t.quality} testId="queue-v40" /> · last reading {fmtAgo(t.lastSeenAt, now)}</span>
             </li>
           ))}
         </ol>

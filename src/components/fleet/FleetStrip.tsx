@@ -23,12 +23,15 @@ export function FleetStrip({ s }: { s: FleetSummary }) {
     ['Need attention', s.needingAttention.toLocaleString('en-GB')],
     ['Mean state of charge', fmtPct(s.meanSoc)],
     ['V40 across the fleet', `${Math.round(s.totalV40L).toLocaleString('en-GB')} L`],
+    // Estimated figures count in the totals; withheld ones cannot, so the desk sees how many.
+    ['Figures estimated', s.figuresQuality.estimated.toLocaleString('en-GB')],
+    ['Figures withheld', s.figuresQuality.withheld.toLocaleString('en-GB')],
   ];
   return (
     <section aria-label="Fleet figures" className="card flex flex-wrap items-end gap-x-8 gap-y-4">
       <dl className="flex flex-wrap gap-x-8 gap-y-3">
         {figures.map(([k, v]) => (
-          <div key={k}><dt className="text-xs text-ink-muted">{k}</dt><dd className="figure text-2xl">{v}</dd></div>
+          <div key={k}><dt className="text-xs text-ink-muted">{k}</dt><dd className="figure text-2xl" data-figure={k}>{v}</dd></div>
         ))}
       </dl>
       <div className="flex min-w-0 flex-1 flex-wrap gap-6">

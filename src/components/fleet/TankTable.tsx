@@ -7,6 +7,7 @@ import type { TankListItem } from '../../lib/views/contracts';
 import { fmtAgo, fmtC, fmtL, fmtPct } from '../../lib/views/format';
 import { heatSourceLabels, heatSourceValues, statusLabels } from '../../lib/views/labels';
 import { AttentionBadge } from '../ui/AttentionBadge';
+import { QualifiedFigure } from '../ui/FiguresQuality';
 import { cn } from '../ui/cn';
 import { Empty, ErrorNotice, Freshness, Loading } from '../ui/States';
 import { useNow } from '../ui/useOnline';
@@ -23,8 +24,8 @@ function useColumns(now: number): ColumnDef<TankListItem>[] {
     { id: 'attention', header: 'Needs', cell: ({ row }) => row.original.attention.length ? <span className="flex flex-wrap gap-1">{row.original.attention.map((k) => <AttentionBadge key={k} kind={k} />)}</span> : <span className="text-ink-muted">{row.original.lastSeenAt === null ? 'No readings yet' : statusLabels.ok}</span> },
     { id: 'home', header: 'Home', cell: ({ row }) => (row.original.home ? <span>{row.original.home.reference} · {row.original.home.addressLine}</span> : '—') },
     { id: 'town', header: 'Town', cell: ({ row }) => row.original.home?.town ?? '—' },
-    { id: 'soc', header: 'State of charge', cell: ({ row }) => <span className="figure">{fmtPct(row.original.soc)}</span> },
-    { id: 'v40', header: 'V40', cell: ({ row }) => <span className="figure">{fmtL(row.original.v40L)}</span> },
+    { id: 'soc', header: 'State of charge', cell: ({ row }) => <QualifiedFigure value={fmtPct(row.original.soc)} q={row.original.quality} testId="soc" /> },
+    { id: 'v40', header: 'V40', cell: ({ row }) => <QualifiedFigure value={fmtL(row.original.v40L)} q={row.original.quality} testId="v40" /> },
     { id: 'top', header: 'Top', cell: ({ row }) => <span className="figure">{fmtC(row.original.topC)}</span> },
     { id: 'lastSeen', header: 'Last reading', cell: ({ row }) => fmtAgo(row.original.lastSeenAt, now) },
     { id: 'model', header: 'Cylinder', cell: ({ row }) => row.original.model },

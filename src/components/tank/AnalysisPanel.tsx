@@ -1,13 +1,16 @@
 import type { TankDetail } from '../../lib/views/contracts';
 import { fmtTime } from '../../lib/views/format';
 import { cn } from '../ui/cn';
+import { QualityNote } from '../ui/FiguresQuality';
 
 /** Standing loss from quiet periods against the declared class, and legionella exposure per layer. */
 export function AnalysisPanel({ t }: { t: TankDetail }) {
   const sl = t.analysis.standingLoss;
   const lg = t.analysis.legionella;
+  const q = t.analysis.quality;
   return (
     <div className="grid gap-4 lg:grid-cols-2">
+      {q.status !== 'measured' && <QualityNote q={q} className="lg:col-span-2" />}
       <section className="card" aria-labelledby="loss-title">
         <h3 id="loss-title" className="font-semibold">Standing loss (last 7 days)</h3>
         {sl ? (
@@ -47,7 +50,7 @@ export function AnalysisPanel({ t }: { t: TankDetail }) {
             </ol>
             <p className="mt-2 text-xs text-ink-muted">Store hot water at 60 °C or above: HSE HSG274 Part 2. From {lg.readings.toLocaleString('en-GB')} readings; gaps over 15 min count as no evidence.</p>
           </>
-        ) : <p className="mt-2 text-sm text-ink-soft">No complete readings in the last 7 days.</p>}
+        ) : <p className="mt-2 text-sm text-ink-soft">{q.status === 'withheld' ? `Not counted: ${q.reason}` : 'No readings in the last 7 days.'}</p>}
       </section>
     </div>
   );

@@ -7,6 +7,8 @@ import { columnAt } from '../../lib/views/series';
 export function LayerReadout({ s, index, onIndex }: { s: ReadingsResponse; index: number; onIndex: (i: number) => void }) {
   if (index < 0 || index >= s.t.length) return null;
   const column = columnAt(s, index);
+  // A reading with temperatures but no figures had them withheld (top sensor or two neighbours out).
+  const withheld = s.v40L[index] === null && column.some((c) => c.tempC !== null);
   return (
     <div className="space-y-2">
       <label className="label" htmlFor="heatmap-time">Move through time (arrow keys)</label>
@@ -14,7 +16,7 @@ export function LayerReadout({ s, index, onIndex }: { s: ReadingsResponse; index
         onChange={(e) => onIndex(Number(e.target.value))} aria-valuetext={fmtTime(s.t[index]!)} />
       <div aria-live="polite" data-testid="layer-readout">
         <p className="text-sm"><span className="font-medium" data-testid="readout-time">{fmtTime(s.t[index]!)}</span>
-          <span className="text-ink-muted"> · state of charge {fmtPct(s.soc[index])} · V40 {fmtL(s.v40L[index])}</span></p>
+          <span className="text-ink-muted">{withheld ? ' · figures withheld: sensors out' : ` · state of charge ${fmtPct(s.soc[index])} · V40 ${fmtL(s.v40L[index])}`}</span></p>
         <ol className="mt-1 grid grid-cols-2 gap-x-4 gap-y-0.5 text-sm sm:grid-cols-3 lg:grid-cols-4">
           {column.map((c) => (
             <li key={c.layer} className="flex items-center gap-2" data-layer={c.layer}>

@@ -51,6 +51,7 @@ export async function saveThresholdOverrides(companyId: string, overrides: Thres
 
 type TankRow = {
   id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: HeatSource; declared_loss_w: number | null; occupants: number | null;
+  height_m: number; sensor_heights_m: number[] | null; target_c: number; cold_inlet_c: number | null;
   evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null; seen_ms: string | null;
 };
 
@@ -58,6 +59,7 @@ async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
   await tx.execute(sql`insert into alert_tank_state (tank_id) select id from tanks where id = ${tankId} on conflict do nothing`);
   const res = await tx.execute<TankRow>(sql`
     select t.id, t.company_id, t.volume_l, t.sensor_count, t.heat_source, t.declared_loss_w, h.occupants,
+      t.height_m, t.sensor_heights_m, t.target_c, h.cold_inlet_c,
       (extract(epoch from s.evaluated_to) * 1000)::int8 as evaluated_ms, s.state,
       (extract(epoch from l.ts) * 1000)::int8 as latest_ms,
       (extract(epoch from l.last_seen_at) * 1000)::int8 as seen_ms
@@ -70,6 +72,7 @@ async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
 const factsOf = (r: TankRow): TankFacts => ({
   volumeL: r.volume_l, sensorCount: r.sensor_count, heatSource: r.heat_source,
   declaredLossW: r.declared_loss_w, occupants: r.occupants ?? 2,
+  heightM: r.height_m, sensorHeightsM: r.sensor_heights_m, targetC: r.target_c, coldInletC: r.cold_inlet_c,
 });
 
 async function openKindsOf(tx: Tx, tankId: string): Promise<Set<AlertKind>> {

@@ -32,12 +32,14 @@ export type EnergyDayTank = EnergyTankFacts & { id: string; companyId: string; h
 
 /** What the accounting needs of these tanks (the job's view: no viewer, no scope). */
 export async function energyTanksById(tx: Tx, ids: readonly string[]): Promise<EnergyDayTank[]> {
-  const res = await tx.execute<{ id: string; company_id: string; home_id: string | null; volume_l: number; height_m: number; sensor_count: number; heat_source: EnergyTankFacts['heatSource']; hp_output_w: number; immersion_w: number; declared_loss_w: number | null; target_c: number }>(sql`
-    select id, company_id, home_id, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, declared_loss_w, target_c
-    from tanks where id = any(${`{${ids.join(',')}}`}::uuid[])`);
+  const res = await tx.execute<{ id: string; company_id: string; home_id: string | null; volume_l: number; height_m: number; sensor_count: number; heat_source: EnergyTankFacts['heatSource']; hp_output_w: number; immersion_w: number; declared_loss_w: number | null; target_c: number; sensor_heights_m: number[] | null; cold_inlet_c: number | null }>(sql`
+    select t.id, t.company_id, t.home_id, t.volume_l, t.height_m, t.sensor_count, t.heat_source, t.hp_output_w, t.immersion_w, t.declared_loss_w, t.target_c,
+      t.sensor_heights_m, h.cold_inlet_c
+    from tanks t left join homes h on h.id = t.home_id where t.id = any(${`{${ids.join(',')}}`}::uuid[])`);
   return res.rows.map((r) => ({
     id: r.id, companyId: r.company_id, homeId: r.home_id, volumeL: r.volume_l, heightM: r.height_m, sensorCount: r.sensor_count,
     heatSource: r.heat_source, hpOutputW: r.hp_output_w, immersionW: r.immersion_w, declaredLossW: r.declared_loss_w, targetC: r.target_c,
+    sensorHeightsM: r.sensor_heights_m, coldInletC: r.cold_inlet_c,
   }));
 }
 

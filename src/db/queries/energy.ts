@@ -47,7 +47,7 @@ export async function findEnergyTank(scope: Scope, tankId: string) {
     id: tanks.id, serial: tanks.serial, companyId: tanks.companyId, homeId: tanks.homeId,
     volumeL: tanks.volumeL, heightM: tanks.heightM, sensorCount: tanks.sensorCount, heatSource: tanks.heatSource,
     hpOutputW: tanks.hpOutputW, immersionW: tanks.immersionW, declaredLossW: tanks.declaredLossW,
-    targetC: tanks.targetC, occupants: homes.occupants,
+    targetC: tanks.targetC, occupants: homes.occupants, sensorHeightsM: tanks.sensorHeightsM, coldInletC: homes.coldInletC,
   }).from(tanks).leftJoin(homes, eq(homes.id, tanks.homeId)).where(and(eq(tanks.id, tankId), tankInScope(scope))).limit(1);
   return row ?? null;
 }

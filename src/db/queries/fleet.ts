@@ -3,6 +3,7 @@ import { db } from '..';
 import type { Scope } from '../../lib/server/authz';
 import { attentionKinds, type AttentionKind } from '../../lib/views/attention';
 import type { FleetSummary } from '../../lib/views/contracts';
+import type { FiguresStatus } from '../../lib/thermal';
 import { litreBins, shareBins } from '../../lib/views/distribution';
 import { scopeWhere } from './scope';
 import { attentionQueue } from './tanks';
@@ -18,8 +19,8 @@ const QUEUE_LENGTH = 12;
 async function computeSummary(scope: Scope): Promise<FleetSummary> {
   const at = Date.now();
   const [charge, open, queue] = await Promise.all([
-    db().execute<{ soc: number | null; v40_l: number | null; heard: boolean }>(sql`
-      select l.soc, l.v40_l, l.last_seen_at is not null as heard from tanks t left join tank_latest_state l on l.tank_id = t.id where ${scopeWhere(scope)}`),
+    db().execute<{ soc: number | null; v40_l: number | null; heard: boolean; quality: FiguresStatus | null }>(sql`
+      select l.soc, l.v40_l, l.last_seen_at is not null as heard, l.figures_quality->>'status' as quality from tanks t left join tank_latest_state l on l.tank_id = t.id where ${scopeWhere(scope)}`),
     db().execute<{ kind: AttentionKind | null; n: number }>(sql`
       select x.kind, count(*)::int as n from alerts x join tanks t on t.id = x.tank_id
       where x.company_id = ${scope.companyId} and x.state <> 'resolved' and ${scopeWhere(scope)}
@@ -45,9 +46,17 @@ async function computeSummary(scope: Scope): Promise<FleetSummary> {
     v40Bins: litreBins(v40s),
     meanSoc: known.length ? known.reduce((a, b) => a + b, 0) / known.length : null,
     totalV40L: v40s.reduce<number>((a, b) => a + (b ?? 0), 0),
+    figuresQuality: qualityCounts(charge.rows),
     queue,
     computedAt: new Date(at).toISOString(),
   };
+}
+
+/** Heard-from tanks by the quality of their latest figures (rows from before it was kept: measured). */
+function qualityCounts(rows: readonly { heard: boolean; quality: FiguresStatus | null }[]): Record<FiguresStatus, number> {
+  const out: Record<FiguresStatus, number> = { measured: 0, estimated: 0, withheld: 0 };
+  for (const r of rows) if (r.heard) out[r.quality ?? 'measured'] += 1;
+  return out;
 }
 
 /** Kept this long before a request triggers a refresh (the views' live target is about 10 s). */

@@ -3,7 +3,8 @@ import { db, type Db } from '..';
 import type { Scope } from '../../lib/server/authz';
 import type { TankListItem, TankListResponse, TanksQuery } from '../../lib/views/contracts';
 import { attentionKinds, byUrgency, statusOf, type AttentionKind } from '../../lib/views/attention';
-import { ccToC, layersFromCc } from '../../lib/views/layers';
+import { ccToC, layersFromCc, storedQuality } from '../../lib/views/layers';
+import { stuckSensors, type FiguresQuality, type StuckState } from '../../lib/thermal';
 import type { HeatSource } from '../schema/homes';
 import { isUuid, scopeWhere } from './scope';
 
@@ -96,12 +97,12 @@ function segmentsOf(scope: Scope, q: TanksQuery, dir: 'asc' | 'desc'): Segment[]
 type ListRow = {
   id: string; serial: string; model: string; volume_l: number; heat_source: HeatSource;
   home_id: string | null; reference: string | null; town: string | null; address_line: string | null;
-  last_seen_at: Date | null; soc: number | null; v40_l: number | null; top_cc: number | null; kinds: string | null;
+  last_seen_at: Date | null; soc: number | null; v40_l: number | null; figures_quality: FiguresQuality | null; top_cc: number | null; kinds: string | null;
 }
 
 /** The columns of a list row for the tanks `t` of a page (homes `h`, latest state `l` joined). */
 const listColumns = sql`t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
-  l.last_seen_at, l.soc, l.v40_l, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc,
+  l.last_seen_at, l.soc, l.v40_l, l.figures_quality, l.layers_cc[array_upper(l.layers_cc, 1)] as top_cc,
   (select string_agg(x.kind::text, ' ' order by array_position(${kindOrder}, x.kind)) from alerts x where x.tank_id = t.id and x.state <> 'resolved') as kinds`;
 const listJoins = sql`left join homes h on h.id = t.home_id left join tank_latest_state l on l.tank_id = t.id`;
 
@@ -162,7 +163,7 @@ function toItem(r: ListRow): TankListItem {
     id: r.id, serial: r.serial, model: r.model, volumeL: r.volume_l, heatSource: r.heat_source,
     home: r.home_id ? { id: r.home_id, reference: r.reference!, town: r.town!, addressLine: r.address_line! } : null,
     lastSeenAt: r.last_seen_at ? new Date(r.last_seen_at).toISOString() : null,
-    soc: r.soc, v40L: r.v40_l, topC: ccToC(r.top_cc), status: statusOf(attention), attention,
+    soc: r.soc, v40L: r.v40_l, quality: storedQuality(r.figures_quality, r.last_seen_at !== null), topC: ccToC(r.top_cc), status: statusOf(attention), attention,
   };
 }
 
@@ -192,10 +193,12 @@ export interface TankRecord {
   id: string; serial: string; model: string; volumeL: number; heightM: number; sensorCount: number; sensorHeightsM: number[] | null;
   heatSource: HeatSource; hpOutputW: number; immersionW: number; declaredLossW: number | null; targetC: number; hysteresisK: number;
   commissionedAt: Date | null;
+  /** The home's cold inlet, °C, where the company has set one. */ coldInletC: number | null;
   home: { id: string; reference: string; addressLine: string; town: string; postcode: string; occupants: number; hasSolar: boolean } | null;
   latest: {
     ts: Date | null; lastSeenAt: Date | null; online: boolean | null; layersC: (number | null)[]; flowC: number | null; returnC: number | null;
     compressor: boolean | null; immersionW: number | null; powerW: number | null; drawLpm: number | null; soc: number | null; v40L: number | null;
+    /** Sensors (0-based) the writer's stuck check holds stuck: the figures leave them out. */ stuck: number[];
   } | null;
 }
 
@@ -203,9 +206,10 @@ type TankRow = {
   id: string; serial: string; model: string; volume_l: number; height_m: number; sensor_count: number; sensor_heights_m: number[] | null;
   heat_source: HeatSource; hp_output_w: number; immersion_w: number; declared_loss_w: number | null; target_c: number; hysteresis_k: number;
   commissioned_at: Date | null; home_id: string | null; reference: string | null; address_line: string | null; town: string | null; postcode: string | null;
-  occupants: number | null; has_solar: boolean | null;
+  occupants: number | null; has_solar: boolean | null; cold_inlet_c: number | null;
   l_tank: string | null; ts: Date | null; last_seen_at: Date | null; online: boolean | null; layers_cc: (number | null)[] | null; flow_cc: number | null;
   return_cc: number | null; compressor: boolean | null; l_immersion_w: number | null; power_w: number | null; draw_dlpm: number | null; soc: number | null; v40_l: number | null;
+  sensor_check: StuckState | null;
 }
 
 /** One tank in scope with its home and latest state, or null (also for a malformed id). */
@@ -214,9 +218,9 @@ export async function getTank(scope: Scope, id: string): Promise<TankRecord | nu
   const res = await db().execute<TankRow>(sql`
     select t.id, t.serial, t.model, t.volume_l, t.height_m, t.sensor_count, t.sensor_heights_m, t.heat_source, t.hp_output_w, t.immersion_w,
       t.declared_loss_w, t.target_c, t.hysteresis_k, t.commissioned_at,
-      h.id as home_id, h.reference, h.address_line, h.town, h.postcode, h.occupants, h.has_solar,
+      h.id as home_id, h.reference, h.address_line, h.town, h.postcode, h.occupants, h.has_solar, h.cold_inlet_c,
       l.tank_id as l_tank, l.ts, l.last_seen_at, l.online, l.layers_cc, l.flow_cc, l.return_cc, l.compressor, l.immersion_w as l_immersion_w,
-      l.power_w, l.draw_dlpm, l.soc, l.v40_l
+      l.power_w, l.draw_dlpm, l.soc, l.v40_l, l.sensor_check
     from tanks t left join homes h on h.id = t.home_id left join tank_latest_state l on l.tank_id = t.id
     where ${scopeWhere(scope)} and t.id = ${id}`);
   const r = res.rows[0];
@@ -225,11 +229,12 @@ export async function getTank(scope: Scope, id: string): Promise<TankRecord | nu
   return {
     id: r.id, serial: r.serial, model: r.model, volumeL: r.volume_l, heightM: r.height_m, sensorCount: r.sensor_count, sensorHeightsM: r.sensor_heights_m,
     heatSource: r.heat_source, hpOutputW: r.hp_output_w, immersionW: r.immersion_w, declaredLossW: r.declared_loss_w, targetC: r.target_c,
-    hysteresisK: r.hysteresis_k, commissionedAt: date(r.commissioned_at),
+    hysteresisK: r.hysteresis_k, commissionedAt: date(r.commissioned_at), coldInletC: r.cold_inlet_c,
     home: r.home_id ? { id: r.home_id, reference: r.reference!, addressLine: r.address_line!, town: r.town!, postcode: r.postcode!, occupants: r.occupants!, hasSolar: r.has_solar! } : null,
     latest: r.l_tank ? {
       ts: date(r.ts), lastSeenAt: date(r.last_seen_at), online: r.online, layersC: layersFromCc(r.layers_cc), flowC: ccToC(r.flow_cc), returnC: ccToC(r.return_cc),
       compressor: r.compressor, immersionW: r.l_immersion_w, powerW: r.power_w, drawLpm: r.draw_dlpm === null ? null : r.draw_dlpm / 10, soc: r.soc, v40L: r.v40_l,
+      stuck: stuckSensors(r.sensor_check),
     } : null,
   };
 }

@@ -18,6 +18,8 @@ export const homes = pgTable(
     postcode: text('postcode').notNull(),
     occupants: smallint('occupants').notNull().default(2),
     hasSolar: boolean('has_solar').notNull().default(false),
+    /** Cold mains at this home, °C, where the company has measured it; null: EN 16147's 10 °C (src/lib/thermal/figures.ts). */
+    coldInletC: real('cold_inlet_c'),
     contactName: text('contact_name'),
     contactEmail: text('contact_email'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),

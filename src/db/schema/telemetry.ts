@@ -4,6 +4,7 @@ import {
 import { users } from './auth';
 import { tanks } from './homes';
 import { eventKinds, type DeriveState } from '../../lib/telemetry/events';
+import type { FiguresQuality, StuckState } from '../../lib/thermal/index.js';
 
 /**
  * Telemetry tables. Every key starts with the tank id so that the tables could later be
@@ -64,10 +65,14 @@ export const tankLatestState = pgTable('tank_latest_state', {
   powerW: smallint('power_w'),
   pumpPct: smallint('pump_pct'),
   drawDlpm: smallint('draw_dlpm'),
-  /** State of charge 0–1 against the tank's target, cold water at 10 °C. */
+  /** State of charge 0–1 against the tank's target, from the home's cold inlet (else 10 °C); null when withheld. */
   soc: real('soc'),
-  /** Litres of mixed water at 40 °C (EN 16147 V40, cold water at 10 °C). */
+  /** Litres of mixed water at 40 °C (EN 16147 V40, from the home's cold inlet, else 10 °C); null when withheld. */
   v40L: real('v40_l'),
+  /** Whether soc and V40 were measured, estimated (sensors left out) or withheld, and why (thermal `tankFigures`). */
+  figuresQuality: jsonb('figures_quality').$type<FiguresQuality>(),
+  /** The stuck-sensor check carried between batches (thermal `stepStuck`). */
+  sensorCheck: jsonb('sensor_check').$type<StuckState>(),
   /** From the retained status topic (the device's last will says offline). */
   online: boolean('online'),
   statusAt: timestamp('status_at', { withTimezone: true }),

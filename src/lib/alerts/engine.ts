@@ -5,6 +5,7 @@
 // rule needs from the past travels in EngineState. Pure: no I/O, no clock of its own.
 import type { Reading } from '../telemetry/wire';
 import type { HeatSource } from '../heat-sources';
+import type { TankGeometry } from '../thermal';
 import { ruleApplies } from './applicability';
 import type { Thresholds } from './thresholds';
 import { alertKinds, type AlertEvidence, type AlertKind } from './types';
@@ -26,7 +27,14 @@ export interface TankFacts {
   /** Declared standing loss, W (null: not known, so no heat-loss rule). */
   declaredLossW: number | null;
   occupants: number;
+  /** Geometry for the tank's figures (thermal `tankFigures`); absent: evenly spaced sensors in a 1 m column, target 55 °C. */
+  heightM?: number; sensorHeightsM?: readonly number[] | null; targetC?: number; coldInletC?: number | null;
 }
+
+/** The thermal core's geometry of a tank, so the rules' V40 is the figure every screen shows. */
+const figureGeometryOf = (t: TankFacts): TankGeometry => ({
+  volumeL: t.volumeL, heightM: t.heightM ?? 1, sensorCount: t.sensorCount, sensorHeightsM: t.sensorHeightsM ?? null, targetC: t.targetC ?? 55, coldInletC: t.coldInletC ?? null,
+});
 
 interface Track { activeSince: number | null; clearSince: number | null; open: boolean }
 
@@ -125,7 +133,7 @@ export function evaluateReadings(
     stepSensor(s.sensor, r, th);
     const trusted = !sensorSuspect(s.sensor);
     stepLegionella(s.legionella, r, th);
-    stepLowHotWater(s.lowHotWater, r, tank.volumeL);
+    stepLowHotWater(s.lowHotWater, r, figureGeometryOf(tank));
     stepHeatLoss(s.heatLoss, r, tank.volumeL, tank.declaredLossW, th, trusted);
     run.apply('short_cycling', shortCycleFinding(s.shortCycle, r.ts, th), r.ts);
     run.apply('sensor_fault', sensorFinding(s.sensor, r.ts, th), r.ts);

@@ -19,9 +19,9 @@ export function readingWindow(from: string, to: string, timeZone: string, closeM
 /**
  * One DayEnergy for each day from `from` to `to` that has two or more readings (days without
  * telemetry are left out, not reported as zero), and the months those days fall in. `readings`
- * sorted by time, as from {@link readingWindow}.
+ * sorted by time, as from {@link readingWindow}; `coldC` the home's cold water (default EN 16147's).
  */
-export function accountDays(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, from: string, to: string, timeZone: string): { days: DayEnergy[]; months: MonthEnergy[] } {
+export function accountDays(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, from: string, to: string, timeZone: string, coldC?: number): { days: DayEnergy[]; months: MonthEnergy[] } {
   const days: DayEnergy[] = [];
   let i = 0;
   for (const date of datesBetween(from, to)) {
@@ -31,7 +31,7 @@ export function accountDays(readings: readonly EnergyReading[], tank: Accounting
     while (j < readings.length && readings[j]!.ts < endMs) j++;
     // The first reading after the day closes its last interval.
     const slice = readings.slice(i, Math.min(j + 1, readings.length));
-    if (slice.length >= 2 && localDate(slice[0]!.ts, timeZone) === date) days.push(accountDay(slice, tank, tariffs, { startMs, endMs, date }));
+    if (slice.length >= 2 && localDate(slice[0]!.ts, timeZone) === date) days.push(accountDay(slice, tank, tariffs, { startMs, endMs, date, ...(coldC === undefined ? {} : { coldC }) }));
     i = j;
   }
   return { days, months: rollUpMonths(days) };

@@ -8,7 +8,7 @@ import {
 } from '../../db/queries/energy-days';
 import { accountDays, readingWindow } from './account';
 import { HOME_TIME_ZONE } from './contracts';
-import { accountingTank, energyReadings } from './inputs';
+import { accountingTank, energyReadings, tankColdC } from './inputs';
 import { homeTariffs } from './tariff-layers';
 
 /** Stored days are kept this long: the fleet compares at most a year (a product limit). */
@@ -47,7 +47,7 @@ export async function refreshEnergyDays(opts: { limit?: number; nowMs?: number }
       for (const date of [...days.get(tank.id)!].sort()) {
         const w = readingWindow(date, date, HOME_TIME_ZONE);
         const rows = await energyReadingsIn(tx, tank.id, w.startMs, w.endMs);
-        const { days: accounted } = accountDays(energyReadings(rows), accountingTank(tank), priced, date, date, HOME_TIME_ZONE);
+        const { days: accounted } = accountDays(energyReadings(rows, tank), accountingTank(tank), priced, date, date, HOME_TIME_ZONE, tankColdC(tank));
         await saveEnergyDay(tx, tank, date, accounted[0] ?? null);
         written++;
       }

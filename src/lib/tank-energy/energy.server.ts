@@ -12,7 +12,8 @@ import { sendCommand } from '../telemetry/commands.server';
 import { accountDays, readingWindow } from './account';
 import { HOME_TIME_ZONE, type EnergyQuery, type EnergyResponse, type FleetEnergyQuery, type FleetEnergyResponse, type PlanBody, type PlanResponse } from './contracts';
 import { fence, outlierRule } from './fleet-outliers';
-import { accountingTank, energyReadings } from './inputs';
+import { accountingTank, energyReadings, figureGeometry, tankColdC } from './inputs';
+import { stuckSensors, tankFigures } from '../thermal';
 import { PlanRefusal, planCharge, planInput, shapePlan } from './plan';
 import type { TariffProblem } from './tariff-upload';
 import type { Tariff } from '../energy';
@@ -33,7 +34,7 @@ export async function tankEnergy(scope: Scope, tankId: string | undefined, q: En
   const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
   const w = readingWindow(q.from, q.to, HOME_TIME_ZONE);
   const rows = await listEnergyReadings(tank.id, new Date(w.startMs), new Date(w.endMs));
-  const { days, months } = accountDays(energyReadings(rows), accountingTank(tank), tariffs, q.from, q.to, HOME_TIME_ZONE);
+  const { days, months } = accountDays(energyReadings(rows, tank), accountingTank(tank), tariffs, q.from, q.to, HOME_TIME_ZONE, tankColdC(tank));
   const sum = (f: (d: (typeof days)[number]) => number) => days.reduce((a, d) => a + f(d), 0);
   const hpHeat = sum((d) => d.heatPumpHeatKWh);
   const hpElec = sum((d) => d.heatPumpElectricityKWh);
@@ -54,16 +55,19 @@ export async function tankPlan(scope: Scope, tankId: string | undefined, body: P
   const tank = await tankOr404(scope, tankId);
   const latest = await getLatestState(tank.id);
   const layers = latest?.layersCc;
-  if (!layers || layers.length === 0 || layers.some((c) => c === null)) {
-    throw new HttpError(409, 'NoLatestLayers', 'The tank has not sent a complete set of layer temperatures yet, so there is nothing to plan from. Try again once it reports.');
+  if (!layers || layers.length === 0) {
+    throw new HttpError(409, 'NoLatestLayers', 'The tank has not sent its layer temperatures yet, so there is nothing to plan from. Try again once it reports.');
   }
+  // The column the figures use: a sensor left out is estimated; withheld figures give no plan.
+  const now = tankFigures({ layersC: layers.map((c) => (c === null ? null : c / 100)) }, figureGeometry(tank), { stuck: stuckSensors(latest?.sensorCheck) });
+  if (!now.layersC) throw new HttpError(409, 'FiguresWithheld', `There is nothing to plan from: ${now.quality.reason}`, [{ field: 'layers', message: now.quality.reason ?? 'Figures withheld.' }]);
   const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
   if (source === 'none') throw new HttpError(409, 'NoTariff', 'Neither this home nor the company has a tariff: add one before planning.', [{ field: 'tariff', message: 'No tariff.' }]);
   const history = await listEnergyReadings(tank.id, new Date(nowMs - DEMAND_HISTORY_DAYS * 86_400_000), new Date(nowMs));
   const lastStart = await lastCompressorStart(tank.id);
   try {
     const input = planInput({
-      tank, layersC: layers.map((c) => c! / 100), history: energyReadings(history), tariffs,
+      tank, layersC: now.layersC, history: energyReadings(history, tank), tariffs,
       compressor: { running: latest?.compressor === true, lastStartMs: lastStart?.getTime() ?? null },
       nowMs, hours: body.hours, comfortFloorL40: body.comfortFloorL40, timeZone: HOME_TIME_ZONE,
     });

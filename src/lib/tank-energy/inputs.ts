@@ -1,7 +1,7 @@
 // What the energy core is given about a stored tank: its readings in core units and a model spec.
 // Pure: no I/O.
 import type { AccountingTank, EnergyReading } from '../energy';
-import type { TankSpec } from '../thermal';
+import { coldWaterC, figuresOverTime, layerThicknesses, sensorPositions, type TankGeometry, type TankSpec } from '../thermal';
 import { capabilities, hasMainSource } from '../heat-sources';
 
 /** What the planner and the accounting need of a tank row. */
@@ -9,7 +9,17 @@ export interface EnergyTankFacts {
   volumeL: number; heightM: number; sensorCount: number;
   heatSource: TankSpec['heatSource']; hpOutputW: number; immersionW: number;
   declaredLossW: number | null; targetC: number;
+  /** Sensor heights, metres (null: evenly spaced); the home's cold inlet, °C (null: EN 16147's 10 °C). */
+  sensorHeightsM?: readonly number[] | null; coldInletC?: number | null;
 }
+
+/** The thermal core's geometry of a tank row, for its figures. */
+export const figureGeometry = (t: EnergyTankFacts): TankGeometry => ({
+  volumeL: t.volumeL, heightM: t.heightM, sensorCount: t.sensorCount, sensorHeightsM: t.sensorHeightsM ?? null, targetC: t.targetC, coldInletC: t.coldInletC ?? null,
+});
+
+/** The cold water a tank's energy counts from, °C. */
+export const tankColdC = (t: EnergyTankFacts): number => coldWaterC(t);
 
 /** One stored reading: centi-degrees, decilitres per minute (as src/db/schema/telemetry.ts keeps them). */
 export interface StoredReading {
@@ -27,21 +37,25 @@ export const DEFAULT_LOSS_W = 60;
 export const DECLARED_LOSS_DELTA_K = 45;
 
 /**
- * Readings in core units, oldest first. A reading with a sensor the device found open or shorted is
- * left out (the interval around it becomes a gap rather than a guess).
+ * Readings in core units, oldest first, each column as the thermal core's figures give it: a
+ * sensor left out (missing, open, stuck, out of order) is estimated by height; a reading whose
+ * figures are withheld (top sensor, or two neighbours, out) is left out, so the interval around
+ * it becomes a gap rather than a guess.
  */
-export function energyReadings(rows: readonly StoredReading[]): EnergyReading[] {
+export function energyReadings(rows: readonly StoredReading[], tank: EnergyTankFacts): EnergyReading[] {
+  const figures = figuresOverTime(rows.map((r) => ({ t: r.ts.getTime(), layersC: r.layersCc.map((c) => (c === null ? null : c / 100)) })), figureGeometry(tank));
   const out: EnergyReading[] = [];
-  for (const r of rows) {
-    if (r.layersCc.length === 0 || r.layersCc.some((c) => c === null)) continue;
-    const e: EnergyReading = { ts: r.ts.getTime(), layersC: r.layersCc.map((c) => c! / 100) };
+  rows.forEach((r, i) => {
+    const column = figures[i]?.layersC;
+    if (!column) return;
+    const e: EnergyReading = { ts: r.ts.getTime(), layersC: column };
     if (r.compressor !== null) e.compressor = r.compressor;
     if (r.immersionW !== null) e.immersionW = r.immersionW;
     if (r.powerW !== null) e.powerW = r.powerW;
     if (r.drawDlpm !== null) e.drawLpm = r.drawDlpm / 10;
     if (r.solarSurplusW !== null) e.solarSurplusW = r.solarSurplusW;
     out.push(e);
-  }
+  });
   return out;
 }
 
@@ -50,7 +64,7 @@ export function uaWPerK(t: Pick<EnergyTankFacts, 'declaredLossW'>): number {
 }
 
 export function accountingTank(t: EnergyTankFacts): AccountingTank {
-  return { volumeL: t.volumeL, uaWPerK: uaWPerK(t), ambientC: AMBIENT_C };
+  return { volumeL: t.volumeL, uaWPerK: uaWPerK(t), ambientC: AMBIENT_C, heightsM: layerThicknesses(sensorPositions(t.sensorCount, t.heightM, t.sensorHeightsM), t.heightM) };
 }
 
 /** The thermal-core model of a stored tank (immersion heights as the fleet simulator fits them). */

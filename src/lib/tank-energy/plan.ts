@@ -4,7 +4,7 @@ import type { ChargePlan, ChargePlanInput, EnergyReading, Tariffs } from '../ene
 import { createTank, estimatedCop } from '../thermal';
 import { capabilities } from '../heat-sources';
 import type { PlanResponse } from './contracts';
-import { tankSpec, type EnergyTankFacts } from './inputs';
+import { tankColdC, tankSpec, type EnergyTankFacts } from './inputs';
 import { scheduleWindows } from './schedule-command';
 
 /**
@@ -12,8 +12,6 @@ import { scheduleWindows } from './schedule-command';
  * of EN 14511 (from memory), a mild UK winter day.
  */
 export const PLAN_SOURCE_C = 7;
-/** Cold mains, °C: the EN 16147 reference. */
-export const COLD_C = 10;
 
 export interface PlanFacts {
   tank: EnergyTankFacts & { occupants: number | null };
@@ -34,11 +32,13 @@ export function planInput(f: PlanFacts): ChargePlanInput {
     throw new PlanRefusal('NotElectricallyHeated', 'heatSource', 'A boiler heats this cylinder on its own programmer. A charge plan schedules heat-pump and immersion electricity against the tariff, so there is nothing here to plan.');
   }
   const spec = tankSpec(f.tank);
+  // The home's cold inlet where the company set one, else EN 16147's 10 °C (thermal `coldWaterC`).
+  const coldC = tankColdC(f.tank);
   const startMs = Math.ceil(f.nowMs / HALF_HOUR_MS) * HALF_HOUR_MS;
   const steps = f.hours * 2;
   // The heat pump heats to the tank's own target; the planner cannot ask more of it.
   const hpTopC = Math.min(f.tank.targetC, 65);
-  const most = v40Curve(spec, COLD_C, capabilities(spec.heatSource).immersion === 'only' ? 65 : hpTopC).litres40.at(-1)!;
+  const most = v40Curve(spec, coldC, capabilities(spec.heatSource).immersion === 'only' ? 65 : hpTopC).litres40.at(-1)!;
   if (f.comfortFloorL40 > most) {
     throw new PlanRefusal('FloorAboveCapacity', 'comfortFloorL40', `comfortFloorL40 is ${f.comfortFloorL40} L, but this ${f.tank.volumeL} L cylinder holds at most about ${Math.floor(most)} L at 40 °C when full at ${hpTopC} °C. Choose a lower floor.`);
   }
@@ -48,10 +48,10 @@ export function planInput(f: PlanFacts): ChargePlanInput {
   } catch (cause) {
     throw new PlanRefusal('NoTariffInForce', 'tariff', `${(cause as Error).message} The plan needs a price for every half hour of the next ${f.hours} hours.`);
   }
-  const demand = demandSeries(learnDemand(f.history, { occupants: f.tank.occupants ?? 2, timeZone: f.timeZone, coldC: COLD_C }), startMs, steps);
+  const demand = demandSeries(learnDemand(f.history, { occupants: f.tank.occupants ?? 2, timeZone: f.timeZone, coldC }), startMs, steps);
   return {
     spec, state: createTank(spec, f.layersC), startMs, stepMin: 30, importPence, demandLitres40: demand,
-    comfortFloorL40: f.comfortFloorL40, cop: estimatedCop({ sinkC: hpTopC, sourceC: PLAN_SOURCE_C }), coldC: COLD_C,
+    comfortFloorL40: f.comfortFloorL40, cop: estimatedCop({ sinkC: hpTopC, sourceC: PLAN_SOURCE_C }), coldC,
     limits: { hpTopC }, compressor: f.compressor,
   };
 }

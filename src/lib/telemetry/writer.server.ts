@@ -10,7 +10,7 @@ import type pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import { pipeline } from 'node:stream/promises';
 import { Readable } from 'node:stream';
-import { mixedWaterLitres, stateOfCharge } from '../thermal';
+import { DEFAULT_STUCK_LIMITS, initialStuck, stepStuck, stuckSensors, tankFigures, type FiguresQuality, type StuckState, type TankGeometry } from '../thermal';
 import type { DeadLetterInput, IngestTank } from '../../db/queries/telemetry';
 import { deriveEvents, emptyDeriveState, type DeriveState, type EventRecord } from './events';
 import type { Reading } from './wire';
@@ -30,9 +30,6 @@ export interface WriteResult {
   /** Events opened, extended or closed. */
   events: number;
 }
-
-/** Cold-water temperature for V40 and state of charge, °C: the EN 16147 reference. */
-export const REFERENCE_COLD_C = 10;
 
 const COPY_COLUMNS = 'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w';
 
@@ -93,31 +90,16 @@ function copyLine(s: StoredReading): string {
   ].join('\t') + '\n';
 }
 
-/** Layers with open sensors filled from their neighbours, clamped to liquid water, for SOC and V40. */
-function usableLayers(layersC: readonly (number | null)[]): number[] | null {
-  const known = layersC.map((t, i) => ({ t, i })).filter((x): x is { t: number; i: number } => x.t !== null);
-  if (known.length === 0) return null;
-  return layersC.map((t, i) => {
-    if (t !== null) return Math.min(100, Math.max(0, t));
-    const below = [...known].reverse().find((k) => k.i < i);
-    const above = known.find((k) => k.i > i);
-    const v = below && above ? below.t + ((above.t - below.t) * (i - below.i)) / (above.i - below.i) : (below ?? above)!.t;
-    return Math.min(100, Math.max(0, v));
-  });
-}
+/** What the figures need of a tank, read with its latest state (so an amended target counts at once). */
+export interface FiguresTank extends TankGeometry { stuck: StuckState | null }
 
-/** State of charge and V40 of a reading, or nulls when they cannot be computed. */
-export function chargeOf(tank: IngestTank, layersC: readonly (number | null)[]): { soc: number | null; v40L: number | null } {
-  const layers = usableLayers(layersC);
-  if (!layers) return { soc: null, v40L: null };
-  try {
-    return {
-      soc: stateOfCharge({ layersC: layers, coldC: REFERENCE_COLD_C, targetC: tank.targetC }),
-      v40L: mixedWaterLitres({ layersC: layers, volumeL: tank.volumeL, coldC: REFERENCE_COLD_C, deliveryC: 40 }),
-    };
-  } catch {
-    return { soc: null, v40L: null };
-  }
+/**
+ * The latest figures of a tank: the thermal core's `tankFigures` (doubted sensors left out and
+ * estimated, or the figures withheld), the same function every screen calls.
+ */
+export function chargeOf(tank: FiguresTank, layersC: readonly (number | null)[]): { soc: number | null; v40L: number | null; quality: FiguresQuality } {
+  const f = tankFigures({ layersC }, tank, { stuck: stuckSensors(tank.stuck) });
+  return { soc: f.soc, v40L: f.v40L, quality: f.quality };
 }
 
 const staged = new WeakSet<pg.PoolClient>();
@@ -154,12 +136,7 @@ export class TelemetryWriter {
     if (batch.deadLetters?.length) await insertDeadLettersWith(client, batch.deadLetters);
     if (batch.readings.length === 0) return { inserted: 0, duplicates: 0, events: 0 };
 
-    const tanks = new Map<string, IngestTank>();
-    const rows: StoredReading[] = [];
-    for (const item of batch.readings) {
-      tanks.set(item.tank.id, item.tank);
-      rows.push(toStored(item.tank.id, item.reading));
-    }
+    const rows = batch.readings.map((item) => toStored(item.tank.id, item.reading));
 
     const copied = await copyStraightIn(client, rows);
     const freshRows = copied ? rows : await insertThroughStaging(client, rows);
@@ -173,17 +150,22 @@ export class TelemetryWriter {
     if (newByTank.size === 0) return { inserted, duplicates: rows.length - inserted, events: 0 };
     await markRollupsDirty(client, freshRows);
 
-    const events = await this.advanceTanks(client, newByTank, tanks);
+    const events = await this.advanceTanks(client, newByTank);
     return { inserted, duplicates: rows.length - inserted, events };
   }
 
   /** Latest state and events of every tank that received new readings. */
-  private async advanceTanks(client: pg.PoolClient, newByTank: Map<string, StoredReading[]>, tanks: Map<string, IngestTank>): Promise<number> {
+  private async advanceTanks(client: pg.PoolClient, newByTank: Map<string, StoredReading[]>): Promise<number> {
     // Lock in a fixed order so two writers touching the same tanks cannot deadlock.
     const ids = [...newByTank.keys()].sort();
-    const lockStates = () => client.query<{ tank_id: string; ts_ms: string | null; derive: DeriveState }>(
-      `select tank_id, (extract(epoch from ts) * 1000)::int8 as ts_ms, derive from tank_latest_state
-       where tank_id = any($1::uuid[]) order by tank_id for update`, [ids]);
+    const lockStates = () => client.query<{
+      tank_id: string; ts_ms: string | null; derive: DeriveState; sensor_check: StuckState | null;
+      volume_l: number; height_m: number; sensor_count: number; sensor_heights_m: number[] | null; target_c: number; cold_inlet_c: number | null;
+    }>(
+      `select l.tank_id, (extract(epoch from l.ts) * 1000)::int8 as ts_ms, l.derive, l.sensor_check,
+         t.volume_l, t.height_m, t.sensor_count, t.sensor_heights_m, t.target_c, h.cold_inlet_c
+       from tank_latest_state l join tanks t on t.id = l.tank_id left join homes h on h.id = t.home_id
+       where l.tank_id = any($1::uuid[]) order by l.tank_id for update of l`, [ids]);
     let current = await lockStates();
     if (current.rows.length < ids.length) {
       // A tank's first reading ever: give it its row, then lock again.
@@ -215,11 +197,16 @@ export class TelemetryWriter {
 
       const u: Record<string, unknown> = { tank_id: tankId, last_seen_at: now, derive: nextDerive, advance: false };
       if (latestTs === null || newest.ts > latestTs) {
-        const { soc, v40L } = chargeOf(tanks.get(tankId)!, fromStored(newest).layersC);
+        // The stuck check follows the readings newer than the latest, in time order.
+        const check: StuckState = st?.sensor_check ?? initialStuck(st?.sensor_count ?? newest.layersCc.length);
+        for (const row of list) if (latestTs === null || row.ts > latestTs) stepStuck(check, row.ts, fromStored(row).layersC, DEFAULT_STUCK_LIMITS);
+        const { soc, v40L, quality } = st
+          ? chargeOf({ volumeL: st.volume_l, heightM: st.height_m, sensorCount: st.sensor_count, sensorHeightsM: st.sensor_heights_m, targetC: st.target_c, coldInletC: st.cold_inlet_c, stuck: check }, fromStored(newest).layersC)
+          : { soc: null, v40L: null, quality: null };
         Object.assign(u, {
           advance: true, ts: new Date(newest.ts).toISOString(), seq: newest.seq, layers_cc: pgArray(newest.layersCc),
           flow_cc: newest.flowCc, return_cc: newest.returnCc, compressor: newest.compressor, immersion_w: newest.immersionW,
-          power_w: newest.powerW, pump_pct: newest.pumpPct, draw_dlpm: newest.drawDlpm, soc, v40_l: v40L,
+          power_w: newest.powerW, pump_pct: newest.pumpPct, draw_dlpm: newest.drawDlpm, soc, v40_l: v40L, figures_quality: quality, sensor_check: check,
         });
       }
       latestUpdates.push(u);
@@ -240,11 +227,13 @@ export class TelemetryWriter {
         pump_pct = case when x.advance then x.pump_pct else s.pump_pct end,
         draw_dlpm = case when x.advance then x.draw_dlpm else s.draw_dlpm end,
         soc = case when x.advance then x.soc else s.soc end,
-        v40_l = case when x.advance then x.v40_l else s.v40_l end
+        v40_l = case when x.advance then x.v40_l else s.v40_l end,
+        figures_quality = case when x.advance then x.figures_quality else s.figures_quality end,
+        sensor_check = case when x.advance then x.sensor_check else s.sensor_check end
       from json_to_recordset($1::json) as x(
         tank_id uuid, last_seen_at timestamptz, derive jsonb, advance boolean, ts timestamptz, seq integer, layers_cc text,
         flow_cc smallint, return_cc smallint, compressor boolean, immersion_w smallint, power_w smallint, pump_pct smallint,
-        draw_dlpm smallint, soc real, v40_l real)
+        draw_dlpm smallint, soc real, v40_l real, figures_quality jsonb, sensor_check jsonb)
       where s.tank_id = x.tank_id`, [JSON.stringify(latestUpdates)]);
 
     await upsertEvents(client, eventRows);

@@ -11,7 +11,7 @@
 import { mixedWaterLitres, stateOfCharge, storedEnergyKWh } from './energy.js';
 import { ThermalInputError } from './errors.js';
 import { mixNumber, thermocline } from './stratification.js';
-import { DEFAULT_SENSOR_LIMITS, sensorFaults, type SensorFault, type SensorLimits } from './sensor-check.js';
+import { DEFAULT_SENSOR_LIMITS, DEFAULT_STUCK_LIMITS, initialStuck, sensorFaults, stepStuck, stuckSensors, type SensorFault, type SensorLimits, type StuckLimits } from './sensor-check.js';
 import { finite, positive } from './validate.js';
 
 /** Cold water of the EN 16147 V40 and its tapping cycles, °C. */
@@ -141,4 +141,19 @@ export function tankFigures(reading: { layersC: readonly (number | null | undefi
       ? { status: 'measured', leftOut: [], faults: [], reason: null }
       : { status: 'estimated', leftOut: leftOut.map((f) => f.sensor), faults: leftOut, reason: `Estimated, ${leftOutWords(leftOut)}.` },
   };
+}
+
+/**
+ * The figures of a run of readings, oldest first, with the stuck check stepped over them in time
+ * order (as the writer steps it for the latest state): the charts, analyses, energy accounting
+ * and the planner's history leave out the same sensors the latest figures do. Null for a reading
+ * without layers.
+ */
+export function figuresOverTime(readings: readonly { t: number; layersC: readonly (number | null | undefined)[] }[], geometry: TankGeometry, options: { limits?: SensorLimits; stuckLimits?: StuckLimits } = {}): (TankFigures | null)[] {
+  const check = initialStuck(geometry.sensorCount);
+  return readings.map((r) => {
+    if (r.layersC.length === 0) return null;
+    stepStuck(check, r.t, r.layersC, options.stuckLimits ?? DEFAULT_STUCK_LIMITS);
+    return tankFigures(r, geometry, { ...(options.limits ? { limits: options.limits } : {}), stuck: stuckSensors(check) });
+  });
 }

@@ -51,6 +51,7 @@ export type { TankSpec, TankState, StepInputs, StepResult, HeatSource } from './
 
 export {
   tankFigures,
+  figuresOverTime,
   coldWaterC,
   sensorPositions,
   layerThicknesses,

@@ -4,6 +4,7 @@ import { defaultThresholds } from '../alerts/thresholds';
 import type { TankAnalysis } from './contracts';
 import { complete, layerThicknesses, type TankShape } from './layers';
 import type { SeriesRow } from './series';
+import { figuresOverTime, windowQuality } from './figures-over-time';
 
 /**
  * Air around an indoor cylinder, °C, assumed for the cooling fit: the ambient of the standing-loss
@@ -38,7 +39,14 @@ export function quietPeriods(rows: readonly SeriesRow[], maxGapMs = 15 * 60_000)
 export interface LegionellaSettings { thresholdC: number; holdMin: number }
 const defaultLegionella: LegionellaSettings = { thresholdC: defaultThresholds.legionellaC, holdMin: defaultThresholds.legionellaHoldMin };
 
-export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { declaredLossW: number | null }, window: { from: Date; to: Date }, legion: LegionellaSettings = defaultLegionella): TankAnalysis {
+/**
+ * Standing loss and legionella exposure over a window. Each reading's column is the thermal core's
+ * (a doubted sensor left out and its layer estimated; a withheld reading not used), so the analyses
+ * run on a tank with a failed sensor and say which sensors were left out.
+ */
+export function analyseTank(measured: readonly SeriesRow[], tank: TankShape & { sensorCount: number; declaredLossW: number | null }, window: { from: Date; to: Date }, legion: LegionellaSettings = defaultLegionella): TankAnalysis {
+  const figures = figuresOverTime(measured, tank);
+  const rows: SeriesRow[] = measured.map((r, i) => ({ ...r, layersC: figures[i]?.layersC ?? r.layersC.map(() => null) }));
   const weights = layerThicknesses(tank.sensorHeightsM, tank.heightM);
   const declaredClass = tank.declaredLossW !== null ? erpClass({ volumeL: tank.volumeL, standingLossW: tank.declaredLossW }) : null;
   let standing: TankAnalysis['standingLoss'] = null;
@@ -72,5 +80,5 @@ export function analyseTank(rows: readonly SeriesRow[], tank: TankShape & { decl
     const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC, holdMin, heightsM: weights });
     legionella = { thresholdC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
   }
-  return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella };
+  return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella, quality: windowQuality(figures) };
 }

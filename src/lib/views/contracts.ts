@@ -4,7 +4,8 @@ import { z } from 'zod';
 import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } from './attention';
 import { heatSourceValues } from './labels';
 import type { HeatSource } from '../../db/schema/homes';
-import type { ColumnFigures } from './layers';
+import type { ColumnFigures, FiguresQuality } from './layers';
+import type { FiguresStatus } from '../thermal';
 import type { AlertSeverity } from '../alerts/types';
 
 export const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
@@ -122,8 +123,10 @@ export interface TankListItem {
   heatSource: HeatSource;
   home: { id: string; reference: string; town: string; addressLine: string } | null;
   lastSeenAt: string | null;
-  soc: number | null;
+  /** Null when withheld (see quality). */ soc: number | null;
   v40L: number | null;
+  /** Measured, estimated (sensors left out) or withheld, and why: the writer's, from the thermal core. */
+  quality: FiguresQuality;
   topC: number | null;
   status: TankStatus;
   attention: AttentionKind[];
@@ -179,7 +182,12 @@ export interface TankAnalysis {
   } | null;
   standingLossNote: string;
   legionella: { thresholdC: number; holdMin: number; minutesAtOrAbove: number[]; longestStretchMin: number[]; heldFraction: number; readings: number } | null;
+  /** Whether the window's columns were measured, estimated (sensors left out) or all withheld. */
+  quality: WindowQuality;
 }
+
+/** The quality of figures over a window: the sensors left out in any reading used, and why. */
+export interface WindowQuality { status: FiguresStatus; leftOut: number[]; reason: string | null }
 
 export interface ReadingsResponse {
   tankId: string;
@@ -199,6 +207,8 @@ export interface ReadingsResponse {
   immersion: (number | null)[];
   drawLpm: (number | null)[];
   flowC: (number | null)[];
+  /** State of charge and V40 above: measured, estimated (sensors left out) or withheld over the range. */
+  quality: WindowQuality;
 }
 
 export type TimelineKind = 'compressor_run' | 'immersion_run' | 'draw' | 'command';
@@ -228,6 +238,8 @@ export interface FleetSummary {
   v40Bins: { fromL: number; toL: number | null; count: number }[];
   meanSoc: number | null;
   totalV40L: number;
+  /** Tanks whose latest figures are measured, estimated (a sensor left out) or withheld. */
+  figuresQuality: Record<FiguresStatus, number>;
   /** The tanks to deal with first, most urgent first. */
   queue: TankListItem[];
   computedAt: string;

@@ -1,18 +1,5 @@
 // How long until the tank is full again, from the heat still missing and what heats it.
-import { storedEnergyKWh } from '../thermal';
-import { COLD_WATER_C, complete, layerThicknesses, type TankShape } from './layers';
-
-/**
- * Heat missing before every layer reaches the target, kWh: stored energy at the target minus
- * stored energy now (thermal core), never below zero. Null when a sensor is missing.
- */
-export function energyToFullKWh(layersC: readonly (number | null)[], tank: TankShape): number | null {
-  if (!complete(layersC) || layersC.some((t) => t < 0 || t > 100)) return null;
-  const heightsM = layerThicknesses(tank.sensorHeightsM, tank.heightM);
-  const now = storedEnergyKWh({ layersC, heightsM, volumeL: tank.volumeL, refC: COLD_WATER_C });
-  const full = storedEnergyKWh({ layersC: layersC.map(() => tank.targetC), heightsM, volumeL: tank.volumeL, refC: COLD_WATER_C });
-  return Math.max(0, full - now);
-}
+// The heat still missing is the thermal core's `toFullKWh` (tank figures), never computed here.
 
 export interface RefillEstimate {
   state: 'full' | 'heating' | 'waiting' | 'unknown';

@@ -1,5 +1,6 @@
 // Readings (raw or rolled up) into the columnar series the charts and the CSV read.
-import { ccToC, columnFigures, type TankShape } from './layers';
+import { ccToC, type TankShape } from './layers';
+import { figuresOverTime, windowQuality } from './figures-over-time';
 import type { ReadingsResponse, Resolution } from './contracts';
 
 /** A raw reading or a rollup bucket, already decoded to °C. */
@@ -42,8 +43,8 @@ export function rollupToRow(r: RollupRowCc): SeriesRow {
 }
 
 /**
- * Columns for the charts: one array per layer and per scalar, state of charge and V40 computed for
- * every point by the thermal core (null where a sensor is missing). Layers beyond the tank's
+ * Columns for the charts: one array per layer and per scalar, state of charge and V40 of every
+ * point from the thermal core's figures (estimated where a sensor is left out, null where withheld). Layers beyond the tank's
  * sensor count are dropped; missing ones are null.
  */
 export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: string; sensorCount: number; positionsM: number[] }, meta: { from: Date; to: Date; resolution: Resolution }): ReadingsResponse {
@@ -54,23 +55,24 @@ export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: str
     sensorCount: n, positionsM: tank.positionsM,
     t: new Array(rows.length), layers, soc: new Array(rows.length), v40L: new Array(rows.length),
     compressor: new Array(rows.length), immersion: new Array(rows.length), drawLpm: new Array(rows.length), flowC: new Array(rows.length),
+    quality: { status: 'measured', leftOut: [], reason: null },
   };
+  const figures = figuresOverTime(rows, tank);
   rows.forEach((r, i) => {
     out.t[i] = r.t;
-    const column: (number | null)[] = [];
     for (let k = 0; k < n; k++) {
       const v = r.layersC[k] ?? null;
       layers[k]![i] = v === null ? null : Math.round(v * 100) / 100;
-      column.push(v);
     }
-    const f = columnFigures(column, tank);
-    out.soc[i] = f ? round(f.soc, 4) : null;
-    out.v40L[i] = f ? round(f.v40L, 1) : null;
+    const f = figures[i];
+    out.soc[i] = f?.soc != null ? round(f.soc, 4) : null;
+    out.v40L[i] = f?.v40L != null ? round(f.v40L, 1) : null;
     out.compressor[i] = r.compressor;
     out.immersion[i] = r.immersion;
     out.drawLpm[i] = r.drawLpm;
     out.flowC[i] = r.flowC;
   });
+  out.quality = windowQuality(figures);
   return out;
 }
 

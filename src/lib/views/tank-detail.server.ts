@@ -11,7 +11,6 @@ import { analyseTank } from './analysis';
 import { attentionLabels, attentionPriority, statusOf } from './attention';
 import type { AttentionItem, TankAnalysis, TankDetail } from './contracts';
 import { columnFigures, sensorPositions } from './layers';
-import { energyToFullKWh } from './refill';
 
 export async function tankOr404(scope: Scope, id: string): Promise<TankRecord> {
   const tank = await getTank(scope, id);
@@ -53,7 +52,8 @@ export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> 
   const th = await thresholdsFor(scope.companyId);
   const [attention, analysis] = await Promise.all([openAlertsOf(scope, tank.id), analysisFor(tank, th)]);
   const layersC = tank.latest?.layersC ?? [];
-  const figures = layersC.length ? columnFigures(layersC, tank) : null;
+  // The writer's figures of the same reading (same function, same stuck sensors).
+  const figures = columnFigures(layersC, tank, tank.latest?.stuck ?? []);
   return {
     id: tank.id, serial: tank.serial, model: tank.model, volumeL: tank.volumeL, heightM: tank.heightM, sensorCount: tank.sensorCount,
     positionsM: sensorPositions(tank.sensorCount, tank.heightM, tank.sensorHeightsM),
@@ -65,7 +65,7 @@ export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> 
       powerW: tank.latest.powerW, drawLpm: tank.latest.drawLpm,
     } : null,
     figures,
-    toFullKWh: layersC.length ? energyToFullKWh(layersC, tank) : null,
+    toFullKWh: figures?.toFullKWh ?? null,
     status: statusOf(attention.map((a) => a.kind)),
     attention,
     commissioning: {

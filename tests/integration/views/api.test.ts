@@ -1,12 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createAccount } from '../../support/accounts';
-import { closeTestDb } from '../../support/db';
+import { closeTestDb, query } from '../../support/db';
+import { columnFigures } from '../../../src/lib/views/layers';
 import { eventually } from '../../support/eventually';
 import { signIn, signInAs } from '../../support/session';
 import { createFixture, dropFixture, healthyLayersCc, LEAK_EVIDENCE_AGO_MS, type Fixture } from './fixtures';
 
 const base = () => process.env.TEST_BASE_URL!;
 let fx: Fixture;
+/** The faulty tank's stored figures (sensor 2 missing), put back after the sort test changes them. */
+const faultyFigures = columnFigures([15, null, 48, 55], { volumeL: 210, heightM: 1.4, targetC: 55, sensorCount: 4 })!;
 const cookies: Record<string, string> = {};
 
 async function get(path: string, who: keyof typeof cookies | null): Promise<Response> {
@@ -66,7 +69,10 @@ describe('GET /api/tanks', () => {
     expect(pages.map((p) => p.total)).toEqual([5, 5, 5]);
   });
   it('sorts by a latest-state figure with the tanks that have none last, in either direction', async () => {
-    // V40 of the fixture columns (thermal core): the healthy tank's top two layers count, the faulty one has none.
+    // V40 of the fixture columns (thermal core): the healthy tank's top two layers count. The faulty
+    // tank's top sensor is made to fail here, so its figures are withheld (null), as the writer stores them.
+    await query(`update tank_latest_state set layers_cc = '{1500,3000,4800,NULL}', soc = null, v40_l = null, figures_quality = $2 where tank_id = $1`,
+      [fx.faulty.id, JSON.stringify({ status: 'withheld', leftOut: [4], faults: [{ sensor: 4, fault: 'missing' }], reason: 'Withheld.' })]);
     const asc = await getJson(`/api/tanks?q=${fx.prefix}&sort=v40`, 'operator');
     const desc = await getJson(`/api/tanks?q=${fx.prefix}&sort=v40&dir=desc`, 'operator');
     const v40 = (b: any) => b.items.map((i: any) => i.v40L);
@@ -76,6 +82,9 @@ describe('GET /api/tanks', () => {
     expect(v40(desc).at(-1)).toBeNull();
     expect(v40(desc).slice(0, -1)).toEqual([...known].sort((a, b) => b - a));
     expect(asc.items.at(-1).serial).toBe(fx.faulty.serial);
+    expect(asc.items.at(-1).quality.status).toBe('withheld');
+    await query(`update tank_latest_state set layers_cc = '{1500,NULL,4800,5500}', soc = $2, v40_l = $3, figures_quality = $4 where tank_id = $1`,
+      [fx.faulty.id, faultyFigures.soc, faultyFigures.v40L, JSON.stringify(faultyFigures.quality)]);
     // Equal figures fall back to the serial: C, D and E share a column.
     const same = asc.items.filter((i: any) => i.v40L === asc.items.find((x: any) => x.serial === fx.silent.serial).v40L).map((i: any) => i.serial.slice(-1));
     expect(same).toEqual(expect.arrayContaining(['C', 'D', 'E']));
@@ -116,11 +125,20 @@ describe('GET /api/tanks/{id}', () => {
     expect(t.status).toBe('ok');
     expect(t.analysis.legionella.readings).toBe(2880);
   });
-  it('explains what is wrong with a faulty tank from its open alert and gives no figures from a broken column', async () => {
+  it('explains what is wrong with a faulty tank from its open alert and estimates the sensor left out', async () => {
     const t = await getJson(`/api/tanks/${fx.faulty.id}`, 'operator');
     expect(t.attention.map((a: any) => a.kind)).toEqual(['sensor_fault']);
     expect(t.attention[0].detail).toMatch(/^Sensor 2 \(from the bottom\) gives no reading since /);
-    expect(t.figures).toBeNull();
+    // Sensor 2 left out and estimated by height between 15 and 48 °C: 31.5 °C (linear, common practice), below 40 °C,
+    // so V40 counts the top two layers as the healthy column does: 78.75 + 66.5 L (EN 16147, cold 10 °C).
+    expect(t.figures.quality).toMatchObject({ status: 'estimated', leftOut: [2], reason: 'Estimated, sensor 2 left out (no reading).' });
+    expect(t.figures.layersC[1]).toBeCloseTo(31.5, 9);
+    expect(t.figures.v40L).toBeCloseTo(78.75 + 66.5, 6);
+    const listed = await getJson(`/api/tanks?q=${fx.prefix}-B`, 'operator');
+    // The list's figures are the writer's, stored as real (float4): equal to that precision.
+    expect(listed.items[0]).toMatchObject({ quality: { status: 'estimated', leftOut: [2] } });
+    expect(listed.items[0].v40L).toBeCloseTo(t.figures.v40L, 3);
+    expect(listed.items[0].soc).toBeCloseTo(t.figures.soc, 5);
   });
 });
 

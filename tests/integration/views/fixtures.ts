@@ -29,11 +29,12 @@ async function makeTank(cid: string, prefix: string, name: string, town: string,
 }
 
 async function latest(t: FixtureTank, layersCc: (number | null)[], seenAt: Date, extra: { compressor?: boolean } = {}): Promise<void> {
-  const f = columnFigures(layersCc.map((c) => (c === null ? null : c / 100)), { volumeL: 210, heightM: 1.4, targetC: 55 });
+  // As the writer stores them: the thermal core's figures and their quality.
+  const f = columnFigures(layersCc.map((c) => (c === null ? null : c / 100)), { volumeL: 210, heightM: 1.4, targetC: 55, sensorCount: 4 });
   await query(
-    `insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, compressor, immersion_w, power_w, draw_dlpm, soc, v40_l, online)
-     values ($1, $2, $2, $3, $4, 0, 0, 0, $5, $6, true)`,
-    [t.id, seenAt, layersCc, extra.compressor ?? false, f?.soc ?? null, f?.v40L ?? null]);
+    `insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, compressor, immersion_w, power_w, draw_dlpm, soc, v40_l, figures_quality, online)
+     values ($1, $2, $2, $3, $4, 0, 0, 0, $5, $6, $7, true)`,
+    [t.id, seenAt, layersCc, extra.compressor ?? false, f?.soc ?? null, f?.v40L ?? null, f ? JSON.stringify(f.quality) : null]);
 }
 
 /**

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { columnFigures, layerThicknesses, layersFromCc } from '../../../src/lib/views/layers';
 import { defaultAssumptions, everydayEquivalents, litresAt40ForEnergy } from '../../../src/lib/views/everyday';
-import { energyToFullKWh, refillEstimate } from '../../../src/lib/views/refill';
+import { refillEstimate } from '../../../src/lib/views/refill';
 
 const tank = { volumeL: 200, heightM: 1.4, targetC: 55 };
 
@@ -19,8 +19,14 @@ describe('column figures', () => {
     // State of charge: mean of (T − 10)/(55 − 10) clamped: (4 · 5/45 + 4 · 1)/8 = 0.5556.
     expect(f.soc).toBeCloseTo((4 * (5 / 45) + 4) / 8, 6);
   });
-  it('refuses to compute from a column with a missing sensor', () => {
-    expect(columnFigures([50, null, 55], tank)).toBeNull();
+  it('estimates a missing sensor by height and says so; withholds without the top sensor', () => {
+    // Evenly spaced sensors: the middle one is half-way, so its layer is the mean of its neighbours (linear by height, common practice).
+    const f = columnFigures([50, null, 56], tank)!;
+    expect(f.layersC).toEqual([50, 53, 56]);
+    expect(f.quality).toMatchObject({ status: 'estimated', leftOut: [2], reason: 'Estimated, sensor 2 left out (no reading).' });
+    const top = columnFigures([50, 53, null], tank)!;
+    expect([top.v40L, top.soc, top.quality.status]).toEqual([null, null, 'withheld']);
+    expect(columnFigures([], tank)).toBeNull();
     expect(layersFromCc([5000, null, 5525])).toEqual([50, null, 55.25]);
   });
   it('turns sensor positions into the layer each sensor stands for', () => {
@@ -46,10 +52,10 @@ describe('everyday equivalents', () => {
 describe('time to full', () => {
   it('needs the heat to raise the whole tank from cold to the target', () => {
     // 200 L from 10 to 55 °C: about 197 kg (ρ(55 °C) ≈ 985.7 kg/m³) × 188.3 kJ/kg (h(55) − h(10), IAPWS-IF97) ≈ 10.3 kWh.
-    const kWh = energyToFullKWh(Array(10).fill(10), tank)!;
+    const kWh = columnFigures(Array(10).fill(10), tank)!.toFullKWh!;
     expect(kWh).toBeGreaterThan(10.2);
     expect(kWh).toBeLessThan(10.4);
-    expect(energyToFullKWh(Array(10).fill(55), tank)).toBeCloseTo(0, 9);
+    expect(columnFigures(Array(10).fill(55), tank)!.toFullKWh).toBeCloseTo(0, 9);
   });
   it('divides the missing heat by the running heat source output', () => {
     const r = refillEstimate({ toFullKWh: 10, hpOutputW: 5000, immersionRatingW: 3000, compressorOn: true, immersionW: 0, now: 0 });

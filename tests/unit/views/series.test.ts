@@ -11,19 +11,24 @@ import { waterCp, waterDensity } from '../../../src/lib/thermal';
 const tank = { id: 't1', volumeL: 200, heightM: 1, targetC: 55, sensorCount: 3, positionsM: [1 / 6, 0.5, 5 / 6] };
 
 describe('series for the charts', () => {
-  it('turns readings into columns with state of charge and V40 per point, null where a sensor is missing', () => {
+  it('turns readings into columns with state of charge and V40 per point, estimated where a sensor is left out, null where withheld', () => {
     const rows = [
       rawToRow({ ts: new Date(0), layersCc: [1000, 4000, 5500], compressor: true, immersionW: 0, drawDlpm: 60, flowCc: 6000 }),
       rawToRow({ ts: new Date(60_000), layersCc: [1000, null, 5500], compressor: false, immersionW: 3000, drawDlpm: null, flowCc: null }),
+      rawToRow({ ts: new Date(120_000), layersCc: [1000, 4000, null], compressor: false, immersionW: 0, drawDlpm: null, flowCc: null }),
     ];
-    const s = toSeries(rows, tank, { from: new Date(0), to: new Date(120_000), resolution: 'raw' });
-    expect(s.layers).toEqual([[10, 10], [40, null], [55, 55]]);
+    const s = toSeries(rows, tank, { from: new Date(0), to: new Date(180_000), resolution: 'raw' });
+    expect(s.layers).toEqual([[10, 10, 10], [40, null, 40], [55, 55, null]]);
     // V40 (EN 16147): top third 55 °C → 66.67 L·45/30 = 100 L; the 40 °C layer adds 66.67 L.
     expect(s.v40L[0]).toBeCloseTo(166.7, 1);
-    expect(s.v40L[1]).toBeNull();
-    expect(s.compressor).toEqual([1, 0]);
-    expect(s.immersion).toEqual([0, 1]);
-    expect(s.drawLpm).toEqual([6, null]);
+    // Sensor 2 left out and estimated half-way by height, (10 + 55)/2 = 32.5 °C, below 40 °C: the top third only (common practice: linear by height).
+    expect(s.v40L[1]).toBeCloseTo(100, 1);
+    // The top sensor out: withheld, never a guess.
+    expect([s.v40L[2], s.soc[2]]).toEqual([null, null]);
+    expect(s.quality).toEqual({ status: 'estimated', leftOut: [2], reason: 'Estimated, sensor 2 left out (in 1 of 2 readings used).' });
+    expect(s.compressor).toEqual([1, 0, 0]);
+    expect(s.immersion).toEqual([0, 1, 0]);
+    expect(s.drawLpm).toEqual([6, null, null]);
     expect(columnAt(s, 0).map((c) => c.tempC)).toEqual([55, 40, 10]);
   });
   it('finds the nearest reading and the time each heatmap cell spans', () => {

@@ -4,15 +4,13 @@
 // it; blended with the energy core's prior exactly as learnDemand blends (2 weeks of weight).
 // Pure: no I/O.
 import { demandPrior, demandSeries, learnDemand, HOURS_PER_WEEK, type DemandModel } from '../../energy';
-import { mixedWaterLitres } from '../../thermal';
+import { tankFigures, type TankGeometry } from '../../thermal';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
 import { MAX_GAP_MS, MIN, clear, filledLayers, round1, sample, type Finding } from './common';
 
 const PRIOR_WEEKS = 2;
 const TIME_ZONE = 'Europe/London';
-/** EN 16147 reference cold water, °C (as the writer's V40). */
-const COLD_C = 10;
 
 export interface LowHotWaterState {
   /** Litres at 40 °C drawn and hours of readings, per local hour of the week. */
@@ -51,9 +49,9 @@ export function demandModel(s: LowHotWaterState, occupants: number): DemandModel
   return { timeZone: TIME_ZONE, prior, weeksObserved: [...s.hours], litres40ByHour: prior.map((p, h) => (PRIOR_WEEKS * p + s.litres[h]!) / (PRIOR_WEEKS + s.hours[h]!)) };
 }
 
-export function stepLowHotWater(s: LowHotWaterState, r: Reading, volumeL: number): void {
-  const layers = filledLayers(r.layersC);
-  s.v40L = layers ? mixedWaterLitres({ layersC: layers.map((t) => Math.min(100, Math.max(0, t))), volumeL, coldC: COLD_C, deliveryC: 40 }) : null;
+/** V40 now: the thermal core's figure (a doubted sensor estimated; withheld figures give no finding). */
+export function stepLowHotWater(s: LowHotWaterState, r: Reading, tank: TankGeometry): void {
+  s.v40L = tankFigures(r, tank).v40L;
   s.last = sample(r);
 }
 

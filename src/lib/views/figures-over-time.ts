@@ -1,0 +1,30 @@
+// Figures over a window of readings, for the charts and the analyses: each reading's column goes
+// through the thermal core's `tankFigures` (via `columnFigures`), with the stuck check stepped over
+// the readings in time order as the writer steps it for the latest state. So a chart, the
+// standing-loss fit and the legionella count leave out the same sensors the tank list does.
+import { figuresOverTime as coreFiguresOverTime, type TankFigures } from '../thermal';
+import type { WindowQuality } from './contracts';
+import { geometryOf, type TankShape } from './layers';
+
+/** Each row's figures (null for a row without layers), in the rows' order (oldest first): the thermal core's. */
+export function figuresOverTime(rows: readonly { t: number; layersC: readonly (number | null)[] }[], tank: TankShape & { sensorCount: number }): (TankFigures | null)[] {
+  return coreFiguresOverTime(rows, geometryOf(tank));
+}
+
+const count = (n: number) => n.toLocaleString('en-GB');
+
+/**
+ * One quality for a window: measured when no reading needed an estimate; estimated, naming every
+ * sensor left out somewhere and in how many readings; withheld when no reading could be used.
+ */
+export function windowQuality(figures: readonly (TankFigures | null)[]): WindowQuality {
+  const present = figures.filter((f): f is TankFigures => f !== null);
+  const used = present.filter((f) => f.quality.status !== 'withheld');
+  if (present.length > 0 && used.length === 0) return { status: 'withheld', leftOut: [...present.at(-1)!.quality.leftOut], reason: present.at(-1)!.quality.reason };
+  const estimated = used.filter((f) => f.quality.status === 'estimated');
+  if (estimated.length === 0) return { status: 'measured', leftOut: [], reason: null };
+  const leftOut = [...new Set(estimated.flatMap((f) => f.quality.leftOut))].sort((a, b) => a - b);
+  const names = leftOut.length === 1 ? `sensor ${leftOut[0]}` : `sensors ${leftOut.slice(0, -1).join(', ')} and ${leftOut.at(-1)}`;
+  const share = estimated.length === used.length ? 'in every reading used' : `in ${count(estimated.length)} of ${count(used.length)} readings used`;
+  return { status: 'estimated', leftOut, reason: `Estimated, ${names} left out (${share}).` };
+}
