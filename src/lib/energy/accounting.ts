@@ -14,7 +14,7 @@ import { storedEnergyKWh, waterCp, waterDensity } from '../thermal/index.js';
 import { EnergyInputError } from './errors.js';
 import { priceAt } from './tariff.js';
 import type { Tariffs } from './tariff.js';
-import { HALF_HOUR_MS, J_PER_KWH, kWhPerLitreAt40 } from './units.js';
+import { DEFAULT_COLD_C, HALF_HOUR_MS, J_PER_KWH, kWhPerLitreAt40 } from './units.js';
 import { epochMs, finite, nonNegative, positive } from './validate.js';
 
 /** One stored telemetry reading (one a minute), as the readings table holds it. */
@@ -88,7 +88,7 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
   const startMs = epochMs('options.startMs', options.startMs);
   const endMs = epochMs('options.endMs', options.endMs);
   if (endMs <= startMs) throw new EnergyInputError('options.endMs', 'options.endMs must be after options.startMs.');
-  const coldC = finite('options.coldC', options.coldC ?? 10, '°C');
+  const coldC = finite('options.coldC', options.coldC ?? DEFAULT_COLD_C, '°C');
   const maxGapMs = positive('options.maxGapMs', options.maxGapMs ?? 300_000, 'ms');
   const tailMs = nonNegative('options.hpTailMs', options.hpTailMs ?? 300_000, 'ms');
   const volumeL = positive('tank.volumeL', tank.volumeL, 'litres');

@@ -17,13 +17,11 @@ import { tappingProfile, waterCp, waterDensity } from '../thermal/index.js';
 import type { EnergyReading } from './accounting.js';
 import { EnergyInputError } from './errors.js';
 import { localHourOfWeek } from './local-time.js';
-import { J_PER_KWH, kWhPerLitreAt40 } from './units.js';
+import { DEFAULT_COLD_C, J_PER_KWH, kWhPerLitreAt40 } from './units.js';
 import { finite, nonNegative, positive, wholeIn } from './validate.js';
 
 /** Hours in a week. */
 export const HOURS_PER_WEEK = 168;
-/** Cold-water temperature of the EN 16147 reference cycle, °C. */
-const REFERENCE_COLD_C = 10;
 
 /** Expected demand of one home by local hour of week. */
 export interface DemandModel {
@@ -42,7 +40,7 @@ export function occupantScale(occupants: number): number {
 /** Prior demand of a home with `occupants` people, litres at 40 °C per local hour of week (168 values). */
 export function demandPrior(occupants: number): number[] {
   const scale = occupantScale(occupants);
-  const perLitre = kWhPerLitreAt40(REFERENCE_COLD_C);
+  const perLitre = kWhPerLitreAt40(DEFAULT_COLD_C);
   const day = new Array<number>(24).fill(0);
   for (const d of tappingProfile('M').draws) day[Math.floor(d.minuteOfDay / 60)]! += (d.energyKWh * scale) / perLitre;
   return Array.from({ length: HOURS_PER_WEEK }, (_, h) => day[h % 24]!);
@@ -64,7 +62,7 @@ export interface LearnDemandOptions {
  */
 export function learnDemand(readings: readonly EnergyReading[], options: LearnDemandOptions): DemandModel {
   const timeZone = options.timeZone ?? 'Europe/London';
-  const coldC = finite('options.coldC', options.coldC ?? 10, '°C');
+  const coldC = finite('options.coldC', options.coldC ?? DEFAULT_COLD_C, '°C');
   const w = nonNegative('options.priorWeeks', options.priorWeeks ?? 2, 'weeks');
   const maxGapMs = positive('options.maxGapMs', options.maxGapMs ?? 300_000, 'ms');
   const prior = demandPrior(options.occupants);

@@ -26,7 +26,7 @@
 import { MODEL_PROPERTY_C, createTank, mixedWaterLitres, stepTankInPlace, tankEnergyJ, tankNodeCount, waterCp, waterDensity } from '../thermal/index.js';
 import type { TankSpec, TankState } from '../thermal/index.js';
 import { capabilities } from '../heat-sources.js';
-import { J_PER_KWH, kWhPerLitreAt40 } from './units.js';
+import { J_PER_KWH, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
 
 /** A step's action: bit 2 heat pump, bit 1 immersion (0 none, 1 immersion, 2 heat pump, 3 both). */
 export type PlanAction = 0 | 1 | 2 | 3;
@@ -91,7 +91,7 @@ export function v40Curve(spec: TankSpec, coldC: number, topC: number): V40Curve 
   const e: number[] = [], v: number[] = [];
   const volumeL = spec.volumeL;
   for (let guard = 0; guard < 10_000; guard++) {
-    const litres = mixedWaterLitres({ layersC: state.nodesC, volumeL, coldC, deliveryC: 40 });
+    const litres = mixedWaterLitres({ layersC: state.nodesC, volumeL, coldC, deliveryC: V40_DELIVERY_C });
     e.push(Math.max(0, tankEnergyJ(spec, state, coldC) / J_PER_KWH));
     v.push(litres);
     if (litres <= 0) break;

@@ -22,6 +22,7 @@ import type { PlanAction } from './plan-model.js';
 import { commandSchedule } from './schedule.js';
 import type { CommandWindow } from './schedule.js';
 import { epochMs, finite, nonNegative, positive, wholeIn } from './validate.js';
+import { DEFAULT_COLD_C } from './units.js';
 
 /** Limits of the heat sources for planning. */
 export interface HeatSourceLimits {
@@ -137,7 +138,7 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   const demand = perStep('demandLitres40', input.demandLitres40, steps, (f, v) => nonNegative(f, v, 'litres at 40 °C'));
   const cop = perStep('cop', input.cop, steps, (f, v) => positive(f, v, 'heat over electricity'));
   const floor = nonNegative('comfortFloorL40', input.comfortFloorL40, 'litres at 40 °C');
-  const coldC = finite('coldC', input.coldC ?? 10, '°C');
+  const coldC = finite('coldC', input.coldC ?? DEFAULT_COLD_C, '°C');
   const limits = input.limits ?? {};
   // Only a heat pump is planned as the main source: a boiler's fuel is not the tariff's electricity.
   const hasHpSource = capabilities(spec.heatSource).heatPump;
