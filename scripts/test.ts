@@ -5,6 +5,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { processEnv, testConfig } from './lib/config';
+import { DEFAULT_TEST_PORT_BASE } from './lib/ports';
 import { prepare } from './lib/prepare';
 import { startService, stopServices } from './lib/processes';
 import { stopPostgres } from './lib/postgres';
@@ -18,7 +19,7 @@ async function main(): Promise<number> {
   const c = testConfig();
   // A run on another port block (beside the default one) builds into a folder of its own, so that
   // one run rebuilding never pulls the files from under another run's web server.
-  if (c.pgPort !== 55400 && !process.env.HEATLAYER_BUILD_DIR) process.env.HEATLAYER_BUILD_DIR = join(root, '.data', `build-${c.pgPort}`);
+  if (c.pgPort !== DEFAULT_TEST_PORT_BASE && !process.env.HEATLAYER_BUILD_DIR) process.env.HEATLAYER_BUILD_DIR = join(root, '.data', `build-${c.pgPort}`);
   rmSync(c.dataDir, { recursive: true, force: true });
   mkdirSync(c.dataDir, { recursive: true });
   const pgServer = await prepare(c, { throwaway: true });

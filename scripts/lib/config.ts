@@ -3,6 +3,7 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { testPortBase } from './ports';
 
 export interface RunConfig {
   host: string;
@@ -61,9 +62,9 @@ export function startConfig(): RunConfig {
   };
 }
 
-/** Test ports: a block starting at HEATLAYER_TEST_PORT_BASE (default 55400). */
+/** Test ports: a block starting at HEATLAYER_TEST_PORT_BASE (default 25400, below the ephemeral range; ./ports.ts). */
 export function testConfig(): RunConfig {
-  const base = num(process.env.HEATLAYER_TEST_PORT_BASE, 55400);
+  const base = testPortBase();
   const dataDir = join(root, '.data', `test-${base}`);
   return {
     host: '127.0.0.1',

@@ -1,13 +1,13 @@
 // What the fleet-scale benchmarks share: a throwaway, migrated PostgreSQL in the caller's test port
 // block, a company of `homes` invented homes in the demo's towns, and percentiles.
 import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/postgres';
+import { testPortBase } from '../../scripts/lib/ports';
 
 /** The p-th percentile (0–100) of `xs`, nearest rank. */
 export const pct = (xs: number[], p: number): number => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
 
-/** PostgreSQL port: `BENCH_PG_PORT`, else `offset` into `HEATLAYER_TEST_PORT_BASE`'s block (beside other test runs). */
-export const benchPort = (offset: number): number =>
-  Number(process.env.BENCH_PG_PORT ?? (process.env.HEATLAYER_TEST_PORT_BASE ? Number(process.env.HEATLAYER_TEST_PORT_BASE) + offset : 55700 + offset));
+/** PostgreSQL port: `BENCH_PG_PORT`, else `offset` into the test port block (scripts/lib/ports.ts), beside other test runs. */
+export const benchPort = (offset: number): number => Number(process.env.BENCH_PG_PORT ?? testPortBase() + offset);
 
 /**
  * Runs `body` against a fresh, migrated database on `port` (DATABASE_URL set for the app's modules),

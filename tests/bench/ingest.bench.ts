@@ -4,7 +4,7 @@
 //       latest state and events, vs. broker → one subscriber → JSON.parse → COPY in 1000s.
 //   (b) HTTP batch ingest, 1000 readings a request, vs. a raw COPY of the same rows.
 //   (c) p99 delay from publish to committed at 80 % of the rate measured in (a).
-// Ports: HEATLAYER_BENCH_PORT_BASE (default 55690) … +3.
+// Ports: HEATLAYER_BENCH_PORT_BASE … +3, by default offsets 80–83 of the test port block (scripts/lib/ports.ts).
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { availableParallelism, loadavg } from 'node:os';
@@ -15,13 +15,14 @@ import pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import { ensureBuild } from '../../scripts/lib/build';
 import { startPostgres, stopPostgres } from '../../scripts/lib/postgres';
+import { testPortBase } from '../../scripts/lib/ports';
 import { httpOk, waitFor } from '../../scripts/lib/processes';
 import { generateDeviceToken, hashDeviceToken, SERVICE_USERNAME, servicePassword } from '../../src/lib/telemetry/device-token';
 import type { IngestWorker as IngestWorkerType } from '../../src/lib/telemetry/ingest-worker.server';
 import { brokerAcceptsService } from '../../src/lib/telemetry/probes';
 import { topicFor } from '../../src/lib/telemetry/wire';
 
-const base = Number(process.env.HEATLAYER_BENCH_PORT_BASE ?? 55690);
+const base = Number(process.env.HEATLAYER_BENCH_PORT_BASE ?? testPortBase() + 80);
 const root = new URL('../..', import.meta.url).pathname;
 const PUBLISHERS = Number(process.env.BENCH_PUBLISHERS ?? 500);
 const MESSAGES_EACH = Number(process.env.BENCH_MESSAGES ?? 40);

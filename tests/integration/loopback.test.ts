@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { testPortBase } from '../../scripts/lib/ports';
 
 // Every server the product starts listens on loopback only. Read the kernel's socket tables
 // (/proc/net/tcp, tcp6: state 0A is LISTEN) for the ports of this test run's block.
@@ -23,7 +24,7 @@ const LOOPBACK_V6 = '00000000000000000000000001000000'; // ::1
 
 describe('network exposure', () => {
   it('listens on loopback only for every port the product uses', () => {
-    const base = Number(process.env.HEATLAYER_TEST_PORT_BASE ?? 55400);
+    const base = testPortBase();
     const ours = listeners().filter((l) => l.port >= base && l.port < base + 10);
     // PostgreSQL and the web server at least are up while the tests run.
     expect(ours.map((l) => l.port)).toEqual(expect.arrayContaining([base, base + 1]));

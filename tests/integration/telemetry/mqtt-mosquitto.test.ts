@@ -1,7 +1,7 @@
 // The same ingest contract against Debian's Mosquitto (its own password file and ACL standing in
 // for our broker's authentication), with the same ingest worker code run in this process.
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { chmodSync, chownSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { createConnection } from 'node:net';
 import { join } from 'node:path';
 import { getPool, closeDb } from '../../../src/db';
@@ -15,13 +15,23 @@ const SERVICE_PASSWORD = 'mosquitto-test-service-password';
 
 describeBrokerContract('Mosquitto', 160, async () => {
   const port = portInBlock(24);
-  const dir = join(process.env.HEATLAYER_DATA_DIR ?? '/tmp', `mosquitto-${port}`);
-  rmSync(dir, { recursive: true, force: true });
-  mkdirSync(dir, { recursive: true });
+  // Started as root, Mosquitto drops to its own user before it reads the password and ACL files, and
+  // that user may not reach into the checkout (a private folder): they go in a folder of its own
+  // under /tmp, owned by the broker's user and readable by it alone.
+  const dir = mkdtempSync(join('/tmp', `heatlayer-mosquitto-${port}-`));
+  const brokerUser = process.getuid?.() === 0
+    ? { uid: Number(execFileSync('id', ['-u', 'mosquitto'], { encoding: 'utf8' })), gid: Number(execFileSync('id', ['-g', 'mosquitto'], { encoding: 'utf8' })) }
+    : null;
+  const handToBroker = () => {
+    chmodSync(dir, 0o700);
+    for (const name of readdirSync(dir)) chmodSync(join(dir, name), 0o600);
+    if (brokerUser) for (const p of [dir, ...readdirSync(dir).map((n) => join(dir, n))]) chownSync(p, brokerUser.uid, brokerUser.gid);
+  };
   const passwd = join(dir, 'passwd');
   const addUser = (user: string, password: string) => {
     const r = spawnSync('mosquitto_passwd', ['-b', ...(spawnSync('test', ['-e', passwd]).status === 0 ? [] : ['-c']), passwd, user, password], { encoding: 'utf8' });
     if (r.status !== 0) throw new Error(`mosquitto_passwd failed: ${r.stderr}`);
+    handToBroker();
   };
   addUser(SERVICE_USERNAME, SERVICE_PASSWORD);
   // The equivalent of src/lib/telemetry/acl.ts for Mosquitto (%u is the username, i.e. the serial).
@@ -36,6 +46,7 @@ describeBrokerContract('Mosquitto', 160, async () => {
     'persistence false', 'max_inflight_messages 1000', 'max_queued_messages 100000', 'log_dest stdout', 'log_type error', 'log_type warning', '',
   ].join('\n'));
   writeConf();
+  handToBroker();
   let proc: ChildProcess | null = null;
   const run = async () => {
     proc = spawn(MOSQUITTO, ['-c', conf], { stdio: ['ignore', 'inherit', 'inherit'] });
@@ -68,6 +79,7 @@ describeBrokerContract('Mosquitto', 160, async () => {
       await worker.stop();
       await closeDb();
       proc?.kill('SIGTERM');
+      rmSync(dir, { recursive: true, force: true });
     },
   };
 });
