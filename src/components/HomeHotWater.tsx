@@ -76,7 +76,7 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
       <section aria-labelledby="now-title" className="card">
         <h1 id="now-title" className="text-base font-medium text-ink-soft">Warm water ready now</h1>
         {v40 === null ? (
-          <p className="mt-2 text-lg" data-testid="litres-withheld">{(t.figures && householdWords(t.figures.quality)) ?? 'We cannot tell right now: your cylinder has not sent any readings yet.'}</p>
+          <p className="mt-2 text-lg" data-testid="litres-unknown">{(t.figures && householdWords(t.figures.quality)) ?? 'We cannot tell right now: your cylinder has not sent any readings yet.'}</p>
         ) : (
           <>
             <p className="mt-1"><span className="figure text-6xl font-semibold tracking-tight" data-testid="litres-now">{Math.round(v40)}</span> <span className="text-2xl">litres</span></p>

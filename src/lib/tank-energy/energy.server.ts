@@ -60,7 +60,7 @@ export async function tankPlan(scope: Scope, tankId: string | undefined, body: P
   }
   // The column the figures use: a sensor left out is estimated; withheld figures give no plan.
   const now = tankFigures({ layersC: layers.map((c) => (c === null ? null : c / 100)) }, figureGeometry(tank), { stuck: stuckSensors(latest?.sensorCheck) });
-  if (!now.layersC) throw new HttpError(409, 'FiguresWithheld', `There is nothing to plan from: ${now.quality.reason}`, [{ field: 'layers', message: now.quality.reason ?? 'Figures withheld.' }]);
+  if (!now.layersC) throw new HttpError(409, 'FiguresWithheld', `Temperature sensors in the cylinder are not working, so there is nothing reliable to plan from. ${now.quality.reason}`, [{ field: 'layers', message: now.quality.reason ?? 'Figures withheld.' }]);
   const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
   if (source === 'none') throw new HttpError(409, 'NoTariff', 'Neither this home nor the company has a tariff: add one before planning.', [{ field: 'tariff', message: 'No tariff.' }]);
   const history = await listEnergyReadings(tank.id, new Date(nowMs - DEMAND_HISTORY_DAYS * 86_400_000), new Date(nowMs));

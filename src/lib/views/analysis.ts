@@ -80,5 +80,7 @@ export function analyseTank(measured: readonly SeriesRow[], tank: TankShape & { 
     const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC, holdMin, heightsM: weights });
     legionella = { thresholdC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
   }
-  return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella, quality: windowQuality(figures) };
+  const quality = windowQuality(figures);
+  if (quality.status === 'withheld') note = `Not fitted: ${quality.reason}`;
+  return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella, quality };
 }
