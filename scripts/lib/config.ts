@@ -99,5 +99,9 @@ export function processEnv(c: RunConfig, pgUrl: string, mode: 'development' | 'p
     SIMULATOR_TANKS: String(c.simulatorTanks),
     HEATLAYER_DATA_DIR: c.dataDir,
     DEVICE_TOKEN_SEED: c.deviceTokenSeed,
+    // The pinned AWS SDK supports Node 20; at start it warns that its releases after January 2027
+    // will need Node 22. Its documented switch (aws/aws-sdk-js-v3 issue #7983) keeps that notice out
+    // of every log line of ours; moving to Node 22 is in the README.
+    AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
   };
 }
