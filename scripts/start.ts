@@ -2,6 +2,7 @@
 // Ctrl-C stops all of it, PostgreSQL included; the data stays for the next start.
 import { startConfig, processEnv } from './lib/config';
 import { prepare } from './lib/prepare';
+import { storeDemoDocuments } from './seed';
 import { startService, stopServices } from './lib/processes';
 import { productServices } from './lib/services';
 import { stopPostgres } from './lib/postgres';
@@ -31,6 +32,9 @@ async function main(): Promise<void> {
       void shutdown(1);
     });
   }
+  // The demo's commissioning documents, once object storage is up (scripts/seed.ts; only what is
+  // missing). In the background: the product is usable meanwhile, the records' rows are already there.
+  storeDemoDocuments().catch((err) => console.error('[seed] demo documents not stored:', err instanceof Error ? err.message : err));
 
   const url = `http://localhost:${c.webPort}`;
   console.log(`\nHeatlayer is running at ${url}\n`);

@@ -7,6 +7,7 @@ import { join } from 'node:path';
 import { processEnv, testConfig } from './lib/config';
 import { DEFAULT_TEST_PORT_BASE } from './lib/ports';
 import { prepare } from './lib/prepare';
+import { storeDemoDocuments } from './seed';
 import { startService, stopServices } from './lib/processes';
 import { stopPostgres } from './lib/postgres';
 import { testServices } from './lib/services';
@@ -27,6 +28,8 @@ async function main(): Promise<number> {
   Object.assign(process.env, env);
   try {
     for (const spec of testServices(c)) await startService(spec);
+    // The demo's commissioning documents, once object storage is up (scripts/seed.ts).
+    await storeDemoDocuments();
     const report = join(c.dataDir, 'vitest.json');
     const args = ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...process.argv.slice(2)];
     const r = spawnSync('npx', args, {

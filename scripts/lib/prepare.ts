@@ -8,6 +8,8 @@ export async function prepare(c: RunConfig, opts: { throwaway: boolean }): Promi
   process.env.DATABASE_URL = server.url;
   process.env.DEMO_PASSWORD = c.demoPassword;
   process.env.DEVICE_TOKEN_SEED = c.deviceTokenSeed;
+  // Read with the rest of the environment at the seed: the demo's documents go to this fake S3 later (scripts/seed.ts).
+  process.env.S3_PORT = String(c.s3Port);
   // Imported late: the database client reads DATABASE_URL when first used.
   const { runMigrations } = await import('../migrate');
   const { seedIfEmpty } = await import('../seed');

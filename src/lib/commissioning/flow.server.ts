@@ -19,11 +19,10 @@ import { CREDENTIALS_ROTATED_TOPIC, topicFor } from '../telemetry/wire';
 import { amendableFields, amendedAnswers, fieldValue, type AmendableFieldId } from './amendments';
 import { handoverMail } from './handover-mail';
 import { hasHeatPump } from '../heat-sources';
-import { recordView, type SignedRecord } from './record';
+import { recordPdfKey, recordView, thermistorSnapshot, type SignedRecord } from './record';
 import {
   registrationSteps, stepIds, stepSchemas, validateAnswers, type CommissioningAnswers, type CylinderStep, type HeatSourceStep, type StepId,
 } from './steps';
-import { thermistorWorking } from './thermistor';
 
 const invalid = (problems: { field: string; message: string }[], message = 'Some answers need attention; see the fields.') =>
   new HttpError(422, 'InvalidAnswers', message, problems);
@@ -101,7 +100,6 @@ export async function connectionState(viewer: Viewer, id: string) {
   return { registered: true as const, tankId: row.tankId, received: !!t, telemetry: t ? { ...t, ts: t.ts.toISOString() } : null };
 }
 
-const pdfKeyFor = (row: Commissioning) => `${row.companyId}/commissioning/${row.id}/record.pdf`;
 
 /**
  * Signs the record off: every step valid, first telemetry received. Locks it in one
@@ -119,13 +117,7 @@ export async function signOff(viewer: Viewer, id: string) {
     if (!row.tankId) throw new HttpError(422, 'NotRegistered', 'Register the cylinder and complete the connection check before signing off.', [{ field: 'connection', message: 'Not registered.' }]);
     const t = await latestTelemetry(row.tankId);
     if (!t) throw new HttpError(422, 'NoTelemetryYet', 'No telemetry has arrived from this cylinder yet. Check its controller’s connection and device token, then sign off once its layers show.', [{ field: 'connection', message: 'No telemetry yet.' }]);
-    const hs = answers.heat_source;
-    const thermistor = hasHeatPump(hs.heatSource)
-      ? (() => {
-        const w = thermistorWorking({ sensor: { r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK! }, callC: hs.callC!, satisfiedC: hs.satisfiedC! });
-        return { heatPumpName: hs.heatPumpName ?? null, r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK!, callC: hs.callC!, satisfiedC: hs.satisfiedC!, callOhm: w.lines[0].ohm, satisfiedOhm: w.lines[1].ohm };
-      })()
-      : null;
+    const thermistor = thermistorSnapshot(answers.heat_source);
     const home = await getHomeInScope(scopeOf(viewer), row.homeId!);
     const record: SignedRecord = {
       version: 1, recordId: row.id, companyName: viewer.companyName, homeReference: home?.reference ?? '', serial: answers.cylinder.serial,
@@ -144,7 +136,7 @@ export async function signOff(viewer: Viewer, id: string) {
 async function finishHandover(viewer: Viewer, row: Commissioning): Promise<void> {
   const record = row.record as unknown as SignedRecord;
   const pdf = Buffer.from(await commissioningPdf(recordView(record)));
-  const key = pdfKeyFor(row);
+  const key = recordPdfKey(row.companyId, row.id);
   await putObject(key, pdf, 'application/pdf');
   await setRecordDocument(row.id, key);
   const to = record.answers.signoff.householderEmail;

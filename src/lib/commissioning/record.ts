@@ -2,9 +2,9 @@
 // in labelled sections for the PDF and the record page. Pure.
 import { ALL_CAUTIONS } from './cautions';
 import { hasHeatPump, heatSourceDescriptions } from '../heat-sources';
-import { formatOhm } from './thermistor';
+import { formatOhm, thermistorWorking } from './thermistor';
 import {
-  exchangerLabels, safetyItems, stepTitles, type CommissioningAnswers,
+  exchangerLabels, safetyItems, stepTitles, type CommissioningAnswers, type HeatSourceStep,
 } from './steps';
 
 export interface SignedRecord {
@@ -23,14 +23,27 @@ export interface SignedRecord {
   attachments: number;
 }
 
+/** Where a signed record's PDF is stored (object key, under the company's prefix). */
+export const recordPdfKey = (companyId: string, recordId: string): string => `${companyId}/commissioning/${recordId}/record.pdf`;
+
+/** The resistances to set on the controller, where a heat pump reads the cylinder's sensor (null otherwise). */
+export function thermistorSnapshot(hs: HeatSourceStep): SignedRecord['thermistor'] {
+  if (!hasHeatPump(hs.heatSource)) return null;
+  const w = thermistorWorking({ sensor: { r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK! }, callC: hs.callC!, satisfiedC: hs.satisfiedC! });
+  return { heatPumpName: hs.heatPumpName ?? null, r25Ohm: hs.ntcR25Ohm!, betaK: hs.ntcBetaK!, callC: hs.callC!, satisfiedC: hs.satisfiedC!, callOhm: w.lines[0].ohm, satisfiedOhm: w.lines[1].ohm };
+}
+
 export interface RecordSection { title: string; rows: [string, string][]; notes?: string[] }
 export interface RecordView {
   recordId: string; companyName: string; serial: string; signedAt: string; signedAtText: string;
   sections: RecordSection[]; cautions: string[];
 }
 
-const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', timeZone: 'UTC', timeZoneName: 'short' });
-const kw = (w: number) => `${(w / 1000).toLocaleString('en-GB', { maximumFractionDigits: 1 })} kW`;
+// Formatters made once: building one per call is most of the time a record's view takes.
+const whenFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', timeZone: 'UTC', timeZoneName: 'short' });
+const kwFormat = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
+const when = (iso: string) => whenFormat.format(new Date(iso));
+const kw = (w: number) => `${kwFormat.format(w / 1000)} kW`;
 const controlLabels = { none: 'None wired in', programmer: 'External programmer', thermostat: 'External thermostat', both: 'External programmer and thermostat' } as const;
 
 export function recordView(r: SignedRecord, amendments: readonly { field: string; newValue: unknown; reason: string; userEmail: string | null; createdAt: Date | string }[] = []): RecordView {

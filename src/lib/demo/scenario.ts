@@ -1,4 +1,4 @@
-import type { HeatSource } from '../../db/schema/homes';
+import { capabilities, hasHeatPump, type HeatSource } from '../heat-sources';
 import { pick, seededRandom } from './random';
 
 /**
@@ -42,6 +42,8 @@ export interface DemoTank {
   occupants: number;
   hasSolar: boolean;
   contactName: string;
+  /** The householder's address for the record and handover (example.com). */
+  contactEmail: string;
   serial: string;
   model: string;
   volumeL: number;
@@ -59,6 +61,21 @@ export interface DemoTank {
   commissionedDaysAgo: number;
   /** Days ago of each annual inspection since (oldest first); a few tanks have missed their latest. */
   inspectionsDaysAgo: number[];
+  /** Whether the latest annual inspection was missed, so the tank is overdue. */
+  inspectionMissed: boolean;
+  /** The signed commissioning record made on the day (null: installed before the company kept records here). */
+  commissioning: DemoCommissioning | null;
+}
+
+/** What the engineer recorded at commissioning beyond the tank's specification. */
+export interface DemoCommissioning {
+  /** Photos attached before sign-off: the data plate, and for some the finished installation. */
+  photos: ('data_plate' | 'installation')[];
+  externalControl: 'none' | 'programmer';
+  /** The heat pump's name and its hot-water sensor input (heat pumps only). */
+  heatPump: { name: string; ntcR25Ohm: number; ntcBetaK: number } | null;
+  /** The installer's invented registration number. */
+  registrationNumber: string;
 }
 
 const streets = ['Mill Lane', 'Church Row', 'Heron Close', 'Quarry Road', 'Orchard Way', 'Station Street', 'Beck Side', 'Willow Drive', 'Tanner Walk', 'Marsh Road'];
@@ -79,17 +96,20 @@ export function demoTanks(): DemoTank[] {
       const cyl = pick(rand, cylinderModels);
       const r = rand();
       const heatSource: HeatSource = r < 0.68 ? 'hp_plate' : r < 0.9 ? 'hp_coil' : 'immersion_only';
-      const hpOutputW = heatSource === 'immersion_only' ? 0 : pick(rand, [5000, 6000, 7000, 8000]);
+      const hpOutputW = hasHeatPump(heatSource) ? pick(rand, [5000, 6000, 7000, 8000]) : 0;
       const num = String(i + 1).padStart(4, '0');
+      // Drawn in this order (the sequence fixes every demo value, serials included).
+      const addressLine = `${1 + Math.floor(rand() * 120)} ${pick(rand, streets)}`;
+      const town = pick(rand, company.towns);
+      const postcode = `WM${1 + Math.floor(rand() * 9)} ${Math.floor(rand() * 9)}${String.fromCharCode(65 + Math.floor(rand() * 26))}${String.fromCharCode(65 + Math.floor(rand() * 26))}`;
+      const occupants = 1 + Math.floor(rand() * 6);
+      const hasSolar = rand() < 0.33;
+      const contactName = `${pick(rand, firstNames)} ${pick(rand, lastNames)}`;
       out.push({
         companySlug: company.slug,
         homeRef: `${company.refPrefix}-${num}`,
-        addressLine: `${1 + Math.floor(rand() * 120)} ${pick(rand, streets)}`,
-        town: pick(rand, company.towns),
-        postcode: `WM${1 + Math.floor(rand() * 9)} ${Math.floor(rand() * 9)}${String.fromCharCode(65 + Math.floor(rand() * 26))}${String.fromCharCode(65 + Math.floor(rand() * 26))}`,
-        occupants: 1 + Math.floor(rand() * 6),
-        hasSolar: rand() < 0.33,
-        contactName: `${pick(rand, firstNames)} ${pick(rand, lastNames)}`,
+        addressLine, town, postcode, occupants, hasSolar, contactName,
+        contactEmail: `${contactName.toLowerCase().replace(/\s+/g, '.')}.${company.refPrefix.toLowerCase()}${num}@example.com`,
         serial: `${company.serialPrefix}${cyl.model.slice(0, 4)}-${String(100000 + i * 37 + Math.floor(rand() * 30)).padStart(6, '0')}`,
         model: cyl.model,
         volumeL: cyl.volumeL,
@@ -99,25 +119,50 @@ export function demoTanks(): DemoTank[] {
         heatSource,
         hpOutputW,
         immersionW: 3000,
-        targetC: heatSource === 'immersion_only' ? 60 : pick(rand, [50, 52, 55, 55, 60]),
+        targetC: capabilities(heatSource).immersion === 'only' ? 60 : pick(rand, [50, 52, 55, 55, 60]),
         hysteresisK: 5,
         tariff: rand() < 0.45 ? 'time_of_use' : 'flat',
         faults: company.slug === 'kestrel-vale' ? (defaultFaults[i] ?? []) : [],
         ...serviceHistory(i),
+        commissioning: commissioningFacts(company, i, heatSource),
       });
     }
   }
   return out;
 }
 
-/** Commissioning age and annual inspections for demo tank `i`: derived from the index alone. */
-function serviceHistory(i: number): { commissionedDaysAgo: number; inspectionsDaysAgo: number[] } {
+/**
+ * Commissioning age and annual inspections for demo tank `i`, derived from the index alone. Each
+ * inspection falls a few days before its anniversary (1 to 10; at the latest today), so a tank that kept its visits is
+ * never overdue; a few missed their latest, and are overdue by days to weeks.
+ */
+function serviceHistory(i: number): { commissionedDaysAgo: number; inspectionsDaysAgo: number[]; inspectionMissed: boolean } {
   const commissionedDaysAgo = 20 + ((i * 97) % 1100);
+  const early = 1 + ((i * 7) % 10);
   const inspectionsDaysAgo: number[] = [];
-  for (let k = 1; k * 365 < commissionedDaysAgo; k++) inspectionsDaysAgo.push(commissionedDaysAgo - k * 365 + ((i * 7) % 11) - 5);
-  // About one tank in seventeen has missed its latest inspection (overdue in the demo).
-  if (i % 17 === 5 && inspectionsDaysAgo.length > 0) inspectionsDaysAgo.pop();
-  return { commissionedDaysAgo, inspectionsDaysAgo: inspectionsDaysAgo.filter((d) => d > 0) };
+  for (let k = 1; commissionedDaysAgo - k * 365 + early >= 0; k++) inspectionsDaysAgo.push(commissionedDaysAgo - k * 365 + early);
+  // A few tanks missed the one whose anniversary passed 3 to 75 days ago: overdue by days to weeks.
+  const lateDays = commissionedDaysAgo - inspectionsDaysAgo.length * 365;
+  const inspectionMissed = i % 5 === 0 && inspectionsDaysAgo.length > 0 && lateDays >= 3 && lateDays <= 75;
+  if (inspectionMissed) inspectionsDaysAgo.pop();
+  return { commissionedDaysAgo, inspectionsDaysAgo, inspectionMissed };
+}
+
+/** Invented heat-pump names and the sensor inputs' NTC curves (10 kΩ and 5 kΩ at 25 °C are usual; demo values). */
+const heatPumpNames = ['Air-to-water heat pump (demo)', 'Monobloc heat pump (demo)', 'Split heat pump (demo)'];
+const sensorInputs = [{ ntcR25Ohm: 10_000, ntcBetaK: 3977 }, { ntcR25Ohm: 5000, ntcBetaK: 3470 }];
+
+/** The commissioning record of demo tank `i`: seven in eight have one, from the index alone. */
+function commissioningFacts(company: DemoCompany, i: number, heatSource: HeatSource): DemoCommissioning | null {
+  if (i % 8 === 3) return null;
+  return {
+    photos: i % 3 === 0 ? ['data_plate'] : ['data_plate', 'installation'],
+    externalControl: i % 4 === 1 ? 'programmer' : 'none',
+    heatPump: hasHeatPump(heatSource)
+      ? { name: heatPumpNames[i % heatPumpNames.length]!, ...sensorInputs[i % sensorInputs.length]! }
+      : null,
+    registrationNumber: `${company.refPrefix}-INST-${String(4000 + (i % 6) * 17).padStart(5, '0')}`,
+  };
 }
 
 export const demoRoles = ['admin', 'operator', 'engineer', 'householder'] as const;

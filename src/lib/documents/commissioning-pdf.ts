@@ -100,5 +100,6 @@ export async function commissioningPdf(view: RecordView): Promise<Uint8Array> {
 
   w.heading('Safety');
   for (const caution of view.cautions) w.para(caution, { size: 9 });
-  return doc.save();
+  // A plain cross-reference table (no object streams): readable by older viewers, and quicker to write.
+  return doc.save({ useObjectStreams: false });
 }
