@@ -2,6 +2,7 @@
 // sensor as null), a sensor stuck while its neighbours move, or a lower sensor warmer than the one
 // above it by more than buoyant mixing allows (swapped or misplaced sensors). Each check has its
 // own persistence so that a single odd reading raises nothing. Pure: no I/O.
+import { stepStuck } from '../../thermal';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
 import { MAX_GAP_MS, MIN, clear, fmtTime, round1, sample, type Finding } from './common';
@@ -45,32 +46,10 @@ export function stepSensor(s: SensorState, r: Reading, th: Thresholds): void {
     const inverted = below != null && above != null && below - above > th.sensorInversionK;
     s.inversionSince[i] = inverted ? (s.inversionSince[i] ?? r.ts) : null;
   }
-  // Stuck: tumbling windows; a sensor is judged only when a neighbour moved enough to tell.
-  if (!s.window) s.window = { start: r.ts, min: L.map((v) => v ?? null), max: L.map((v) => v ?? null) };
-  else {
-    for (let i = 0; i < n; i++) {
-      const v = L[i];
-      if (v === null || v === undefined) continue;
-      s.window.min[i] = s.window.min[i] === null ? v : Math.min(s.window.min[i]!, v);
-      s.window.max[i] = s.window.max[i] === null ? v : Math.max(s.window.max[i]!, v);
-    }
-    if (r.ts - s.window.start >= th.sensorStuckWindowMin * MIN) {
-      const range = s.window.min.map((lo, i) => (lo === null || s.window!.max[i] === null ? null : s.window!.max[i]! - lo));
-      for (let i = 0; i < n; i++) {
-        const own = range[i];
-        const neighbour = Math.max(range[i - 1] ?? 0, range[i + 1] ?? 0);
-        if (own === null || own === undefined) continue;
-        if (neighbour >= th.sensorNeighbourMoveK) {
-          s.stuck[i] = own <= th.sensorStuckToleranceK;
-          s.stuckDetail[i] = s.stuck[i] ? { rangeK: round1(own * 100) / 100, neighbourK: round1(neighbour), at: r.ts } : null;
-        } else if (own > th.sensorStuckToleranceK) {
-          s.stuck[i] = false; // it moved: not stuck, whatever the neighbours did
-          s.stuckDetail[i] = null;
-        }
-      }
-      s.window = null;
-    }
-  }
+  // Stuck: the thermal core's check (the figures use it too), with this company's limits.
+  stepStuck(s, r.ts, L, {
+    windowMin: th.sensorStuckWindowMin, toleranceK: th.sensorStuckToleranceK, neighbourMoveK: th.sensorNeighbourMoveK, maxGapMs: MAX_GAP_MS,
+  });
   s.prevTs = r.ts;
   s.last = sample(r);
 }
