@@ -1,6 +1,10 @@
 // The fleet: every simulated tank connected as its own MQTT client; the last days backfilled
 // through the batch path at first start (progress printed), then live, one reading a simulated
 // minute each. Tank states are saved so a restart carries on where it stopped.
+//
+// Each tank runs alone: the clock's tick steps every tank and hands each its reading without
+// waiting for any send, so a tank that cannot send (a rotated token, a lost connection) keeps its
+// readings in its outbox and says so once, while the others carry on.
 import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { dirname } from 'node:path';
 import type { DemoTank } from '../src/lib/demo/scenario';
@@ -23,6 +27,8 @@ export interface FleetOptions {
   /** Where tank states are kept between runs. */
   stateFile: string | null;
   log: (line: string) => void;
+  /** How long one publish may wait for its acknowledgement (default 10 s). */
+  sendTimeoutMs?: number;
 }
 
 interface SavedState { savedAt: number; lastTs: number; tanks: Record<string, SimTankSnapshot> }
@@ -58,12 +64,14 @@ export class Fleet {
 
   constructor(private readonly o: FleetOptions) {
     this.simNow = floorMinute(Date.now());
-    this.devices = o.tanks.map((t) => new SimDevice(new SimTank(t), { mqttUrl: o.mqttUrl, token: demoDeviceToken(o.tokenKey, t.serial), now: () => this.simNow, log: o.log }));
+    this.devices = o.tanks.map((t) => new SimDevice(new SimTank(t), { mqttUrl: o.mqttUrl, token: demoDeviceToken(o.tokenKey, t.serial), now: () => this.simNow, log: o.log, sendTimeoutMs: o.sendTimeoutMs }));
   }
 
+  /** Connects every tank; one that cannot connect has said why and keeps trying on its own. */
   async connect(): Promise<void> {
     await pool(this.devices, 32, (d) => d.connect());
-    this.o.log(`[simulator] ${this.devices.length} tanks connected to ${this.o.mqttUrl}`);
+    const failing = this.devices.filter((d) => d.trouble.failing).length;
+    this.o.log(`[simulator] ${this.devices.length - failing} of ${this.devices.length} tanks connected to ${this.o.mqttUrl}`);
   }
 
   /**
@@ -97,6 +105,7 @@ export class Fleet {
     const started = Date.now();
     let sent = 0;
     let lastReport = 0;
+    const refused = new Set<SimDevice>();
     const report = (force = false) => {
       const elapsed = (Date.now() - started) / 1000;
       if (!force && Date.now() - lastReport < 5000) return;
@@ -113,7 +122,10 @@ export class Fleet {
       await pool(this.devices, url ? 4 : 16, async (d) => {
         const readings: Reading[] = [];
         for (let t = dayStart; t < dayEnd; t += MIN) readings.push(d.tank.step(t));
-        await (url ? d.postBatch(url, readings) : d.sendBatch(readings));
+        if (url && !refused.has(d)) {
+          // A tank the server refuses (e.g. its token was rotated) is left out; the rest go on.
+          await d.postBatch(url, readings).catch((err) => { refused.add(d); d.trouble.fail(err instanceof Error ? err.message : String(err)); });
+        } else if (!url) await d.sendBatch(readings);
         sent += readings.length;
         report();
       });
@@ -125,35 +137,35 @@ export class Fleet {
     return now;
   }
 
-  /** One simulated minute for every tank; readings go out live (or into the outbox while offline). */
-  async tick(): Promise<void> {
+  /**
+   * One simulated minute for every tank: each steps its model now, in clock order, and sends its
+   * reading on its own (a send that is slow or fails holds only that tank; readings it cannot send
+   * wait in its outbox). Nothing here waits for the network.
+   */
+  tick(): void {
     this.simNow += MIN;
     const t = this.simNow;
     const stamp = this.o.speed === 1 ? t : Date.now();
-    await pool(this.devices, 64, async (d) => {
+    for (const d of this.devices) {
       // network_outage: off the network for 30 simulated minutes twice a day, then the backlog.
       if (d.tank.faults.has('network_outage')) {
         const minuteOfDay = Math.floor((t % 86_400_000) / MIN);
         const out = (minuteOfDay >= 14 * 60 && minuteOfDay < 14 * 60 + 30) || (minuteOfDay >= 2 * 60 && minuteOfDay < 2 * 60 + 30);
         if (out && !d.isOffline) d.goOffline();
-        if (!out && d.isOffline) await d.goOnline();
+        if (!out && d.isOffline) void d.goOnline();
       }
       const r = d.tank.step(t);
-      await d.send({ ...r, ts: stamp });
-    });
+      void d.send({ ...r, ts: stamp });
+    }
   }
 
   live(): void {
     const periodMs = MIN / this.o.speed;
-    let running = false;
     let ticks = 0;
     this.timer = setInterval(() => {
-      if (running || this.stopped) return; // a slow tick is skipped rather than piled up
-      running = true;
-      this.tick()
-        .then(() => { if (++ticks % 5 === 0) saveState(this.o.stateFile, this.devices, this.simNow); })
-        .catch((err) => this.o.log(`[simulator] tick failed: ${err instanceof Error ? err.message : String(err)}`))
-        .finally(() => { running = false; });
+      if (this.stopped) return;
+      this.tick();
+      if (++ticks % 5 === 0) saveState(this.o.stateFile, this.devices, this.simNow);
     }, periodMs);
   }
 
