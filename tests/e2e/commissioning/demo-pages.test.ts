@@ -26,7 +26,10 @@ describe('the lived-in demo in Chromium', () => {
     const signed = page.locator('section', { hasText: 'Signed records' }).locator('tbody tr');
     const demoSigned = kestrel.filter((t) => t.commissioning).map((t) => t.serial);
     const listed = await signed.locator('td:first-child a').allTextContents();
-    expect(listed.filter((s) => demoSigned.includes(s.trim())).length).toBeGreaterThanOrEqual(150);
+    // The page lists the latest 200 records of every state; other tests in a full run add records of
+    // their own to this company, so the check asks for the demo's signed records to fill most of it.
+    expect(demoSigned.length).toBeGreaterThan(150);
+    expect(listed.filter((s) => demoSigned.includes(s.trim())).length).toBeGreaterThanOrEqual(100);
     await screenshot(page, 'demo-commissioning');
 
     // A demo record: its sections, its PDF link and its photos, loaded.
