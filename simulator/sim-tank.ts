@@ -202,6 +202,11 @@ export class SimTank {
     return this.boostUntil > 0;
   }
 
+  /** Whether the comfort floor called for heat in the last step (it may wait for the heat pump's start gap, or the element may answer it). */
+  get comfortCalling(): boolean {
+    return this.comfortOn;
+  }
+
   /** One minute ending at `t` (epoch ms): controller, household draw, physics, then the reading. */
   step(t: number): Reading {
     const dtS = 60;

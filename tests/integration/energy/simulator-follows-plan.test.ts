@@ -100,7 +100,10 @@ describe('the simulator follows a sent charge plan over a day', () => {
     // One simulated day, minute by minute, from where the tank is now.
     let hpInWindows = 0;
     let minV40 = Infinity;
-    const outside: { at: number; why: HeatReason | null; v40Before: number }[] = [];
+    const outside: { at: number; why: HeatReason | null }[] = [];
+    // Each time the comfort floor starts calling for heat, the litres the tank held just before.
+    const comfortOnsets: number[] = [];
+    let calling = false;
     const immersionWhy = new Set<HeatReason>();
     let v40 = mixedWaterLitres({ layersC: lastLayers, volumeL: tank.volumeL, coldC: 10, deliveryC: 40 });
     for (let i = 0; i < 1440; i++) {
@@ -112,8 +115,10 @@ describe('the simulator follows a sent charge plan over a day', () => {
         if (planned) {
           hpInWindows++;
           expect(['schedule', 'pasteurisation']).toContain(sim.lastHeat.heatPump);
-        } else outside.push({ at: now, why: sim.lastHeat.heatPump, v40Before: v40 });
+        } else outside.push({ at: now, why: sim.lastHeat.heatPump });
       }
+      if (sim.comfortCalling && !calling) comfortOnsets.push(v40);
+      calling = sim.comfortCalling;
       if (sim.lastHeat.immersion) immersionWhy.add(sim.lastHeat.immersion);
       v40 = mixedWaterLitres({ layersC: r.layersC as number[], volumeL: tank.volumeL, coldC: 10, deliveryC: 40 });
       minV40 = Math.min(minV40, v40);
@@ -123,8 +128,10 @@ describe('the simulator follows a sent charge plan over a day', () => {
     // Outside the windows only the controller's own rules run the heat pump: the comfort floor
     // (started only once the tank held less than the floor plus its margin) and pasteurisation.
     for (const o of outside) expect(['comfort', 'pasteurisation']).toContain(o.why);
-    const comfortStarts = outside.filter((o, k) => o.why === 'comfort' && (k === 0 || outside[k - 1]!.why !== 'comfort' || outside[k - 1]!.at !== o.at - MIN));
-    for (const s of comfortStarts) expect(s.v40Before).toBeLessThan(floor + COMFORT_START_MARGIN_L + 5); // 5 L: sensor noise
+    // The call, not the heat pump's start: the pump may wait out its start gap while the element
+    // answers the call and the store recovers a little.
+    if (outside.some((o) => o.why === 'comfort')) expect(comfortOnsets.length).toBeGreaterThan(0);
+    for (const v of comfortOnsets) expect(v).toBeLessThan(floor + COMFORT_START_MARGIN_L + 5); // 5 L: sensor noise
     // The element of a heat-pump cylinder never runs to a schedule: only for the house's peak hours, the floor or pasteurisation.
     for (const why of immersionWhy) expect(['space_heating', 'comfort', 'pasteurisation']).toContain(why);
     expect(minV40).toBeGreaterThanOrEqual(floor);
