@@ -4,7 +4,7 @@
 // values chosen to look like real installs; they are never check values.
 import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
-import { createTank, estimatedCop, mixedWaterLitres, sensorReadings, stepTankInPlace, type TankSpec, type TankState } from '../src/lib/thermal';
+import { createTank, estimatedCop, sensorReadings, stepTankInPlace, tankFigures, type TankSpec, type TankState } from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
 import { capabilities, hasMainSource } from '../src/lib/heat-sources';
 import { localMinuteOfDay, solarDiversion, type Diversion } from '../src/lib/energy';
@@ -192,7 +192,9 @@ export class SimTank {
    */
   private comfortCall(sensors: readonly number[], scheduled: boolean): boolean {
     if (this.windows.length === 0 || this.comfortFloorL40 === null || scheduled) return (this.comfortOn = false);
-    const v40 = mixedWaterLitres({ layersC: sensors, volumeL: this.spec.volumeL, coldC: 10, deliveryC: 40 });
+    // The controller judges its store as the platform does (the thermal core's figures, EN 16147's 10 °C and 40 °C).
+    const { volumeL, heightM, sensorCount } = this.spec;
+    const v40 = tankFigures({ layersC: sensors }, { volumeL, heightM, sensorCount, targetC: this.targetC }).v40L ?? 0;
     if (!this.comfortOn && v40 < this.comfortFloorL40 + COMFORT_START_MARGIN_L) this.comfortOn = true;
     else if (this.comfortOn && v40 >= this.comfortFloorL40 + COMFORT_STOP_MARGIN_L) this.comfortOn = false;
     return this.comfortOn;

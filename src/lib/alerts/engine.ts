@@ -5,7 +5,7 @@
 // rule needs from the past travels in EngineState. Pure: no I/O, no clock of its own.
 import type { Reading } from '../telemetry/wire';
 import type { HeatSource } from '../heat-sources';
-import type { TankGeometry } from '../thermal';
+import { columnMeanC, tankFigures, type TankGeometry } from '../thermal';
 import { ruleApplies } from './applicability';
 import type { Thresholds } from './thresholds';
 import { alertKinds, type AlertEvidence, type AlertKind } from './types';
@@ -127,14 +127,21 @@ export function evaluateReadings(
   const fresh = readings.filter((r) => s.lastTs === null || r.ts > s.lastTs).sort((a, b) => a.ts - b.ts);
   if (fresh.length === 0) return { state: s, transitions: [] };
 
-  learnFromBatch(s.lowHotWater, fresh, tank.occupants);
-  for (const r of fresh) {
+  // Each reading's figures once, from the thermal core (the sensors the stuck check holds stuck at
+  // the start of the batch left out), for every rule that reads the column.
+  const geometry = figureGeometryOf(tank);
+  const stuck = s.sensor.stuck.flatMap((x, i) => (x === true ? [i] : []));
+  const figures = fresh.map((r) => tankFigures(r, geometry, { stuck }));
+  const columns = figures.map((f) => f.layersC);
+  learnFromBatch(s.lowHotWater, fresh, columns, tank.occupants);
+  for (const [i, r] of fresh.entries()) {
+    const column = columns[i]!;
     stepShortCycle(s.shortCycle, r, th);
     stepSensor(s.sensor, r, th);
     const trusted = !sensorSuspect(s.sensor);
     stepLegionella(s.legionella, r, th);
-    stepLowHotWater(s.lowHotWater, r, figureGeometryOf(tank));
-    stepHeatLoss(s.heatLoss, r, tank.volumeL, tank.declaredLossW, th, trusted);
+    stepLowHotWater(s.lowHotWater, r, figures[i]!.v40L);
+    stepHeatLoss(s.heatLoss, r, column && columnMeanC(column, geometry), tank.volumeL, tank.declaredLossW, th);
     run.apply('short_cycling', shortCycleFinding(s.shortCycle, r.ts, th), r.ts);
     run.apply('sensor_fault', sensorFinding(s.sensor, r.ts, th), r.ts);
     // Figures from a column the sensor checks doubt are not evidence either way.
@@ -143,7 +150,7 @@ export function evaluateReadings(
     s.lastTs = r.ts;
   }
   const last = fresh[fresh.length - 1]!.ts;
-  accountBatch(s.immersion, fresh, { volumeL: tank.volumeL, uaWPerK: (tank.declaredLossW ?? DEFAULT_LOSS_W) / 45, ambientC: th.heatLossAmbientC }, th);
+  accountBatch(s.immersion, fresh, columns, { volumeL: tank.volumeL, uaWPerK: (tank.declaredLossW ?? DEFAULT_LOSS_W) / 45, ambientC: th.heatLossAmbientC }, th);
   run.apply('immersion_heavy', immersionFinding(s.immersion, last, th), last);
   run.apply('heat_loss', heatLossFinding(s.heatLoss, th), last);
   // Readings are arriving, so the tank is not offline (the clock resolves it once they have kept coming).

@@ -70,6 +70,16 @@ export function layerThicknesses(positionsM: readonly number[], heightM: number)
   });
 }
 
+/**
+ * Mean water temperature of a full column, °C, each layer weighted by the water it stands for
+ * (`layerThicknesses`): what a cooling curve follows, on the tank page and in the heat-loss rule alike.
+ */
+export function columnMeanC(layersC: readonly number[], geometry: Pick<TankGeometry, 'heightM' | 'sensorHeightsM'>): number {
+  const weights = layerThicknesses(sensorPositions(layersC.length, geometry.heightM, geometry.sensorHeightsM), geometry.heightM);
+  const total = weights.reduce((a, b) => a + b, 0);
+  return layersC.reduce((a, t, i) => a + t * weights[i]!, 0) / total;
+}
+
 /** The cold water a tank's figures count from, °C: the home's cold inlet, else EN 16147's. */
 export function coldWaterC(geometry: Pick<TankGeometry, 'coldInletC'>): number {
   return geometry.coldInletC ?? EN16147_COLD_C;

@@ -53,6 +53,7 @@ export {
   tankFigures,
   figuresOverTime,
   coldWaterC,
+  columnMeanC,
   sensorPositions,
   layerThicknesses,
   EN16147_COLD_C,

@@ -1,5 +1,5 @@
 // Standing loss from quiet periods and legionella exposure over a window, for the tank view.
-import { erpClass, legionellaExposure, standingLoss, ThermalInputError, type CoolingSample } from '../thermal';
+import { columnMeanC, erpClass, legionellaExposure, standingLoss, ThermalInputError, type CoolingSample } from '../thermal';
 import { defaultThresholds } from '../alerts/thresholds';
 import type { TankAnalysis } from './contracts';
 import { complete, layerThicknesses, type TankShape } from './layers';
@@ -13,12 +13,6 @@ import { figuresOverTime, windowQuality } from './figures-over-time';
 export const ASSUMED_AMBIENT_C = 20;
 /** Shortest quiet stretch worth fitting, hours (the thermal core's default is 4). */
 export const MIN_QUIET_H = 4;
-
-function meanTemp(layersC: readonly number[], weights: readonly number[] | undefined): number {
-  if (!weights) return layersC.reduce((a, b) => a + b, 0) / layersC.length;
-  const total = weights.reduce((a, b) => a + b, 0);
-  return layersC.reduce((a, t, i) => a + t * weights[i]!, 0) / total;
-}
 
 /** Stretches with no heating and no draw and every sensor reading, longest first. */
 export function quietPeriods(rows: readonly SeriesRow[], maxGapMs = 15 * 60_000): SeriesRow[][] {
@@ -56,7 +50,7 @@ export function analyseTank(measured: readonly SeriesRow[], tank: TankShape & { 
     if (hours < MIN_QUIET_H) break;
     // One sample every 5 minutes is plenty for a curve with a time constant of days.
     const samples: CoolingSample[] = [];
-    for (const r of period) if (samples.length === 0 || r.t - samples[samples.length - 1]!.t >= 5 * 60_000) samples.push({ t: r.t, meanC: meanTemp(r.layersC as number[], weights) });
+    for (const r of period) if (samples.length === 0 || r.t - samples[samples.length - 1]!.t >= 5 * 60_000) samples.push({ t: r.t, meanC: columnMeanC(r.layersC as number[], tank) });
     try {
       const fit = standingLoss(samples, { volumeL: tank.volumeL, ambientC: ASSUMED_AMBIENT_C, minHours: MIN_QUIET_H });
       standing = {

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type pg from 'pg';
 import { localMinuteOfDay } from '../../../src/lib/energy';
-import { mixedWaterLitres } from '../../../src/lib/thermal';
+import { tankFigures } from '../../../src/lib/thermal';
 import type { Reading } from '../../../src/lib/telemetry/wire';
 import { SimDevice } from '../../../simulator/device';
 import { COMFORT_START_MARGIN_L, SimTank, type HeatReason } from '../../../simulator/sim-tank';
@@ -105,7 +105,10 @@ describe('the simulator follows a sent charge plan over a day', () => {
     const comfortOnsets: number[] = [];
     let calling = false;
     const immersionWhy = new Set<HeatReason>();
-    let v40 = mixedWaterLitres({ layersC: lastLayers, volumeL: tank.volumeL, coldC: 10, deliveryC: 40 });
+    // V40 as every screen shows it: the thermal core's figures (EN 16147's 10 °C cold water and 40 °C delivery).
+    const geometry = { volumeL: tank.volumeL, heightM: sim.spec.heightM, sensorCount: sim.spec.sensorCount, targetC: sim.targetC };
+    const v40Of = (layersC: readonly (number | null)[]) => tankFigures({ layersC }, geometry).v40L ?? 0;
+    let v40 = v40Of(lastLayers);
     for (let i = 0; i < 1440; i++) {
       now += MIN;
       const r = sim.step(now);
@@ -120,7 +123,7 @@ describe('the simulator follows a sent charge plan over a day', () => {
       if (sim.comfortCalling && !calling) comfortOnsets.push(v40);
       calling = sim.comfortCalling;
       if (sim.lastHeat.immersion) immersionWhy.add(sim.lastHeat.immersion);
-      v40 = mixedWaterLitres({ layersC: r.layersC as number[], volumeL: tank.volumeL, coldC: 10, deliveryC: 40 });
+      v40 = v40Of(r.layersC);
       minV40 = Math.min(minV40, v40);
     }
 

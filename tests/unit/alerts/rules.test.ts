@@ -144,9 +144,9 @@ describe('heat loss', () => {
     const mc = 200 * 4180;
     for (let m = 0; m < 6 * 60; m++) {
       const excess = 40 * Math.exp((-ua * m * 60) / mc);
-      stepHeatLoss(s, r(startMin + m, [20 + excess, 20 + excess, 20 + excess, 20 + excess]), 200, 57, th, true);
+      stepHeatLoss(s, r(startMin + m, [20 + excess, 20 + excess, 20 + excess, 20 + excess]), 20 + excess, 200, 57, th);
     }
-    stepHeatLoss(s, r(startMin + 6 * 60, [40, 40, 40, 40], { compressor: true }), 200, 57, th, true);
+    stepHeatLoss(s, r(startMin + 6 * 60, [40, 40, 40, 40], { compressor: true }), 40, 200, 57, th);
   };
   it('raises after two cooling periods well above the declared loss, and not after one', () => {
     const s = initialHeatLoss();

@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
-  createTank, sensorReadings, stepTankInPlace, tankFigures, ThermalInputError,
+  columnMeanC, createTank, sensorReadings, stepTankInPlace, tankFigures, ThermalInputError,
   EN16147_COLD_C, EN16147_DELIVERY_C,
 } from '../../../src/lib/thermal/index.js';
 import type { TankGeometry, TankSpec } from '../../../src/lib/thermal/index.js';
@@ -123,5 +123,16 @@ describe('tankFigures', () => {
         expect(Math.abs(est.soc! - full.soc!)).toBeLessThanOrEqual(1 / p.n + 1e-9);
       },
     ), { numRuns: 200 });
+  });
+});
+
+describe('columnMeanC', () => {
+  it('weights each layer by the water it stands for', () => {
+    // Sensors at 0.1, 0.3 and 1.0 m in a 1.2 m column stand for 0–0.2, 0.2–0.65 and 0.65–1.2 m
+    // (half-way to each neighbour: the definition layerThicknesses uses; arithmetic, common practice).
+    const mean = columnMeanC([20, 40, 60], { heightM: 1.2, sensorHeightsM: [0.1, 0.3, 1.0] });
+    expect(mean).toBeCloseTo((20 * 0.2 + 40 * 0.45 + 60 * 0.55) / 1.2, 9);
+    // Evenly spaced sensors: the plain mean.
+    expect(columnMeanC([20, 40, 60], { heightM: 1.2, sensorHeightsM: null })).toBeCloseTo(40, 9);
   });
 });

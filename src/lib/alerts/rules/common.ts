@@ -13,20 +13,6 @@ export type Finding = { active: true; evidence: AlertEvidence; since?: number } 
 export const clear: Finding = { active: false };
 export const unknown: Finding = { active: null };
 
-/** Layers with missing sensors filled from their neighbours (linear), for figures over the whole column; null when none work. */
-export function filledLayers(layersC: readonly (number | null)[]): number[] | null {
-  const known: number[] = [];
-  for (let i = 0; i < layersC.length; i++) if (layersC[i] !== null && layersC[i] !== undefined) known.push(i);
-  if (known.length === 0) return null;
-  return layersC.map((t, i) => {
-    if (t !== null && t !== undefined) return t;
-    const below = [...known].reverse().find((k) => k < i);
-    const above = known.find((k) => k > i);
-    if (below !== undefined && above !== undefined) return layersC[below]! + ((layersC[above]! - layersC[below]!) * (i - below)) / (above - below);
-    return layersC[(below ?? above)!]!;
-  });
-}
-
 /** A reading as evidence: time, layers, and what was heating. */
 export const sample = (r: Reading): NonNullable<AlertEvidence['readings']>[number] => ({
   ts: r.ts, layersC: [...r.layersC], ...(r.compressor !== undefined ? { compressor: r.compressor } : {}), ...(r.immersionW !== undefined ? { immersionW: r.immersionW } : {}),

@@ -6,7 +6,7 @@ import { standingLoss } from '../../thermal';
 import { MIN_DRAW_LPM } from '../../telemetry/events';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
-import { HOUR, MAX_GAP_MS, MIN, clear, filledLayers, fmtTime, round1, unknown, type Finding } from './common';
+import { HOUR, MAX_GAP_MS, MIN, clear, fmtTime, round1, unknown, type Finding } from './common';
 
 /** The loop and the layers settle for a while after heating stops (common practice). */
 const SETTLE_MS = 20 * MIN;
@@ -37,17 +37,19 @@ function closePeriod(s: HeatLossState, volumeL: number, declaredW: number | null
   s.samples = [];
 }
 
-export function stepHeatLoss(s: HeatLossState, r: Reading, volumeL: number, declaredW: number | null, th: Thresholds, trusted: boolean): void {
-  const idle = trusted && r.compressor !== true && !((r.immersionW ?? 0) > 0) && (r.drawLpm ?? 0) < MIN_DRAW_LPM;
+/**
+ * One reading. `meanC`: the column's mean temperature from the tank's figures (`columnMeanC` of
+ * `tankFigures`' layers, a doubted sensor estimated by height; null when the figures are withheld:
+ * the period breaks there, since a cooling curve cannot span a column nobody can read).
+ */
+export function stepHeatLoss(s: HeatLossState, r: Reading, meanC: number | null, volumeL: number, declaredW: number | null, th: Thresholds): void {
+  const idle = meanC !== null && r.compressor !== true && !((r.immersionW ?? 0) > 0) && (r.drawLpm ?? 0) < MIN_DRAW_LPM;
   const gap = s.prevTs !== null && r.ts - s.prevTs > MAX_GAP_MS;
   if (!idle || gap) closePeriod(s, volumeL, declaredW, th);
   if (idle) {
     s.idleSince ??= r.ts;
-    const layers = filledLayers(r.layersC);
     const lastT = s.samples[s.samples.length - 1]?.t ?? -Infinity;
-    if (layers && r.ts - s.idleSince >= SETTLE_MS && r.ts - lastT >= SAMPLE_EVERY_MS) {
-      s.samples.push({ t: r.ts, meanC: layers.reduce((a, b) => a + b, 0) / layers.length });
-    }
+    if (meanC !== null && r.ts - s.idleSince >= SETTLE_MS && r.ts - lastT >= SAMPLE_EVERY_MS) s.samples.push({ t: r.ts, meanC });
     if (s.samples.length > 0 && r.ts - s.samples[0]!.t >= MAX_PERIOD_MS) closePeriod(s, volumeL, declaredW, th);
   }
   s.prevTs = r.ts;

@@ -7,7 +7,7 @@
 import { accountDay } from '../../energy';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
-import { DAY, MAX_GAP_MS, clear, filledLayers, round1, unknown, type Finding } from './common';
+import { DAY, MAX_GAP_MS, clear, round1, unknown, type Finding } from './common';
 
 /** Below this much heat in the window the share says nothing (a tank on holiday). Common practice. */
 const MIN_HEAT_KWH = 3;
@@ -21,11 +21,15 @@ export const initialImmersion = (): ImmersionState => ({ days: [], prev: null })
 
 export interface AccountingSpec { volumeL: number; uaWPerK: number; ambientC: number }
 
-export function accountBatch(s: ImmersionState, readings: readonly Reading[], tank: AccountingSpec, th: Thresholds): void {
+/**
+ * Adds a batch to the daily energy sums. `columns[i]`: reading i's layers from the tank's figures
+ * (a doubted sensor estimated by height; null when withheld, so the reading is skipped).
+ */
+export function accountBatch(s: ImmersionState, readings: readonly Reading[], columns: readonly (readonly number[] | null)[], tank: AccountingSpec, th: Thresholds): void {
   const rows: Row[] = [];
   if (s.prev && readings.length > 0 && readings[0]!.ts - s.prev.ts <= MAX_GAP_MS) rows.push(s.prev);
-  for (const r of readings) {
-    const layers = filledLayers(r.layersC);
+  for (const [i, r] of readings.entries()) {
+    const layers = columns[i];
     if (!layers) continue;
     const row: Row = { ts: r.ts, layersC: layers.map((t) => Math.min(100, Math.max(0, t))) };
     if (r.compressor !== undefined) row.compressor = r.compressor;

@@ -4,10 +4,9 @@
 // it; blended with the energy core's prior exactly as learnDemand blends (2 weeks of weight).
 // Pure: no I/O.
 import { demandPrior, demandSeries, learnDemand, HOURS_PER_WEEK, type DemandModel } from '../../energy';
-import { tankFigures, type TankGeometry } from '../../thermal';
 import type { Reading } from '../../telemetry/wire';
 import type { Thresholds } from '../thresholds';
-import { MAX_GAP_MS, MIN, clear, filledLayers, round1, sample, type Finding } from './common';
+import { MAX_GAP_MS, MIN, clear, round1, sample, type Finding } from './common';
 
 const PRIOR_WEEKS = 2;
 const TIME_ZONE = 'Europe/London';
@@ -24,13 +23,16 @@ export interface LowHotWaterState {
 
 export const initialLowHotWater = (): LowHotWaterState => ({ litres: new Array(HOURS_PER_WEEK).fill(0), hours: new Array(HOURS_PER_WEEK).fill(0), prev: null, v40L: null, expected: null, last: null });
 
-/** Adds a batch's draws to the demand sums (the energy core learns; we keep its sums). */
-export function learnFromBatch(s: LowHotWaterState, readings: readonly Reading[], occupants: number): void {
+/**
+ * Adds a batch's draws to the demand sums (the energy core learns; we keep its sums). `columns[i]`:
+ * reading i's layers from the tank's figures (null when withheld: the reading is skipped).
+ */
+export function learnFromBatch(s: LowHotWaterState, readings: readonly Reading[], columns: readonly (readonly number[] | null)[], occupants: number): void {
   const series: { ts: number; layersC: number[]; drawLpm?: number }[] = [];
   if (s.prev && readings.length > 0 && readings[0]!.ts - s.prev.ts <= MAX_GAP_MS) series.push(s.prev);
-  for (const r of readings) {
-    const layers = filledLayers(r.layersC);
-    if (layers) series.push({ ts: r.ts, layersC: layers, ...(r.drawLpm !== undefined ? { drawLpm: r.drawLpm } : {}) });
+  for (const [i, r] of readings.entries()) {
+    const layers = columns[i];
+    if (layers) series.push({ ts: r.ts, layersC: [...layers], ...(r.drawLpm !== undefined ? { drawLpm: r.drawLpm } : {}) });
   }
   if (series.length >= 2) {
     const m = learnDemand(series, { occupants, priorWeeks: 0, timeZone: TIME_ZONE });
@@ -49,9 +51,9 @@ export function demandModel(s: LowHotWaterState, occupants: number): DemandModel
   return { timeZone: TIME_ZONE, prior, weeksObserved: [...s.hours], litres40ByHour: prior.map((p, h) => (PRIOR_WEEKS * p + s.litres[h]!) / (PRIOR_WEEKS + s.hours[h]!)) };
 }
 
-/** V40 now: the thermal core's figure (a doubted sensor estimated; withheld figures give no finding). */
-export function stepLowHotWater(s: LowHotWaterState, r: Reading, tank: TankGeometry): void {
-  s.v40L = tankFigures(r, tank).v40L;
+/** V40 now: the tank's figure (a doubted sensor estimated; withheld figures, null, give no finding). */
+export function stepLowHotWater(s: LowHotWaterState, r: Reading, v40L: number | null): void {
+  s.v40L = v40L;
   s.last = sample(r);
 }
 
