@@ -61,6 +61,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/invitations/accept': { POST: 'public' },
   '/api/invitations/[id]': { DELETE: ['admin'] },
   '/api/members/[id]': { PATCH: ['admin'], DELETE: ['admin'] },
+  '/api/homes/[id]': { GET: staff, PATCH: ['admin', 'engineer'] },
   '/api/homes/[id]/invitations': { GET: staff, POST: staff },
   '/api/audit': { GET: ['admin'] },
   '/api/ingest': { POST: 'device' },

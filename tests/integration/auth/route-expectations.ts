@@ -60,6 +60,7 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/invitations/accept': { methods: { POST: { who: 'anyone' } } },
   '/api/invitations/[id]': { params: { id: 'invitation' }, methods: { DELETE: { who: admin, scope: 'company' } } },
   '/api/members/[id]': { params: { id: 'member' }, methods: { PATCH: { who: admin, scope: 'company' }, DELETE: { who: admin, scope: 'company' } } },
+  '/api/homes/[id]': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' }, PATCH: { who: ['admin', 'engineer'], scope: 'home' } } },
   '/api/homes/[id]/invitations': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' }, POST: { who: staff, scope: 'home' } } },
   '/api/audit': { methods: { GET: { who: admin } } },
   '/api/ingest': { methods: { POST: { who: 'device' } } },

@@ -66,6 +66,7 @@ function bodiesFor(pattern: string, method: Method): unknown[] {
     case 'PATCH /api/commissioning/[id]': return stepBodies;
     case 'POST /api/commissioning/[id]/amendments': return [{ field: 'signoff.notes', value: 'Checked again.', reason: 'Typing error' }, { field: 'target.targetC', value: 60, reason: 'Raised for legionella control' }];
     case 'POST /api/commissioning/heat-pump-models': return [{ name: 'Fuzz HP 5', outputW: 5000, ntcR25Ohm: 10000, ntcBetaK: 3977 }];
+    case 'PATCH /api/homes/[id]': return [{ coldInletC: 12 }, { coldInletC: null }];
     case 'POST /api/homes/[id]/invitations': return [{ email: 'fuzz-home@example.com', name: 'Pat Example' }];
     case 'POST /api/invitations': return [{ email: 'fuzz-staff@example.com', name: 'Sam Example', role: 'engineer' }];
     case 'POST /api/invitations/accept': return [{ token: 't'.repeat(40), name: 'Sam Example', password: 'a-long-enough-password' }];
