@@ -32,6 +32,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/dev/mail': { GET: ['admin'] },
   '/homes/[id]/householders': { GET: staff },
   '/homes/[id]/tariff': { GET: staff },
+  '/homes/[id]/cold-water': { GET: staff },
   // views: fleet triage, one tank in depth, hot water at home
   '/fleet': { GET: desk },
   '/fleet/energy': { GET: desk },

@@ -43,6 +43,7 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/dev/mail': { methods: { GET: { who: admin } } },
   '/homes/[id]/householders': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/homes/[id]/tariff': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' } } },
+  '/homes/[id]/cold-water': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/fleet': { methods: { GET: { who: desk } } },
   '/fleet/energy': { methods: { GET: { who: desk } } },
   '/tanks': { methods: { GET: { who: staff } } },
