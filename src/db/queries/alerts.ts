@@ -1,25 +1,13 @@
-// Alerts: evaluating a tank's new readings and the clock inside one transaction per tank (rule
-// state, alert rows and the point evaluated to commit together, so each reading is judged once),
-// the inbox's list and actions, thresholds, notification preferences and the notification log.
+// Alerts: thresholds, the inbox's list and actions, notification preferences and the notification
+// log. The rows the rules' evaluation reads and writes are in alert-evaluation.ts.
 import { sql, type SQL } from 'drizzle-orm';
 import { db } from '..';
 import type { Scope } from '../../lib/server/authz';
-import { evaluateClock, evaluateReadings, type EngineState, type TankFacts, type Transition } from '../../lib/alerts/engine';
 import { resolveThresholds, type ThresholdOverrides, type Thresholds } from '../../lib/alerts/thresholds';
 import type { AlertEvidence, AlertKind, AlertSeverity, AlertState } from '../../lib/alerts/types';
-import { fromStored } from '../../lib/telemetry/writer.server';
-import type { Reading } from '../../lib/telemetry/wire';
 import type { NotificationChannel } from '../schema/alerts';
-import type { HeatSource } from '../../lib/heat-sources';
 import { isUuid } from './scope';
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
-
-const DAY = 86_400_000;
-/** A tank the rules have never seen is evaluated from this far back at most (the longest rule window and a day). */
-const FIRST_LOOKBACK_MS = 8 * DAY;
-/** Readings read per round trip. */
-const CHUNK = 5000;
 
 // ---------------------------------------------------------------- thresholds (cached briefly: the worker reads them per batch)
 
@@ -45,132 +33,6 @@ export async function saveThresholdOverrides(companyId: string, overrides: Thres
     insert into alert_thresholds (company_id, settings, updated_at, updated_by) values (${companyId}, ${JSON.stringify(overrides)}::jsonb, now(), ${userId})
     on conflict (company_id) do update set settings = excluded.settings, updated_at = now(), updated_by = excluded.updated_by`);
   thresholdCache.delete(companyId);
-}
-
-// ---------------------------------------------------------------- evaluation
-
-type TankRow = {
-  id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: HeatSource; declared_loss_w: number | null; occupants: number | null;
-  height_m: number; sensor_heights_m: number[] | null; target_c: number; cold_inlet_c: number | null;
-  evaluated_ms: string | null; state: EngineState | null; latest_ms: string | null; seen_ms: string | null;
-};
-
-async function lockTank(tx: Tx, tankId: string): Promise<TankRow | null> {
-  await tx.execute(sql`insert into alert_tank_state (tank_id) select id from tanks where id = ${tankId} on conflict do nothing`);
-  const res = await tx.execute<TankRow>(sql`
-    select t.id, t.company_id, t.volume_l, t.sensor_count, t.heat_source, t.declared_loss_w, h.occupants,
-      t.height_m, t.sensor_heights_m, t.target_c, h.cold_inlet_c,
-      (extract(epoch from s.evaluated_to) * 1000)::int8 as evaluated_ms, s.state,
-      (extract(epoch from l.ts) * 1000)::int8 as latest_ms,
-      (extract(epoch from l.last_seen_at) * 1000)::int8 as seen_ms
-    from alert_tank_state s join tanks t on t.id = s.tank_id left join homes h on h.id = t.home_id
-    left join tank_latest_state l on l.tank_id = t.id
-    where s.tank_id = ${tankId} for update of s`);
-  return res.rows[0] ?? null;
-}
-
-const factsOf = (r: TankRow): TankFacts => ({
-  volumeL: r.volume_l, sensorCount: r.sensor_count, heatSource: r.heat_source,
-  declaredLossW: r.declared_loss_w, occupants: r.occupants ?? 2,
-  heightM: r.height_m, sensorHeightsM: r.sensor_heights_m, targetC: r.target_c, coldInletC: r.cold_inlet_c,
-});
-
-async function openKindsOf(tx: Tx, tankId: string): Promise<Set<AlertKind>> {
-  const res = await tx.execute<{ kind: AlertKind }>(sql`select kind from alerts where tank_id = ${tankId} and state <> 'resolved'`);
-  return new Set(res.rows.map((r) => r.kind));
-}
-
-type ReadingRow = { ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null; solar_surplus_w: number | null };
-
-async function readingsAfter(tx: Tx, tankId: string, afterMs: number, limit: number): Promise<Reading[]> {
-  const res = await tx.execute<ReadingRow>(sql`
-    select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w
-    from readings where tank_id = ${tankId} and ts > ${new Date(afterMs).toISOString()}::timestamptz order by ts limit ${limit}`);
-  return res.rows.map((x) => fromStored({
-    tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
-    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm, solarSurplusW: x.solar_surplus_w,
-  }));
-}
-
-export interface AppliedTransition { alertId: string; tankId: string; companyId: string; kind: AlertKind; type: Transition['type']; at: number }
-
-async function applyTransitions(tx: Tx, tank: TankRow, th: Thresholds, transitions: readonly Transition[]): Promise<AppliedTransition[]> {
-  const out: AppliedTransition[] = [];
-  for (const t of transitions) {
-    if (t.type === 'open') {
-      // The partial unique index keeps one unresolved alert per tank and kind, whatever races.
-      const res = await tx.execute<{ id: string }>(sql`
-        insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at)
-        values (${tank.company_id}, ${tank.id}, ${t.kind}, ${th.severity[t.kind]}, 'open', ${JSON.stringify(t.evidence)}::jsonb, ${new Date(t.at).toISOString()}::timestamptz)
-        on conflict (tank_id, kind) where state <> 'resolved' do nothing returning id`);
-      if (res.rows[0]) out.push({ alertId: res.rows[0].id, tankId: tank.id, companyId: tank.company_id, kind: t.kind, type: 'open', at: t.at });
-    } else {
-      const res = await tx.execute<{ id: string }>(sql`
-        update alerts set state = 'resolved', resolved_at = greatest(opened_at, ${new Date(t.at).toISOString()}::timestamptz), updated_at = now()
-        where tank_id = ${tank.id} and kind = ${t.kind} and state <> 'resolved' returning id`);
-      for (const r of res.rows) out.push({ alertId: r.id, tankId: tank.id, companyId: tank.company_id, kind: t.kind, type: 'resolve', at: t.at });
-    }
-  }
-  return out;
-}
-
-async function saveState(tx: Tx, tankId: string, state: EngineState): Promise<void> {
-  await tx.execute(sql`
-    update alert_tank_state set state = ${JSON.stringify(state)}::jsonb,
-      evaluated_to = ${state.lastTs === null ? null : new Date(state.lastTs).toISOString()}::timestamptz, updated_at = now()
-    where tank_id = ${tankId}`);
-}
-
-/**
- * Runs the rules over the readings of `tankId` stored since it was last evaluated (each reading
- * once: a replayed batch finds nothing new). Returns the alerts it opened or resolved.
- */
-export async function evaluateTankReadings(tankId: string): Promise<AppliedTransition[]> {
-  return db().transaction(async (tx) => {
-    const tank = await lockTank(tx, tankId);
-    if (!tank) return [];
-    const th = await thresholdsFor(tank.company_id);
-    const open = await openKindsOf(tx, tankId);
-    let state = tank.state;
-    let after = tank.evaluated_ms !== null ? Number(tank.evaluated_ms) : tank.latest_ms !== null ? Number(tank.latest_ms) - FIRST_LOOKBACK_MS : null;
-    if (after === null) return [];
-    const applied: AppliedTransition[] = [];
-    for (;;) {
-      const readings = await readingsAfter(tx, tankId, after, CHUNK);
-      if (readings.length === 0) break;
-      const res = evaluateReadings(state, readings, factsOf(tank), th, open);
-      state = res.state;
-      for (const a of await applyTransitions(tx, tank, th, res.transitions)) {
-        applied.push(a);
-        if (a.type === 'open') open.add(a.kind); else open.delete(a.kind);
-      }
-      after = readings[readings.length - 1]!.ts;
-      if (readings.length < CHUNK) break;
-    }
-    if (state) await saveState(tx, tankId, state);
-    return applied;
-  });
-}
-
-/**
- * Runs the time-based rules of one tank at `now` (epoch ms), or at the time `now()` gives once the
- * tank's row is read, so that everything received before that counts as heard.
- */
-export async function evaluateTankClock(tankId: string, at: number | (() => number)): Promise<AppliedTransition[]> {
-  return db().transaction(async (tx) => {
-    const tank = await lockTank(tx, tankId);
-    if (!tank) return [];
-    const now = typeof at === 'function' ? at() : at;
-    const th = await thresholdsFor(tank.company_id);
-    const open = await openKindsOf(tx, tankId);
-    // Offline means nothing heard: a tank replaying its backlog (old readings, received now) is online.
-    // Receipt times later than `now` (a clock run on simulated past time) are no evidence either way.
-    const heard = [tank.latest_ms, tank.seen_ms].filter((v): v is string => v !== null).map(Number).filter((ms) => ms <= now);
-    const res = evaluateClock(tank.state, now, factsOf(tank), th, open, heard.length ? Math.max(...heard) : null);
-    const applied = await applyTransitions(tx, tank, th, res.transitions);
-    await saveState(tx, tankId, res.state);
-    return applied;
-  });
 }
 
 /** Tanks that have reported, optionally of one company, with whether readings wait for the rules. */

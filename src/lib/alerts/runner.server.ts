@@ -2,7 +2,8 @@
 // of every batch it has committed (the rules then read just those tanks' new readings), and runs
 // an AlertClock for the rules that move with time (offline, the legionella window), readings that
 // arrived another way (HTTP ingest), and the e-mails.
-import { evaluateTankClock, evaluateTankReadings, tankIdsBySerial, tanksForClock, type AppliedTransition } from '../../db/queries/alerts';
+import { tankIdsBySerial, tanksForClock } from '../../db/queries/alerts';
+import { evaluateTankClock, evaluateTankReadings, type AppliedTransition } from './evaluate.server';
 import { parseTopic } from '../telemetry/wire';
 import { sendDigests, sendHouseholderNotices, sendSevereNotices } from './notify';
 

@@ -3,7 +3,8 @@
 // apply from the next evaluation.
 import { afterAll, describe, expect, it } from 'vitest';
 import { getPool } from '../../../src/db';
-import { evaluateTankReadings, saveThresholdOverrides } from '../../../src/db/queries/alerts';
+import { saveThresholdOverrides } from '../../../src/db/queries/alerts';
+import { evaluateTankReadings } from '../../../src/lib/alerts/evaluate.server';
 import { TelemetryWriter, type IngestItem } from '../../../src/lib/telemetry/writer.server';
 import { runClock } from '../../../src/lib/alerts/runner.server';
 import { query } from '../../support/db';
