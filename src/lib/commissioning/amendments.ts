@@ -2,6 +2,7 @@
 // signed original (who, when, from what, to what, why); a change that the tank itself runs on
 // (its target, for instance) is applied to the tank as well.
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { controlsStepSchema, LEGIONELLA_STORE_C } from './steps';
 
 export interface AmendableField {
@@ -24,9 +25,9 @@ export const amendableFields = {
 export type AmendableFieldId = keyof typeof amendableFields;
 
 export const amendmentSchema = z.object({
-  field: z.enum(Object.keys(amendableFields) as [AmendableFieldId, ...AmendableFieldId[]], { errorMap: () => ({ message: `Choose a field that may be amended: ${Object.keys(amendableFields).join(', ')}.` }) }),
+  field: z.enum(Object.keys(amendableFields) as [AmendableFieldId, ...AmendableFieldId[]], { error: `Choose a field that may be amended: ${Object.keys(amendableFields).join(', ')}.` }),
   value: z.unknown(),
-  reason: z.string({ required_error: 'Say why the record is being amended.' }).trim().min(3, 'Say why the record is being amended.').max(500),
+  reason: z.string(messages('Say why the record is being amended.')).trim().min(3, 'Say why the record is being amended.').max(500),
 });
 
 /** Reads `step.field` out of the answers. */

@@ -1,6 +1,7 @@
 // The commissioning wizard's steps and what each must hold. Pure: shared by the wizard (to show
 // field errors before saving) and the endpoints (which trust nothing the browser sends).
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { SERIAL_PATTERN } from '../telemetry/wire';
 import { capabilities, hasHeatPump, heatSourceDescriptions, heatSourceKinds, type HeatSource } from '../heat-sources';
 
@@ -19,13 +20,13 @@ export const stepTitles: Record<StepId, string> = {
   signoff: 'Sign-off and handover',
 };
 
-const text = (field: string, max = 200) => z.string({ required_error: `Enter the ${field}.`, invalid_type_error: `Enter the ${field}.` })
+const text = (field: string, max = 200) => z.string(messages(`Enter the ${field}.`, `Enter the ${field}.`))
   .trim().min(1, `Enter the ${field}.`).max(max, `The ${field} can be at most ${max} characters.`);
-const optionalText = (max = 200) => z.string().trim().max(max, `At most ${max} characters.`).optional().transform((v) => (v ? v : undefined));
+const optionalText = (max = 200) => z.string().trim().max(max, `At most ${max} characters.`).transform((v) => (v ? v : undefined)).optional();
 /** Empty form fields are "not given"; numbers typed as text are read as numbers. */
 const blankToUndefined = (v: unknown) => (v === '' || v === null ? undefined : typeof v === 'string' ? Number(v.trim().replace(',', '.')) : v);
 function numberSchema(field: string, unit: string, min: number, max: number, int: boolean) {
-  let n = z.number({ required_error: `Enter the ${field} (${unit}).`, invalid_type_error: `Enter the ${field} as a number (${unit}).` });
+  let n = z.number(messages(`Enter the ${field} (${unit}).`, `Enter the ${field} as a number (${unit}).`));
   if (int) n = n.int(`The ${field} must be a whole number (${unit}).`);
   return n.min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`);
 }
@@ -38,7 +39,7 @@ export const homeStepSchema = z.object({
   postcode: text('postcode', 12),
   occupants: number('number of occupants', 'people', 1, 20, true),
   contactName: text('householder’s name', 120),
-  contactEmail: z.string({ required_error: 'Enter the householder’s e-mail address.' }).trim().toLowerCase()
+  contactEmail: z.string(messages('Enter the householder’s e-mail address.')).trim().toLowerCase()
     .email('Enter the householder’s e-mail address (name@example.com).').max(254),
   contactPhone: optionalText(40),
 });
@@ -61,10 +62,10 @@ const sensorHeights = z.union([z.string(), z.array(z.coerce.number())]).optional
     return z.NEVER;
   }
   return list;
-});
+}).optional();
 
 export const cylinderStepSchema = z.object({
-  serial: z.string({ required_error: 'Enter the cylinder’s serial number, or scan its code.' }).trim()
+  serial: z.string(messages('Enter the cylinder’s serial number, or scan its code.')).trim()
     .min(1, 'Enter the cylinder’s serial number, or scan its code.')
     .regex(SERIAL_PATTERN, 'A serial has letters, digits, dots, dashes or underscores only (at most 64), starting with a letter or digit.'),
   model: text('cylinder model', 80),
@@ -72,7 +73,7 @@ export const cylinderStepSchema = z.object({
   heightM: number('height', 'm', 0.3, 4),
   sensorCount: number('number of sensors', 'sensors', 1, 64, true),
   sensorHeightsM: sensorHeights,
-  exchanger: z.enum(exchangers, { errorMap: () => ({ message: 'Choose the cylinder’s heat exchanger.' }) }),
+  exchanger: z.enum(exchangers, { error: 'Choose the cylinder’s heat exchanger.' }),
   immersionW: number('immersion rating', 'W', 0, 12000, true),
   declaredLossW: optionalNumber('declared standing loss', 'W', 0, 500),
 }).superRefine((c, ctx) => {
@@ -85,7 +86,7 @@ export const cylinderStepSchema = z.object({
 export type CylinderStep = z.infer<typeof cylinderStepSchema>;
 
 export const heatSourceStepSchema = z.object({
-  heatSource: z.enum(heatSourceKinds, { errorMap: () => ({ message: 'Choose the heat source.' }) }),
+  heatSource: z.enum(heatSourceKinds, { error: 'Choose the heat source.' }),
   heatPumpModelId: z.preprocess((v) => (v === '' ? undefined : v), z.string().uuid('Choose a heat-pump model from the list.').optional()),
   heatPumpName: optionalText(120),
   hpOutputW: optionalNumber('heat pump output', 'W', 0, 50000, true),
@@ -123,7 +124,7 @@ export const targetStepSchema = z.object({
 export type TargetStep = z.infer<typeof targetStepSchema>;
 
 export const controlsStepSchema = z.object({
-  externalControl: z.enum(['none', 'programmer', 'thermostat', 'both'], { errorMap: () => ({ message: 'Say whether an external programmer or thermostat is wired in.' }) }),
+  externalControl: z.enum(['none', 'programmer', 'thermostat', 'both'], { error: 'Say whether an external programmer or thermostat is wired in.' }),
   controlNotes: optionalText(300),
 });
 export type ControlsStep = z.infer<typeof controlsStepSchema>;
@@ -140,10 +141,10 @@ export const safetyItems = [
 ] as const;
 export type SafetyItemId = (typeof safetyItems)[number]['id'];
 
-const tick = (label: string) => z.literal(true, { errorMap: () => ({ message: `Check and tick: ${label}.` }) });
+const tick = (label: string) => z.literal(true, { error: `Check and tick: ${label}.` });
 export const safetyStepSchema = z.object({
   ...Object.fromEntries(safetyItems.map((i) => [i.id, tick(i.label)])) as Record<SafetyItemId, z.ZodLiteral<true>>,
-  competentPerson: z.literal(true, { errorMap: () => ({ message: 'Confirm that the work was done by a competent, licensed person under local building regulations.' }) }),
+  competentPerson: z.literal(true, { error: 'Confirm that the work was done by a competent, licensed person under local building regulations.' }),
   registrationNumber: optionalText(60),
 });
 export type SafetyStep = z.infer<typeof safetyStepSchema>;
@@ -152,7 +153,7 @@ export type SafetyStep = z.infer<typeof safetyStepSchema>;
 export const photosStepSchema = z.object({});
 
 export const signoffStepSchema = z.object({
-  householderEmail: z.string({ required_error: 'Enter the e-mail address to send the invitation and record to.' }).trim().toLowerCase()
+  householderEmail: z.string(messages('Enter the e-mail address to send the invitation and record to.')).trim().toLowerCase()
     .email('Enter the e-mail address to send the invitation and record to (name@example.com).'),
   notes: optionalText(1000),
 });

@@ -1,19 +1,20 @@
 // What a service visit must hold. Shared by the visit form and POST /api/visits.
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { visitKinds } from './visit-kinds';
 
 export { visitKindLabels } from './visit-kinds';
 
 const blank = (v: unknown) => (v === '' || v === null ? undefined : typeof v === 'string' ? Number(v) : v);
 const reading = (field: string, unit: string, min: number, max: number) =>
-  z.preprocess(blank, z.number({ invalid_type_error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`).optional());
+  z.preprocess(blank, z.number({ error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`).optional());
 
 export const visitSchema = z.object({
-  tankId: z.string({ required_error: 'Say which tank was visited.' }).uuid('Say which tank was visited.'),
-  kind: z.enum(visitKinds, { errorMap: () => ({ message: 'Choose the kind of visit.' }) }),
-  visitedAt: z.coerce.date({ errorMap: () => ({ message: 'Enter the date of the visit.' }) })
+  tankId: z.string(messages('Say which tank was visited.')).uuid('Say which tank was visited.'),
+  kind: z.enum(visitKinds, { error: 'Choose the kind of visit.' }),
+  visitedAt: z.coerce.date({ error: 'Enter the date of the visit.' })
     .refine((d) => d.getTime() <= Date.now() + 86_400_000, 'The visit date cannot be in the future.'),
-  findings: z.string({ required_error: 'Describe what was found and done.' }).trim().min(3, 'Describe what was found and done.').max(5000),
+  findings: z.string(messages('Describe what was found and done.')).trim().min(3, 'Describe what was found and done.').max(5000),
   parts: z.array(z.object({
     name: z.string().trim().min(1, 'Name the part.').max(120),
     quantity: z.coerce.number().int('Whole numbers of parts.').min(1, 'At least one.').max(999),

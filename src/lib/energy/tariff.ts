@@ -2,6 +2,7 @@
 // Inside the energy core every price is in pence per kWh (p/kWh) and money in pence; tariffs
 // entered in pounds per kWh (£/kWh) are converted once, at the edge, by the schemas below.
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { EnergyInputError } from './errors.js';
 import { isTimeZone, localMinuteOfDay } from './local-time.js';
 import { HALF_HOUR_MS, PENCE_PER_POUND } from './units.js';
@@ -44,15 +45,26 @@ function round(x: number): number {
 }
 
 const instant = z
-  .string({ required_error: 'must be given: an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z', invalid_type_error: 'must be an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z' })
+  .string(
+    messages(
+      'must be given: an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z',
+      'must be an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z',
+    ),
+  )
   .datetime({ offset: true, message: 'must be an ISO 8601 date and time with a zone, e.g. 2025-01-01T00:00:00Z' })
   .transform((s) => Date.parse(s));
 
 /** A price as entered, in the tariff's unit; its range is checked after conversion (checkPrice). */
-const price = (what: string) => z.number({ required_error: `must be given: the ${what} price in the chosen unit`, invalid_type_error: `must be a number: the ${what} price in the chosen unit` });
+const price = (what: string) =>
+  z.number(
+    messages(
+      `must be given: the ${what} price in the chosen unit`,
+      `must be a number: the ${what} price in the chosen unit`,
+    ),
+  );
 
 const clockTime = z
-  .string({ required_error: 'must be given as a 24-hour clock time HH:MM' })
+  .string(messages('must be given as a 24-hour clock time HH:MM'))
   .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'must be a 24-hour clock time HH:MM')
   .transform((s) => Number(s.slice(0, 2)) * 60 + Number(s.slice(3, 5)));
 
@@ -63,7 +75,13 @@ const common = {
   validTo: instant.nullable().default(null),
 };
 
-function checkPrice(ctx: z.RefinementCtx, path: (string | number)[], pence: number, kind: 'import' | 'export', neg = false): void {
+function checkPrice(
+  ctx: z.RefinementCtx,
+  path: (string | number)[],
+  pence: number,
+  kind: 'import' | 'export',
+  neg = false,
+): void {
   const problem = priceProblem(pence, kind, neg);
   if (problem) ctx.addIssue({ code: z.ZodIssueCode.custom, path, message: `${path.join('.')} ${problem}.` });
 }
@@ -112,7 +130,10 @@ export interface HalfHourlyTariff {
 export type Tariff = FlatTariff | DayNightTariff | HalfHourlyTariff;
 
 /** Prices in force at one instant, p/kWh. */
-export interface Price { importPence: number; exportPence: number }
+export interface Price {
+  importPence: number;
+  exportPence: number;
+}
 
 /** Form or API input of a flat tariff: prices in `unit`, instants as ISO 8601 strings. */
 export const flatTariffInput = z
@@ -124,18 +145,32 @@ export const flatTariffInput = z
     checkPrice(ctx, ['export'], t.export * k, 'export');
     checkValidity(ctx, t.validFrom, t.validTo);
   })
-  .transform((t): FlatTariff => ({
-    kind: 'flat', ...(t.name ? { name: t.name } : {}), validFromMs: t.validFrom, validToMs: t.validTo,
-    importPence: t.import * pencePerUnit(t.unit), exportPence: t.export * pencePerUnit(t.unit),
-  }));
+  .transform(
+    (t): FlatTariff => ({
+      kind: 'flat',
+      ...(t.name ? { name: t.name } : {}),
+      validFromMs: t.validFrom,
+      validToMs: t.validTo,
+      importPence: t.import * pencePerUnit(t.unit),
+      exportPence: t.export * pencePerUnit(t.unit),
+    }),
+  );
 
 /** Form or API input of a day/night tariff: night window as local HH:MM times in `timeZone`. */
 export const dayNightTariffInput = z
   .object({
-    kind: z.literal('day_night'), ...common,
-    timeZone: z.string().max(64, 'must be an IANA time-zone name such as Europe/London').default('Europe/London').refine(isTimeZone, 'must be an IANA time-zone name such as Europe/London'),
-    nightStart: clockTime, nightEnd: clockTime,
-    dayImport: price('day import'), nightImport: price('night import'), export: price('export').default(0),
+    kind: z.literal('day_night'),
+    ...common,
+    timeZone: z
+      .string()
+      .max(64, 'must be an IANA time-zone name such as Europe/London')
+      .default('Europe/London')
+      .refine(isTimeZone, 'must be an IANA time-zone name such as Europe/London'),
+    nightStart: clockTime,
+    nightEnd: clockTime,
+    dayImport: price('day import'),
+    nightImport: price('night import'),
+    export: price('export').default(0),
   })
   .strict()
   .superRefine((t, ctx) => {
@@ -144,17 +179,27 @@ export const dayNightTariffInput = z
     checkPrice(ctx, ['nightImport'], t.nightImport * k, 'import');
     checkPrice(ctx, ['export'], t.export * k, 'export');
     if (t.nightStart === t.nightEnd) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['nightEnd'], message: 'nightEnd must differ from nightStart.' });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['nightEnd'],
+        message: 'nightEnd must differ from nightStart.',
+      });
     }
     checkValidity(ctx, t.validFrom, t.validTo);
   })
   .transform((t): DayNightTariff => {
     const k = pencePerUnit(t.unit);
     return {
-      kind: 'day_night', ...(t.name ? { name: t.name } : {}), timeZone: t.timeZone,
-      nightStartMin: t.nightStart, nightEndMin: t.nightEnd,
-      dayImportPence: t.dayImport * k, nightImportPence: t.nightImport * k, exportPence: t.export * k,
-      validFromMs: t.validFrom, validToMs: t.validTo,
+      kind: 'day_night',
+      ...(t.name ? { name: t.name } : {}),
+      timeZone: t.timeZone,
+      nightStartMin: t.nightStart,
+      nightEndMin: t.nightEnd,
+      dayImportPence: t.dayImport * k,
+      nightImportPence: t.nightImport * k,
+      exportPence: t.export * k,
+      validFromMs: t.validFrom,
+      validToMs: t.validTo,
     };
   });
 
@@ -162,13 +207,22 @@ export const dayNightTariffInput = z
 export const tariffInput = z.union([flatTariffInput, dayNightTariffInput]);
 
 /** A refusal naming the field (dotted path) and why. */
-export interface FieldError { field: string; message: string }
+export interface FieldError {
+  field: string;
+  message: string;
+}
 
 /** Validate and normalise a flat or day/night tariff entered in a form or sent to the API. */
-export function parseTariff(input: unknown): { ok: true; tariff: FlatTariff | DayNightTariff } | { ok: false; errors: FieldError[] } {
+export function parseTariff(
+  input: unknown,
+): { ok: true; tariff: FlatTariff | DayNightTariff } | { ok: false; errors: FieldError[] } {
   const kind = (input as { kind?: unknown } | null)?.kind;
   const schema = kind === 'flat' ? flatTariffInput : kind === 'day_night' ? dayNightTariffInput : null;
-  if (!schema) return { ok: false, errors: [{ field: 'kind', message: 'kind must be flat or day_night (half-hourly prices are uploaded as CSV).' }] };
+  if (!schema)
+    return {
+      ok: false,
+      errors: [{ field: 'kind', message: 'kind must be flat or day_night (half-hourly prices are uploaded as CSV).' }],
+    };
   const r = schema.safeParse(input);
   if (r.success) return { ok: true, tariff: r.data };
   return {
@@ -207,7 +261,9 @@ function priceOf(t: Tariff, ms: number): Price {
  * A home's own tariffs come first and the company defaults after, so a home's tariff overrides the
  * default for its validity period only, and the default prices the home before and after it.
  */
-export interface TariffLayers { layers: readonly (readonly Tariff[])[] }
+export interface TariffLayers {
+  layers: readonly (readonly Tariff[])[];
+}
 
 /** What prices energy: one tariff, a list (latest start in force wins), or lists by precedence. */
 export type Tariffs = Tariff | readonly Tariff[] | TariffLayers;
@@ -221,8 +277,11 @@ const isLayers = (t: Tariffs): t is TariffLayers => !Array.isArray(t) && 'layers
  * tried in order ({@link TariffLayers}).
  */
 export function priceAt(tariff: Tariffs, epochMs: number): Price | null {
-  if (!Number.isFinite(epochMs)) throw new EnergyInputError('epochMs', `epochMs is ${String(epochMs)}: it must be epoch milliseconds.`);
-  const lists = isLayers(tariff) ? tariff.layers : [Array.isArray(tariff) ? (tariff as readonly Tariff[]) : [tariff as Tariff]];
+  if (!Number.isFinite(epochMs))
+    throw new EnergyInputError('epochMs', `epochMs is ${String(epochMs)}: it must be epoch milliseconds.`);
+  const lists = isLayers(tariff)
+    ? tariff.layers
+    : [Array.isArray(tariff) ? (tariff as readonly Tariff[]) : [tariff as Tariff]];
   for (const list of lists) {
     let best: Tariff | null = null;
     for (const t of list) if (inForce(t, epochMs) && (best === null || t.validFromMs > best.validFromMs)) best = t;
@@ -241,7 +300,11 @@ export function importPriceSeries(tariff: Tariffs, startMs: number, steps: numbe
   for (let i = 0; i < steps; i++) {
     const ms = startMs + i * stepMin * 60_000;
     const p = priceAt(tariff, ms);
-    if (!p) throw new EnergyInputError(`prices[${i}]`, `No tariff is in force at ${new Date(ms).toISOString()} (step ${i}): add or extend a tariff before planning.`);
+    if (!p)
+      throw new EnergyInputError(
+        `prices[${i}]`,
+        `No tariff is in force at ${new Date(ms).toISOString()} (step ${i}): add or extend a tariff before planning.`,
+      );
     out[i] = p.importPence;
   }
   return out;

@@ -25,7 +25,7 @@ export function installsTemplate(): string {
 
 const blank = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 const num = (column: string, min: number, max: number, int = false) => {
-  let n = z.coerce.number({ invalid_type_error: `${column} must be a number.` });
+  let n = z.coerce.number({ error: `${column} must be a number.` });
   if (int) n = n.int(`${column} must be a whole number.`);
   return n.min(min, `${column} must be at least ${min}.`).max(max, `${column} must be at most ${max}.`);
 };
@@ -44,7 +44,7 @@ const rowSchema = z.object({
   volume_l: num('volume_l', 30, 2000, true),
   height_m: num('height_m', 0.3, 4),
   sensor_count: num('sensor_count', 1, 64, true),
-  heat_source: z.enum(heatSourceKinds, { errorMap: () => ({ message: `heat_source must be one of ${heatSourceKinds.join(', ')}.` }) }),
+  heat_source: z.enum(heatSourceKinds, { error: `heat_source must be one of ${heatSourceKinds.join(', ')}.` }),
   heat_pump_output_w: z.preprocess(blank, num('heat_pump_output_w', 0, 50000, true).optional()),
   immersion_w: num('immersion_w', 0, 12000, true),
   declared_loss_w: z.preprocess(blank, num('declared_loss_w', 0, 500).optional()),

@@ -84,8 +84,8 @@ export async function readJson(request: Request, options: { emptyAs?: unknown } 
 
 /**
  * The request's JSON body checked against a schema: 400 naming the fields when it does not fit
- * (the endpoint wrapper turns the ZodError into that answer).
+ * (the endpoint wrapper turns the ZodError into that answer). Every JSON route reads its body so.
  */
-export async function jsonBody<S extends z.ZodTypeAny>(request: Request, schema: S): Promise<z.infer<S>> {
-  return schema.parse(await readJson(request));
+export async function jsonBody<S extends z.ZodType>(request: Request, schema: S, options: { emptyAs?: unknown } = {}): Promise<z.output<S>> {
+  return schema.parse(await readJson(request, options));
 }

@@ -2,10 +2,8 @@
 // commands and command replies. Shared by the MQTT ingest worker, `POST /api/ingest`, the
 // simulator and docs/wire-contract.schema.json (generated from these schemas). Pure: no I/O.
 //
-// zod's v4 API (shipped inside zod 3.25) is used here for its JSON Schema output and its speed
-// on large batches; the rest of the app keeps zod 3 and never sees these schemas' errors, which
-// are turned into our own field list below.
-import { z } from 'zod/v4';
+// Device-facing errors are turned into the contract's own field list below (`zodFieldErrors`).
+import { z } from 'zod';
 
 export const WIRE_VERSION = 'v1';
 const PREFIX = `heatlayer/${WIRE_VERSION}/tanks`;

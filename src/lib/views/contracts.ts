@@ -1,6 +1,7 @@
 // Query strings the views API accepts (zod, validated at the edge) and the JSON it answers.
 // Server-only: islands import the types with `import type`, so zod stays out of their bundles.
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } from './attention';
 import { heatSourceValues } from './labels';
 import type { HeatSource } from '../../db/schema/homes';
@@ -21,7 +22,7 @@ export const tanksQuerySchema = z.object({
   heatSource: z.enum(heatSourceValues).optional(),
   sort: z.enum(tankSortKeys).default('attention'),
   dir: z.enum(['asc', 'desc']).optional(),
-  page: z.coerce.number({ invalid_type_error: 'page must be a whole number from 1.' }).int('page must be a whole number from 1.').min(1, 'page must be a whole number from 1.').default(1),
+  page: z.coerce.number({ error: 'page must be a whole number from 1.' }).int('page must be a whole number from 1.').min(1, 'page must be a whole number from 1.').default(1),
   pageSize: z.coerce.number().int('pageSize must be a whole number.').min(1, 'pageSize must be between 1 and 200.').max(200, 'pageSize must be between 1 and 200.').default(25),
 }).strict();
 export type TanksQuery = z.infer<typeof tanksQuerySchema>;
@@ -84,8 +85,8 @@ export const maxLinkSpanMs = 62 * 86_400_000;
 
 /** `?from=&to=` on a tank page (alert links carry them): both ISO 8601 with a zone, from before to. */
 export const linkRangeSchema = z.object({
-  from: z.string({ required_error: 'from is missing (the link gives to without it).' }).pipe(isoTime('from')),
-  to: z.string({ required_error: 'to is missing (the link gives from without it).' }).pipe(isoTime('to')),
+  from: z.string(messages('from is missing (the link gives to without it).')).pipe(isoTime('from')),
+  to: z.string(messages('to is missing (the link gives from without it).')).pipe(isoTime('to')),
 }).transform((v, ctx) => {
   const from = Date.parse(v.from);
   const to = Date.parse(v.to);

@@ -21,8 +21,8 @@ export const GET = endpoint(async ({ locals, params }) => {
 });
 
 const saveSchema = z.object({
-  step: z.enum(stepIds, { errorMap: () => ({ message: `step must be one of: ${stepIds.join(', ')}.` }) }),
-  values: z.record(z.unknown()).default({}),
+  step: z.enum(stepIds, { error: `step must be one of: ${stepIds.join(', ')}.` }),
+  values: z.record(z.string(), z.unknown()).default({}),
 });
 
 /** Saves one step of the draft: { step, values }. Field errors name `step.field`. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { messages } from '@/lib/zod-messages';
 import { createHeatPumpModel, listHeatPumpModels } from '../../../../db/queries/commissioning';
 import { HttpError, requireViewer } from '../../../../lib/server/authz';
 import { jsonBody } from '../../../../lib/server/body';
@@ -12,10 +13,10 @@ export const GET = endpoint(async ({ locals }) => {
 });
 
 const num = (field: string, unit: string, min: number, max: number) =>
-  z.coerce.number({ invalid_type_error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`);
+  z.coerce.number({ error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`);
 
 export const heatPumpModelSchema = z.object({
-  name: z.string({ required_error: 'Enter the model’s name.' }).trim().min(1, 'Enter the model’s name.').max(120),
+  name: z.string(messages('Enter the model’s name.')).trim().min(1, 'Enter the model’s name.').max(120),
   outputW: num('output', 'W', 500, 50000).int('Enter the output in whole watts.'),
   ntcR25Ohm: num('sensor input’s resistance at 25 °C', 'Ω', 100, 1_000_000),
   ntcBetaK: num('sensor input’s B value', 'K', 2000, 6000),

@@ -1,11 +1,11 @@
 import { listCommands } from '../../../../db/queries/commands';
 import { findTankInScope } from '../../../../db/queries/telemetry';
 import { HttpError, requireViewer, scopeOf } from '../../../../lib/server/authz';
-import { readJson } from '../../../../lib/server/body';
+import { jsonBody } from '../../../../lib/server/body';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
 import { sendCommand } from '../../../../lib/telemetry/commands.server';
-import { commandRequestSchema, zodFieldErrors } from '../../../../lib/telemetry/wire';
+import { commandRequestSchema } from '../../../../lib/telemetry/wire';
 
 async function tankFor(locals: App.Locals, id: string | undefined) {
   const viewer = requireViewer(locals);
@@ -27,11 +27,10 @@ export const GET = endpoint(async ({ locals, params }) => {
  */
 export const POST = endpoint(async ({ locals, params, request }) => {
   const { viewer, tank } = await tankFor(locals, params.id);
-  const parsed = commandRequestSchema.safeParse(await readJson(request));
-  if (!parsed.success) throw new HttpError(400, 'InvalidCommand', 'The command has invalid fields; see "fields".', zodFieldErrors(parsed.error));
-  if (parsed.data.kind === 'set_target' && viewer.role === 'householder') {
+  const command = await jsonBody(request, commandRequestSchema);
+  if (command.kind === 'set_target' && viewer.role === 'householder') {
     throw new HttpError(403, 'NotAllowedForRole', 'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.');
   }
-  const sent = await sendCommand({ tank, request: parsed.data, actorUserId: viewer.userId });
+  const sent = await sendCommand({ tank, request: command, actorUserId: viewer.userId });
   return json(sent, 202);
 });

@@ -1,5 +1,5 @@
 import { requireViewer, scopeOf } from '../../../../../lib/server/authz';
-import { readJson } from '../../../../../lib/server/body';
+import { jsonBody } from '../../../../../lib/server/body';
 import { endpoint } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/http';
 import { planBody } from '../../../../../lib/tank-energy/contracts';
@@ -9,6 +9,6 @@ import { tankOr404, tankPlan } from '../../../../../lib/tank-energy/energy.serve
 export const POST = endpoint(async ({ locals, params, request }) => {
   const scope = scopeOf(requireViewer(locals));
   await tankOr404(scope, params.id);
-  const body = planBody.parse(await readJson(request, { emptyAs: {} }));
+  const body = await jsonBody(request, planBody, { emptyAs: {} });
   return json((await tankPlan(scope, params.id, body)).plan);
 });

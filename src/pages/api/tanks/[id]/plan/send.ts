@@ -1,5 +1,5 @@
 import { requireViewer, scopeOf } from '../../../../../lib/server/authz';
-import { readJson } from '../../../../../lib/server/body';
+import { jsonBody } from '../../../../../lib/server/body';
 import { endpoint } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/http';
 import { planBody } from '../../../../../lib/tank-energy/contracts';
@@ -13,6 +13,6 @@ export const POST = endpoint(async ({ locals, params, request }) => {
   const viewer = requireViewer(locals);
   const scope = scopeOf(viewer);
   await tankOr404(scope, params.id);
-  const body = planBody.parse(await readJson(request, { emptyAs: {} }));
+  const body = await jsonBody(request, planBody, { emptyAs: {} });
   return json(await sendPlan(viewer, scope, params.id, body), 202);
 });
