@@ -35,7 +35,10 @@ export class SimDevice {
   readonly serial: string;
   readonly trouble: TroubleLog;
 
-  constructor(readonly tank: SimTank, private readonly o: DeviceOptions) {
+  constructor(
+    readonly tank: SimTank,
+    private readonly o: DeviceOptions,
+  ) {
     this.serial = tank.demo.serial;
     this.trouble = new TroubleLog(this.serial, o.log);
   }
@@ -46,16 +49,31 @@ export class SimDevice {
    */
   connect(): Promise<void> {
     const client = mqtt.connect(this.o.mqttUrl, {
-      clientId: this.serial, username: this.serial, password: this.o.token, protocolVersion: 4, clean: false,
-      reconnectPeriod: 2000, connectTimeout: 10_000, keepalive: 60, reconnectOnConnackError: true,
+      clientId: this.serial,
+      username: this.serial,
+      password: this.o.token,
+      protocolVersion: 4,
+      clean: false,
+      reconnectPeriod: 2000,
+      connectTimeout: 10_000,
+      keepalive: 60,
+      reconnectOnConnackError: true,
       will: { topic: topicFor(this.serial, 'status'), payload: Buffer.from('offline'), qos: 1, retain: true },
     });
     this.client = client;
     client.on('error', (err) => this.trouble.fail(err.message));
-    client.on('message', (_topic, payload) => void this.onCommand(payload).catch((err) => this.trouble.fail(`a command reply failed: ${message(err)}`)));
+    client.on(
+      'message',
+      (_topic, payload) =>
+        void this.onCommand(payload).catch((err) => this.trouble.fail(`a command reply failed: ${message(err)}`)),
+    );
     return new Promise<void>((resolve) => {
       // The first attempt failed: an error (refused login, no broker) or a close (timeout).
-      const settle = () => { client.off('error', settle); client.off('close', settle); resolve(); };
+      const settle = () => {
+        client.off('error', settle);
+        client.off('close', settle);
+        resolve();
+      };
       client.once('error', settle);
       client.once('close', settle);
       client.on('connect', () => void this.onConnected(client).finally(settle));
@@ -65,8 +83,14 @@ export class SimDevice {
   /** On every (re)connection: the command subscription (a restarted broker has forgotten it), `online`, then the backlog. */
   private async onConnected(client: MqttClient): Promise<void> {
     try {
-      await this.deadline(client.subscribeAsync(topicFor(this.serial, 'commands'), { qos: 1 }), 'subscribing to commands');
-      await this.deadline(client.publishAsync(topicFor(this.serial, 'status'), 'online', { qos: 1, retain: true }), 'publishing online');
+      await this.deadline(
+        client.subscribeAsync(topicFor(this.serial, 'commands'), { qos: 1 }),
+        'subscribing to commands',
+      );
+      await this.deadline(
+        client.publishAsync(topicFor(this.serial, 'status'), 'online', { qos: 1, retain: true }),
+        'publishing online',
+      );
     } catch (err) {
       this.trouble.fail(message(err));
       return;
@@ -100,7 +124,10 @@ export class SimDevice {
       while (this.outbox.length > 0 && client.connected && !this.offline) {
         const batch = this.outbox.slice(0, limits.maxBatch);
         const body = batch.length === 1 ? wire(batch[0]) : { readings: batch.map(wire) };
-        await this.deadline(client.publishAsync(topicFor(this.serial, 'telemetry'), JSON.stringify(body), { qos: 1 }), 'waiting for the broker to acknowledge a reading');
+        await this.deadline(
+          client.publishAsync(topicFor(this.serial, 'telemetry'), JSON.stringify(body), { qos: 1 }),
+          'waiting for the broker to acknowledge a reading',
+        );
         this.outbox.splice(0, batch.length);
         this.trouble.ok();
       }
@@ -117,7 +144,9 @@ export class SimDevice {
   private deadline<T>(work: Promise<T>, what: string): Promise<T> {
     const ms = this.o.sendTimeoutMs ?? 10_000;
     let timer: NodeJS.Timeout | undefined;
-    const late = new Promise<never>((_, reject) => { timer = setTimeout(() => reject(new Error(`no answer from the broker after ${ms / 1000} s ${what}`)), ms); });
+    const late = new Promise<never>((_, reject) => {
+      timer = setTimeout(() => reject(new Error(`no answer from the broker after ${ms / 1000} s ${what}`)), ms);
+    });
     return Promise.race([work, late]).finally(() => clearTimeout(timer));
   }
 
@@ -132,10 +161,16 @@ export class SimDevice {
       const body = JSON.stringify({ readings: readings.slice(i, i + batchSize).map(wire) });
       for (let attempt = 0; ; attempt++) {
         const res = await fetch(url, {
-          method: 'POST', body, headers: { authorization: `Bearer ${this.o.token}`, 'content-type': 'application/json' },
+          method: 'POST',
+          body,
+          headers: { authorization: `Bearer ${this.o.token}`, 'content-type': 'application/json' },
         }).catch(() => null);
-        if (res?.status === 202) { await res.arrayBuffer(); break; }
-        if (res && res.status < 500 && res.status !== 429) throw new Error(`${this.serial}: backfill refused with ${res.status}: ${await res.text()}`);
+        if (res?.status === 202) {
+          await res.arrayBuffer();
+          break;
+        }
+        if (res && res.status < 500 && res.status !== 429)
+          throw new Error(`${this.serial}: backfill refused with ${res.status}: ${await res.text()}`);
         await res?.arrayBuffer().catch(() => undefined);
         await new Promise((r) => setTimeout(r, Math.min(30_000, 500 * 2 ** attempt)));
       }
@@ -172,22 +207,45 @@ export class SimDevice {
     const client = this.client;
     this.client = null;
     if (!client) return;
-    await this.deadline(client.endAsync(), 'closing').catch(() => client.endAsync(true)).catch(() => undefined);
+    await this.deadline(client.endAsync(), 'closing')
+      .catch(() => client.endAsync(true))
+      .catch(() => undefined);
   }
 
-  private async reply(commandId: string, state: 'acknowledged' | 'applied' | 'rejected', detail?: string): Promise<void> {
+  private async reply(
+    commandId: string,
+    state: 'acknowledged' | 'applied' | 'rejected',
+    detail?: string,
+  ): Promise<void> {
     if (!this.client) return;
-    await this.deadline(this.client.publishAsync(topicFor(this.serial, 'replies'), JSON.stringify({ commandId, state, at: this.o.now(), ...(detail ? { detail } : {}) }), { qos: 1 }), 'replying to a command');
+    await this.deadline(
+      this.client.publishAsync(
+        topicFor(this.serial, 'replies'),
+        JSON.stringify({ commandId, state, at: this.o.now(), ...(detail ? { detail } : {}) }),
+        { qos: 1 },
+      ),
+      'replying to a command',
+    );
   }
 
   private async onCommand(payload: Buffer): Promise<void> {
     let body: unknown;
-    try { body = JSON.parse(payload.toString('utf8')); } catch { return; }
+    try {
+      body = JSON.parse(payload.toString('utf8'));
+    } catch {
+      return;
+    }
     const parsed = commandMessageSchema.safeParse(body);
     const id = typeof (body as { id?: unknown })?.id === 'string' ? (body as { id: string }).id : null;
-    if (!parsed.success) { if (id) await this.reply(id, 'rejected', 'The command is not one this controller understands.'); return; }
+    if (!parsed.success) {
+      if (id) await this.reply(id, 'rejected', 'The command is not one this controller understands.');
+      return;
+    }
     const msg = parsed.data;
-    if (msg.expiresAt < Date.now()) { await this.reply(msg.id, 'rejected', 'The command expired before it arrived.'); return; }
+    if (msg.expiresAt < Date.now()) {
+      await this.reply(msg.id, 'rejected', 'The command expired before it arrived.');
+      return;
+    }
     await this.reply(msg.id, 'acknowledged');
     const refusal = this.tank.apply(msg.command, this.o.now());
     await this.reply(msg.id, refusal ? 'rejected' : 'applied', refusal ?? undefined);

@@ -31,18 +31,30 @@ export interface FleetOptions {
   sendTimeoutMs?: number;
 }
 
-interface SavedState { savedAt: number; lastTs: number; tanks: Record<string, SimTankSnapshot> }
+interface SavedState {
+  savedAt: number;
+  lastTs: number;
+  tanks: Record<string, SimTankSnapshot>;
+}
 
 const floorMinute = (t: number) => Math.floor(t / MIN) * MIN;
 
 function loadState(file: string | null): SavedState | null {
   if (!file || !existsSync(file)) return null;
-  try { return JSON.parse(readFileSync(file, 'utf8')) as SavedState; } catch { return null; }
+  try {
+    return JSON.parse(readFileSync(file, 'utf8')) as SavedState;
+  } catch {
+    return null;
+  }
 }
 
 function saveState(file: string | null, devices: readonly SimDevice[], lastTs: number): void {
   if (!file) return;
-  const state: SavedState = { savedAt: Date.now(), lastTs, tanks: Object.fromEntries(devices.map((d) => [d.serial, d.tank.snapshot()])) };
+  const state: SavedState = {
+    savedAt: Date.now(),
+    lastTs,
+    tanks: Object.fromEntries(devices.map((d) => [d.serial, d.tank.snapshot()])),
+  };
   mkdirSync(dirname(file), { recursive: true });
   writeFileSync(`${file}.tmp`, JSON.stringify(state));
   renameSync(`${file}.tmp`, file);
@@ -51,9 +63,11 @@ function saveState(file: string | null, devices: readonly SimDevice[], lastTs: n
 /** Runs `tasks` with at most `limit` at a time. */
 async function pool<T>(items: readonly T[], limit: number, task: (item: T) => Promise<void>): Promise<void> {
   let next = 0;
-  await Promise.all(Array.from({ length: Math.min(limit, items.length) }, async () => {
-    while (next < items.length) await task(items[next++]);
-  }));
+  await Promise.all(
+    Array.from({ length: Math.min(limit, items.length) }, async () => {
+      while (next < items.length) await task(items[next++]);
+    }),
+  );
 }
 
 export class Fleet {
@@ -64,14 +78,25 @@ export class Fleet {
 
   constructor(private readonly o: FleetOptions) {
     this.simNow = floorMinute(Date.now());
-    this.devices = o.tanks.map((t) => new SimDevice(new SimTank(t), { mqttUrl: o.mqttUrl, token: demoDeviceToken(o.tokenKey, t.serial), now: () => this.simNow, log: o.log, sendTimeoutMs: o.sendTimeoutMs }));
+    this.devices = o.tanks.map(
+      (t) =>
+        new SimDevice(new SimTank(t), {
+          mqttUrl: o.mqttUrl,
+          token: demoDeviceToken(o.tokenKey, t.serial),
+          now: () => this.simNow,
+          log: o.log,
+          sendTimeoutMs: o.sendTimeoutMs,
+        }),
+    );
   }
 
   /** Connects every tank; one that cannot connect has said why and keeps trying on its own. */
   async connect(): Promise<void> {
     await pool(this.devices, 32, (d) => d.connect());
     const failing = this.devices.filter((d) => d.trouble.failing).length;
-    this.o.log(`[simulator] ${this.devices.length - failing} of ${this.devices.length} tanks connected to ${this.o.mqttUrl}`);
+    this.o.log(
+      `[simulator] ${this.devices.length - failing} of ${this.devices.length} tanks connected to ${this.o.mqttUrl}`,
+    );
   }
 
   /**
@@ -83,7 +108,10 @@ export class Fleet {
     const earliest = floorMinute(Date.now()) - this.o.backfillDays * 86_400_000;
     let from = earliest;
     if (saved && saved.lastTs > earliest) {
-      for (const d of this.devices) { const s = saved.tanks[d.serial]; if (s) d.tank.restore(s); }
+      for (const d of this.devices) {
+        const s = saved.tanks[d.serial];
+        if (s) d.tank.restore(s);
+      }
       from = saved.lastTs + MIN;
     }
     // A long backfill falls behind the clock while it runs: fill again up to the new "now" until the
@@ -99,9 +127,14 @@ export class Fleet {
   private async fillRange(from: number): Promise<number> {
     const now = floorMinute(Date.now());
     const minutes = Math.max(0, Math.round((now - from) / MIN));
-    if (minutes === 0) { this.simNow = from - MIN; return from; }
+    if (minutes === 0) {
+      this.simNow = from - MIN;
+      return from;
+    }
     const total = minutes * this.devices.length;
-    this.o.log(`[simulator] backfilling ${(minutes / 1440).toFixed(1)} days × ${this.devices.length} tanks = ${total.toLocaleString('en-GB')} readings through the batch path…`);
+    this.o.log(
+      `[simulator] backfilling ${(minutes / 1440).toFixed(1)} days × ${this.devices.length} tanks = ${total.toLocaleString('en-GB')} readings through the batch path…`,
+    );
     const started = Date.now();
     let sent = 0;
     let lastReport = 0;
@@ -113,7 +146,9 @@ export class Fleet {
       const rate = sent / Math.max(elapsed, 0.001);
       const pct = (100 * sent) / total;
       const bar = '#'.repeat(Math.round(pct / 5)).padEnd(20, '.');
-      this.o.log(`[simulator] backfill [${bar}] ${pct.toFixed(0)}% ${sent.toLocaleString('en-GB')}/${total.toLocaleString('en-GB')} readings, ${Math.round(rate).toLocaleString('en-GB')}/s${sent < total ? `, about ${Math.ceil((total - sent) / Math.max(rate, 1) / 60)} min left` : ''}`);
+      this.o.log(
+        `[simulator] backfill [${bar}] ${pct.toFixed(0)}% ${sent.toLocaleString('en-GB')}/${total.toLocaleString('en-GB')} readings, ${Math.round(rate).toLocaleString('en-GB')}/s${sent < total ? `, about ${Math.ceil((total - sent) / Math.max(rate, 1) / 60)} min left` : ''}`,
+      );
     };
     for (let dayStart = from; dayStart < now && !this.stopped; dayStart += 86_400_000) {
       const dayEnd = Math.min(now, dayStart + 86_400_000);
@@ -124,7 +159,10 @@ export class Fleet {
         for (let t = dayStart; t < dayEnd; t += MIN) readings.push(d.tank.step(t));
         if (url && !refused.has(d)) {
           // A tank the server refuses (e.g. its token was rotated) is left out; the rest go on.
-          await d.postBatch(url, readings).catch((err) => { refused.add(d); d.trouble.fail(err instanceof Error ? err.message : String(err)); });
+          await d.postBatch(url, readings).catch((err) => {
+            refused.add(d);
+            d.trouble.fail(err instanceof Error ? err.message : String(err));
+          });
         } else if (!url) await d.sendBatch(readings);
         sent += readings.length;
         report();
@@ -150,7 +188,9 @@ export class Fleet {
       // network_outage: off the network for 30 simulated minutes twice a day, then the backlog.
       if (d.tank.faults.has('network_outage')) {
         const minuteOfDay = Math.floor((t % 86_400_000) / MIN);
-        const out = (minuteOfDay >= 14 * 60 && minuteOfDay < 14 * 60 + 30) || (minuteOfDay >= 2 * 60 && minuteOfDay < 2 * 60 + 30);
+        const out =
+          (minuteOfDay >= 14 * 60 && minuteOfDay < 14 * 60 + 30) ||
+          (minuteOfDay >= 2 * 60 && minuteOfDay < 2 * 60 + 30);
         if (out && !d.isOffline) d.goOffline();
         if (!out && d.isOffline) void d.goOnline();
       }

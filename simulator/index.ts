@@ -11,17 +11,26 @@ import { Fleet } from './fleet';
 
 async function main(): Promise<void> {
   const e = env();
-  if (!e.DEVICE_TOKEN_SEED) throw new Error('DEVICE_TOKEN_SEED is not set: start the simulator through `npm start`, or set it to the key the demo seed used.');
+  if (!e.DEVICE_TOKEN_SEED)
+    throw new Error(
+      'DEVICE_TOKEN_SEED is not set: start the simulator through `npm start`, or set it to the key the demo seed used.',
+    );
   const all = demoTanks();
   const tanks = demoCompanies.flatMap((c) => all.filter((t) => t.companySlug === c.slug).slice(0, e.SIMULATOR_TANKS));
   const fleet = new Fleet({
-    tanks, mqttUrl: e.MQTT_URL, tokenKey: e.DEVICE_TOKEN_SEED, speed: e.SIMULATOR_SPEED, backfillDays: e.SIMULATOR_BACKFILL_DAYS,
+    tanks,
+    mqttUrl: e.MQTT_URL,
+    tokenKey: e.DEVICE_TOKEN_SEED,
+    speed: e.SIMULATOR_SPEED,
+    backfillDays: e.SIMULATOR_BACKFILL_DAYS,
     ingestUrl: `http://127.0.0.1:${e.PORT}/api/ingest`,
     stateFile: e.SIMULATOR_SPEED === 1 ? join(e.HEATLAYER_DATA_DIR, 'simulator-state.json') : null,
     log: (line) => console.log(line),
   });
   const faulty = tanks.filter((t) => t.faults.length).map((t) => `${t.serial} (${t.faults.join(', ')})`);
-  console.log(`[simulator] ${tanks.length} tanks at ${e.SIMULATOR_SPEED}× speed; injected faults: ${faulty.join('; ') || 'none'}`);
+  console.log(
+    `[simulator] ${tanks.length} tanks at ${e.SIMULATOR_SPEED}× speed; injected faults: ${faulty.join('; ') || 'none'}`,
+  );
   let stopping = false;
   const stop = async () => {
     if (stopping) return;

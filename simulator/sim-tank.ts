@@ -4,7 +4,15 @@
 // values chosen to look like real installs; they are never check values.
 import type { DemoTank, FaultKind } from '../src/lib/demo/scenario';
 import { seededRandom } from '../src/lib/demo/random';
-import { createTank, estimatedCop, sensorReadings, stepTankInPlace, tankFigures, type TankSpec, type TankState } from '../src/lib/thermal';
+import {
+  createTank,
+  estimatedCop,
+  sensorReadings,
+  stepTankInPlace,
+  tankFigures,
+  type TankSpec,
+  type TankState,
+} from '../src/lib/thermal';
 import type { CommandRequest, Reading } from '../src/lib/telemetry/wire';
 import { capabilities, hasMainSource } from '../src/lib/heat-sources';
 import { localMinuteOfDay, solarDiversion, type Diversion } from '../src/lib/energy';
@@ -105,31 +113,63 @@ export class SimTank {
   /** What the diverter did in the last step (for tests and the curious). */
   lastDiversion: Diversion['reason'] | 'element_busy' = 'no_surplus';
 
-  constructor(readonly demo: DemoTank, faults: readonly FaultKind[] = demo.faults) {
+  constructor(
+    readonly demo: DemoTank,
+    faults: readonly FaultKind[] = demo.faults,
+  ) {
     this.faults = new Set(faults);
     this.spec = {
-      volumeL: demo.volumeL, sensorCount: demo.sensorCount, heightM: demo.heightM, ambientC: 18,
+      volumeL: demo.volumeL,
+      sensorCount: demo.sensorCount,
+      heightM: demo.heightM,
+      ambientC: 18,
       // Declared standing loss is measured with the store 45 K above the room (EN 12897, from memory): UA = S / 45 K.
       uaWPerK: demo.declaredLossW / 45,
-      heatSource: demo.heatSource, hpOutputW: demo.hpOutputW, immersionW: demo.immersionW,
+      heatSource: demo.heatSource,
+      hpOutputW: demo.hpOutputW,
+      immersionW: demo.immersionW,
       immersionHeightFrac: capabilities(demo.heatSource).immersion === 'only' ? 0.15 : 0.55,
       maxFlowC: 65,
     };
     this.targetC = this.faults.has('low_setpoint') ? 45 : demo.targetC;
     this.hysteresisK = demo.hysteresisK;
     this.state = createTank(this.spec, this.targetC - 8);
-    this.rand = seededRandom(demo.serial.split('').reduce((h, c) => Math.imul(h ^ c.charCodeAt(0), 16777619), 2166136261) >>> 0);
+    this.rand = seededRandom(
+      demo.serial.split('').reduce((h, c) => Math.imul(h ^ c.charCodeAt(0), 16777619), 2166136261) >>> 0,
+    );
   }
 
   snapshot(): SimTankSnapshot {
-    return { nodesC: [...this.state.nodesC], hpOn: this.hpOn, lastStart: this.lastStart, tripUntil: this.tripUntil, boostUntil: this.boostUntil,
-      targetC: this.targetC, hysteresisK: this.hysteresisK, windows: this.windows, comfortFloorL40: this.comfortFloorL40, seq: this.seq, stuckC: this.stuckC,
-      pasteurDay: this.pasteurDay, pasteurHoldUntil: this.pasteurHoldUntil };
+    return {
+      nodesC: [...this.state.nodesC],
+      hpOn: this.hpOn,
+      lastStart: this.lastStart,
+      tripUntil: this.tripUntil,
+      boostUntil: this.boostUntil,
+      targetC: this.targetC,
+      hysteresisK: this.hysteresisK,
+      windows: this.windows,
+      comfortFloorL40: this.comfortFloorL40,
+      seq: this.seq,
+      stuckC: this.stuckC,
+      pasteurDay: this.pasteurDay,
+      pasteurHoldUntil: this.pasteurHoldUntil,
+    };
   }
 
   restore(s: SimTankSnapshot): void {
     if (s.nodesC.length === this.state.nodesC.length) this.state = { nodesC: [...s.nodesC] };
-    Object.assign(this, { hpOn: s.hpOn, lastStart: s.lastStart ?? -Infinity, tripUntil: s.tripUntil, boostUntil: s.boostUntil, targetC: s.targetC, hysteresisK: s.hysteresisK, windows: s.windows, seq: s.seq, stuckC: s.stuckC });
+    Object.assign(this, {
+      hpOn: s.hpOn,
+      lastStart: s.lastStart ?? -Infinity,
+      tripUntil: s.tripUntil,
+      boostUntil: s.boostUntil,
+      targetC: s.targetC,
+      hysteresisK: s.hysteresisK,
+      windows: s.windows,
+      seq: s.seq,
+      stuckC: s.stuckC,
+    });
     this.comfortFloorL40 = s.comfortFloorL40 ?? null;
     this.pasteurDay = s.pasteurDay ?? -1;
     this.pasteurHoldUntil = s.pasteurHoldUntil ?? 0;
@@ -219,7 +259,8 @@ export class SimTank {
     const minuteOfDay = Math.floor((t % DAY) / MIN);
     const winter = outdoorC(t) < 12;
     // In the heating season the heat pump serves the house first at the morning and evening peaks.
-    const spaceHeatingBusy = winter && (inWindow(minuteOfDay, '06:00', '08:00') || inWindow(minuteOfDay, '17:00', '20:00'));
+    const spaceHeatingBusy =
+      winter && (inWindow(minuteOfDay, '06:00', '08:00') || inWindow(minuteOfDay, '17:00', '20:00'));
     const boost = this.boostUntil > t;
     if (!boost && this.boostUntil > 0 && this.boostUntil <= t) this.boostUntil = 0;
     // Schedule windows are wall-clock times at the home (they move with British Summer Time).
@@ -241,15 +282,29 @@ export class SimTank {
       if (this.hpOn) {
         const tripped = shortCycle && t - this.runStart >= (4 + Math.floor(this.rand() * 3)) * MIN;
         if (tripped) this.tripUntil = t + 6 * MIN;
-        const satisfied = pasteur === 'heat' ? controlC >= PASTEUR_C : charging ? chargeC >= this.targetC - CHARGE_DEADBAND_K : controlC >= this.targetC;
+        const satisfied =
+          pasteur === 'heat'
+            ? controlC >= PASTEUR_C
+            : charging
+              ? chargeC >= this.targetC - CHARGE_DEADBAND_K
+              : controlC >= this.targetC;
         const allowed = scheduled || boost || pasteur === 'heat' || comfort;
         // A boost or the comfort floor takes the heat pump back from the house (hot-water priority).
-        if (satisfied || tripped || (spaceHeatingBusy && !boost && !comfort) || pasteur === 'hold' || !allowed) this.hpOn = false;
+        if (satisfied || tripped || (spaceHeatingBusy && !boost && !comfort) || pasteur === 'hold' || !allowed)
+          this.hpOn = false;
       } else {
-        const wants = controlC < this.targetC - this.hysteresisK || ((boost || comfort) && controlC < this.targetC)
-          || (charging && chargeC < this.targetC - 2 * CHARGE_DEADBAND_K) || pasteur === 'heat';
+        const wants =
+          controlC < this.targetC - this.hysteresisK ||
+          ((boost || comfort) && controlC < this.targetC) ||
+          (charging && chargeC < this.targetC - 2 * CHARGE_DEADBAND_K) ||
+          pasteur === 'heat';
         const mayStart = shortCycle ? t >= this.tripUntil : t - this.lastStart >= MIN_START_GAP_MS;
-        if (wants && mayStart && (scheduled || boost || pasteur === 'heat' || comfort) && (!spaceHeatingBusy || comfort)) {
+        if (
+          wants &&
+          mayStart &&
+          (scheduled || boost || pasteur === 'heat' || comfort) &&
+          (!spaceHeatingBusy || comfort)
+        ) {
           this.hpOn = true;
           this.lastStart = t;
           this.runStart = t;
@@ -263,7 +318,8 @@ export class SimTank {
     let immersionWhy: HeatReason | null = null;
     if (this.faults.has('immersion_stuck')) [immersionOn, immersionWhy] = [true, 'fault'];
     else if (!hasHp) {
-      if (this.immersionTopUp ? controlC >= this.targetC : controlC < this.targetC - this.hysteresisK) this.immersionTopUp = !this.immersionTopUp;
+      if (this.immersionTopUp ? controlC >= this.targetC : controlC < this.targetC - this.hysteresisK)
+        this.immersionTopUp = !this.immersionTopUp;
       if (this.immersionTopUp && scheduled) [immersionOn, immersionWhy] = [true, 'schedule'];
       else if (comfort) [immersionOn, immersionWhy] = [true, 'comfort'];
     } else {
@@ -276,14 +332,21 @@ export class SimTank {
     // A boost switches the element on (its own thermostat still caps it) as well as the heat pump;
     // so does a pasteurisation cycle, and during its hold the element keeps the store at PASTEUR_C.
     if (boost) [immersionOn, immersionWhy] = [true, 'boost'];
-    else if (pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C)) [immersionOn, immersionWhy] = [true, 'pasteurisation'];
+    else if (pasteur === 'heat' || (pasteur === 'hold' && controlC < PASTEUR_C))
+      [immersionOn, immersionWhy] = [true, 'pasteurisation'];
     // Solar surplus goes to the element through a proportional diverter, only while the water it can
     // reach has room below its thermostat (the energy core's rule); a full tank exports instead.
     const surplusW = this.demo.hasSolar ? this.solarSurplusW(t) : 0;
     let immersionPowerW: number | undefined;
     if (!immersionOn && surplusW > 0) {
-      const d = solarDiversion({ exportW: surplusW, divertingW: 0, immersionW: this.spec.immersionW, layersC: sensors,
-        volumeL: this.spec.volumeL, immersionHeightFrac: this.spec.immersionHeightFrac });
+      const d = solarDiversion({
+        exportW: surplusW,
+        divertingW: 0,
+        immersionW: this.spec.immersionW,
+        layersC: sensors,
+        volumeL: this.spec.volumeL,
+        immersionHeightFrac: this.spec.immersionHeightFrac,
+      });
       this.lastDiversion = d.reason;
       if (d.divertW > 0) {
         [immersionOn, immersionWhy] = [true, 'solar'];
@@ -299,7 +362,8 @@ export class SimTank {
     }
     while (this.plan.length > 0 && this.plan[0].at <= t) {
       const d = this.plan.shift()!;
-      if (!this.active) this.active = { remainingJ: d.energyKWh * 3.6e6, flowLpm: d.flowLpm, mixC: d.mixC, until: t + 30 * MIN };
+      if (!this.active)
+        this.active = { remainingJ: d.energyKWh * 3.6e6, flowLpm: d.flowLpm, mixC: d.mixC, until: t + 30 * MIN };
     }
     const coldC = coldWaterC(t);
     let drawLpm = 0;
@@ -312,17 +376,35 @@ export class SimTank {
 
     const flowC = pasteur === 'heat' ? 65 : Math.min(65, this.targetC + 5);
     this.lastHeat = {
-      heatPump: !this.hpOn ? null : pasteur === 'heat' ? 'pasteurisation' : boost ? 'boost' : scheduled ? 'schedule' : 'comfort',
+      heatPump: !this.hpOn
+        ? null
+        : pasteur === 'heat'
+          ? 'pasteurisation'
+          : boost
+            ? 'boost'
+            : scheduled
+              ? 'schedule'
+              : 'comfort',
       immersion: immersionWhy,
     };
-    const out = stepTankInPlace(this.spec, this.state, { dtS, coldC, drawLpm, hpOn: this.hpOn, immersionOn, hpFlowC: flowC, ...(immersionPowerW === undefined ? {} : { immersionPowerW }) });
+    const out = stepTankInPlace(this.spec, this.state, {
+      dtS,
+      coldC,
+      drawLpm,
+      hpOn: this.hpOn,
+      immersionOn,
+      hpFlowC: flowC,
+      ...(immersionPowerW === undefined ? {} : { immersionPowerW }),
+    });
     if (this.active) {
       this.active.remainingJ -= out.drawnJ;
       if (this.active.remainingJ <= 1000 || t >= this.active.until) this.active = null;
     }
 
     // What the controller reports.
-    const layers: (number | null)[] = sensorReadings(this.spec, this.state).map((c) => Math.round((c + (this.rand() - 0.5) * 0.1) * 100) / 100);
+    const layers: (number | null)[] = sensorReadings(this.spec, this.state).map(
+      (c) => Math.round((c + (this.rand() - 0.5) * 0.1) * 100) / 100,
+    );
     if (this.faults.has('sensor_open')) layers[2] = null;
     if (this.faults.has('sensor_stuck')) {
       this.stuckC ??= layers[n - 3];

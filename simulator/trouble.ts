@@ -4,13 +4,18 @@
 export class TroubleLog {
   private reason: string | null = null;
 
-  constructor(private readonly serial: string, private readonly log?: (line: string) => void) {}
+  constructor(
+    private readonly serial: string,
+    private readonly log?: (line: string) => void,
+  ) {}
 
   /** The device cannot send (refused login, lost broker, unacknowledged publish). */
   fail(reason: string): void {
     if (this.reason !== null) return;
     this.reason = reason;
-    this.log?.(`[simulator] ${this.serial} cannot send: ${reason}; its readings are kept until it can, the other tanks carry on`);
+    this.log?.(
+      `[simulator] ${this.serial} cannot send: ${reason}; its readings are kept until it can, the other tanks carry on`,
+    );
   }
 
   /** The device sent something again. */

@@ -44,7 +44,7 @@ export function pageScriptSizes(dist: string): PageScripts[] {
     for (const e of clientEntries) for (const f of closure(join(dist, 'client', e))) files.add(f);
     let bytes = 0, gzipBytes = 0;
     for (const f of files) { const b = readFileSync(f); bytes += b.length; gzipBytes += gzipSync(b).length; }
-    const page = '/' + relative(join(server, 'pages'), file).replace(/\.astro\.mjs$/, '').replace(/(^|\/)index$/, '').replace(/_([a-z]+)_/g, '[$1]');
+    const page = `/${relative(join(server, 'pages'), file).replace(/\.astro\.mjs$/, '').replace(/(^|\/)index$/, '').replace(/_([a-z]+)_/g, '[$1]')}`;
     return { page, islands: [...components].map((c) => c.split('/').pop()!).sort(), files: files.size, bytes, gzipBytes };
   }).sort((a, b) => a.page.localeCompare(b.page));
 }

@@ -58,7 +58,7 @@ export async function startPostgres(opts: { port: number; dataDir: string; fresh
       `random_page_cost = 1.1`,
       `synchronous_commit = on`,
     ].join('\n');
-    writeFileSync(join(dataDir, 'postgresql.auto.conf'), conf + '\n');
+    writeFileSync(join(dataDir, 'postgresql.auto.conf'), `${conf}\n`);
     if (isRoot()) execFileSync('chown', ['postgres:postgres', join(dataDir, 'postgresql.auto.conf')]);
   }
   if (!isRunning(dataDir)) {

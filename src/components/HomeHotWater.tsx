@@ -99,7 +99,7 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
           }}>
             <div><label className="label" htmlFor="shower-l">Litres per shower</label><input id="shower-l" name="showerL" type="number" min={5} max={300} defaultValue={assumptions.showerL} className="field" required /></div>
             <div><label className="label" htmlFor="bath-l">Litres per bath</label><input id="bath-l" name="bathL" type="number" min={20} max={400} defaultValue={assumptions.bathL} className="field" required /></div>
-            <button className="btn-primary">Save</button>
+            <button type="submit" className="btn-primary">Save</button>
             <button type="button" className="btn-quiet" onClick={() => setAssumptions(standard)}>Use standard sizes</button>
           </form>
         </details>
@@ -126,7 +126,7 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
               <option value={30}>30 minutes</option><option value={60}>1 hour</option><option value={120}>2 hours</option>
             </select>
           </div>
-          <button className="btn-primary px-6 py-3 text-base" disabled={boost.isPending || !!pendingBoost}>{boost.isPending ? 'Sending…' : 'Heat water now'}</button>
+          <button type="submit" className="btn-primary px-6 py-3 text-base" disabled={boost.isPending || !!pendingBoost}>{boost.isPending ? 'Sending…' : 'Heat water now'}</button>
         </form>
         <div aria-live="polite" className="mt-3 text-sm" data-testid="boost-status">
           {boost.isError && <p className="text-brick">{boost.error instanceof ApiError ? boost.error.message : 'The request could not be sent. Check your connection and try again.'}</p>}

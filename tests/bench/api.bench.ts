@@ -16,30 +16,36 @@ const RUNS = Number(process.env.BENCH_RUNS ?? 40);
 const PORT = benchPort(90);
 const KEEP = process.env.BENCH_KEEP === '1';
 
-async function time<T>(fn: () => Promise<T>): Promise<[number, T]> { const t = performance.now(); const r = await fn(); return [performance.now() - t, r]; }
+async function time<T>(fn: () => Promise<T>): Promise<[number, T]> {
+  const t = performance.now();
+  const r = await fn();
+  return [performance.now() - t, r];
+}
 
 async function main() {
-  await withBenchDatabase(PORT, async () => {
-    const { db, closeDb } = await import('../../src/db');
-    const { sql } = await import('drizzle-orm');
-    const { listTanks } = await import('../../src/db/queries/tanks');
-    const { fleetSummary, clearFleetSummaries } = await import('../../src/db/queries/fleet');
-    const { readingsInRange } = await import('../../src/db/queries/readings');
-    const { toSeries } = await import('../../src/lib/views/series');
-    const { tanksQuerySchema } = await import('../../src/lib/views/contracts');
-    const d = db();
+  await withBenchDatabase(
+    PORT,
+    async () => {
+      const { db, closeDb } = await import('../../src/db');
+      const { sql } = await import('drizzle-orm');
+      const { listTanks } = await import('../../src/db/queries/tanks');
+      const { fleetSummary, clearFleetSummaries } = await import('../../src/db/queries/fleet');
+      const { readingsInRange } = await import('../../src/db/queries/readings');
+      const { toSeries } = await import('../../src/lib/views/series');
+      const { tanksQuerySchema } = await import('../../src/lib/views/contracts');
+      const d = db();
 
-    const seedStart = performance.now();
-    const companyId = await seedBenchCompany(TANKS);
-    await d.execute(sql`
+      const seedStart = performance.now();
+      const companyId = await seedBenchCompany(TANKS);
+      await d.execute(sql`
       insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w)
       select ${companyId}, h.id, 'BN-' || lpad(substr(h.reference, 4), 6, '0'), 'C210 cylinder', 210, 1.4, 12,
         (case when random() < 0.1 then 'immersion_only' else 'hp_plate' end)::heat_source, 6000
       from homes h where h.company_id = ${companyId}`);
-    // Latest state: 2 % silent, 1 % with an open sensor, the rest reporting a stratified column. The
-    // writer stamps a batch's tanks with one receipt time, so reporting tanks share it in groups:
-    // 300 batches over the last minute (about 160 tanks each).
-    await d.execute(sql`
+      // Latest state: 2 % silent, 1 % with an open sensor, the rest reporting a stratified column. The
+      // writer stamps a batch's tanks with one receipt time, so reporting tanks share it in groups:
+      // 300 batches over the last minute (about 160 tanks each).
+      await d.execute(sql`
       insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, soc, v40_l, online, compressor, immersion_w)
       select t.id, now() - interval '1 minute',
         case when random() < 0.02 then now() - interval '3 hours' - random() * interval '2 days' else now() - floor(random() * 300) * interval '200 milliseconds' end,
@@ -47,25 +53,29 @@ async function main() {
              else array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[] end,
         random(), 40 + random() * 200, true, false, 0
       from tanks t where t.company_id = ${companyId}`);
-    // A day of compressor runs per tank, one start about every 3 h (some tanks every 40 min: short cycles).
-    await d.execute(sql`
+      // A day of compressor runs per tank, one start about every 3 h (some tanks every 40 min: short cycles).
+      await d.execute(sql`
       insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, complete)
       select t.id, 'compressor_run', now() - (k * case when (hashtext(t.id::text) % 50) = 0 then interval '40 minutes' else interval '3 hours' end),
         now() - (k * case when (hashtext(t.id::text) % 50) = 0 then interval '40 minutes' else interval '3 hours' end) + interval '20 minutes', 500, true
       from tanks t, generate_series(1, 8) k where t.company_id = ${companyId}`);
-    // One tank with 7 days of raw readings and 15-minute rollups for the readings call.
-    const [{ id: tankId }] = (await d.execute<{ id: string }>(sql`select id from tanks where company_id = ${companyId} order by serial limit 1`)).rows;
-    await d.execute(sql`
+      // One tank with 7 days of raw readings and 15-minute rollups for the readings call.
+      const [{ id: tankId }] = (
+        await d.execute<{ id: string }>(
+          sql`select id from tanks where company_id = ${companyId} order by serial limit 1`,
+        )
+      ).rows;
+      await d.execute(sql`
       insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, draw_dlpm)
       select ${tankId}, ts, array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[], extract(minute from ts) < 10, 0, 0
       from generate_series(now() - interval '7 days', now(), interval '1 minute') ts`);
-    await d.execute(sql`
+      await d.execute(sql`
       insert into rollups_15m (tank_id, bucket, samples, layers_avg_cc, top_min_cc, top_max_cc, compressor_samples, immersion_samples)
       select ${tankId}, b, 15, array[1500,1800,2200,2800,3500,4200,4800,5100,5300,5400,5500,5600]::smallint[], 5500, 5700, 5, 0
       from generate_series(date_trunc('hour', now()) - interval '7 days', now(), interval '15 minutes') b`);
-    // Open alerts as the rules would raise them for those tanks (offline, sensor fault, short-cycling),
-    // a few more kinds, and three months of resolved history (two a tank) that the list must skip.
-    await d.execute(sql`
+      // Open alerts as the rules would raise them for those tanks (offline, sensor fault, short-cycling),
+      // a few more kinds, and three months of resolved history (two a tank) that the list must skip.
+      await d.execute(sql`
       insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at)
       select ${companyId}, t.id, k.kind, k.severity, 'open', jsonb_build_object('summary', k.kind::text || ' (bench)', 'facts', '{}'::jsonb, 'at', 0), now() - interval '2 hours'
       from tanks t join tank_latest_state l on l.tank_id = t.id
@@ -77,68 +87,103 @@ async function main() {
         ('heat_loss', 'info', abs(hashtext(t.id::text)) % 199 = 2)
       ) as k(kind, severity, raised)
       where t.company_id = ${companyId} and k.raised`);
-    await d.execute(sql`
+      await d.execute(sql`
       insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at, resolved_at)
       select ${companyId}, t.id, (array['offline','short_cycling']::alert_kind[])[k], 'warning', 'resolved', '{"summary":"(bench)","facts":{},"at":0}'::jsonb,
         now() - make_interval(days => 10 + k * 30), now() - make_interval(days => 9 + k * 30)
       from tanks t, generate_series(1, 2) k where t.company_id = ${companyId}`);
-    await d.execute(sql`analyze`);
-    const [{ open }] = (await d.execute<{ open: number }>(sql`select count(*)::int as open from alerts where state <> 'resolved'`)).rows;
-    console.log(`seeded ${TANKS.toLocaleString('en-GB')} tanks, ${(8 * TANKS).toLocaleString('en-GB')} compressor runs, ${open.toLocaleString('en-GB')} open alerts (${(2 * TANKS).toLocaleString('en-GB')} resolved) and 7 days of one tank in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`);
+      await d.execute(sql`analyze`);
+      const [{ open }] = (
+        await d.execute<{ open: number }>(sql`select count(*)::int as open from alerts where state <> 'resolved'`)
+      ).rows;
+      console.log(
+        `seeded ${TANKS.toLocaleString('en-GB')} tanks, ${(8 * TANKS).toLocaleString('en-GB')} compressor runs, ${open.toLocaleString('en-GB')} open alerts (${(2 * TANKS).toLocaleString('en-GB')} resolved) and 7 days of one tank in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`,
+      );
 
-    console.log(`load average ${loadavg().map((x) => x.toFixed(1)).join(' / ')} on a shared machine: read the figures against it`);
-    const scope = { companyId, homeIds: null };
-    const cold: number[] = [];
-    for (let i = 0; i < 5; i++) { clearFleetSummaries(); cold.push((await time(() => fleetSummary(scope)))[0]); }
-    console.log(`GET /api/fleet/summary (cold, every tank's charge): p50 ${pct(cold, 50).toFixed(0)} ms, max ${Math.max(...cold).toFixed(0)} ms — kept 10 s, served stale up to 60 s while it refreshes`);
-
-    const cases: [string, Record<string, string>][] = [
-      ['first page, ranked by attention', {}],
-      ['page 400 ranked by attention', { page: '400' }],
-      ['page 40 by serial', { sort: 'serial', page: '40' }],
-      ['filter short-cycling', { alert: 'short_cycling' }],
-      ['status offline, by town', { status: 'offline', sort: 'town' }],
-      ['free text + town', { q: 'BN-0012', town: 'Larkholt' }],
-      ['sort by V40, 100 a page', { sort: 'v40', pageSize: '100' }],
-      ['sort by V40, most first', { sort: 'v40', dir: 'desc' }],
-      ['last reading, newest first', { sort: 'lastSeen' }],
-    ];
-    for (const [name, qs] of cases) {
-      const q = tanksQuerySchema.parse(qs);
-      const ms: number[] = [];
-      let bytes = 0;
-      let total = 0;
-      for (let i = 0; i < RUNS; i++) {
-        const [t, body] = await time(async () => JSON.stringify(await listTanks(scope, q)));
-        ms.push(t);
-        bytes = Buffer.byteLength(body);
-        total = JSON.parse(body).total;
+      console.log(
+        `load average ${loadavg()
+          .map((x) => x.toFixed(1))
+          .join(' / ')} on a shared machine: read the figures against it`,
+      );
+      const scope = { companyId, homeIds: null };
+      const cold: number[] = [];
+      for (let i = 0; i < 5; i++) {
+        clearFleetSummaries();
+        cold.push((await time(() => fleetSummary(scope)))[0]);
       }
-      console.log(`GET /api/tanks ${name.padEnd(34)} p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${bytes.toLocaleString('en-GB')} B (${total.toLocaleString('en-GB')} matching)`);
-    }
-    const tank = { id: tankId, volumeL: 210, heightM: 1.4, targetC: 55, sensorCount: 12, positionsM: Array.from({ length: 12 }, (_, i) => ((i + 0.5) / 12) * 1.4) };
-    for (const resolution of ['15m', 'raw'] as const) {
-      const to = new Date();
-      const from = new Date(to.getTime() - 7 * 86_400_000);
-      const ms: number[] = [];
-      let body = '';
-      for (let i = 0; i < Math.min(RUNS, 15); i++) {
-        const [t, b] = await time(async () => JSON.stringify(toSeries(await readingsInRange(tankId, from, to, resolution), tank, { from, to, resolution })));
-        ms.push(t);
-        body = b;
-      }
-      console.log(`GET /api/tanks/{id}/readings 7 days, ${resolution.padEnd(3)}        p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B (${gzipSync(body).length.toLocaleString('en-GB')} B gzipped), ${JSON.parse(body).t.length.toLocaleString('en-GB')} points`);
-    }
-    await closeDb();
+      console.log(
+        `GET /api/fleet/summary (cold, every tank's charge): p50 ${pct(cold, 50).toFixed(0)} ms, max ${Math.max(...cold).toFixed(0)} ms — kept 10 s, served stale up to 60 s while it refreshes`,
+      );
 
-    // The JavaScript each page sends (its islands and what they import), from the production build.
-    ensureBuild();
-    console.log('');
-    console.log('Page scripts, gzipped (React islands and their imports, counted once a page):');
-    for (const p of pageScriptSizes(buildDir()).filter((x) => x.files > 0)) {
-      console.log(`  ${p.page.padEnd(26)} ${(p.gzipBytes / 1024).toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}`);
-    }
-  }, KEEP);
+      const cases: [string, Record<string, string>][] = [
+        ['first page, ranked by attention', {}],
+        ['page 400 ranked by attention', { page: '400' }],
+        ['page 40 by serial', { sort: 'serial', page: '40' }],
+        ['filter short-cycling', { alert: 'short_cycling' }],
+        ['status offline, by town', { status: 'offline', sort: 'town' }],
+        ['free text + town', { q: 'BN-0012', town: 'Larkholt' }],
+        ['sort by V40, 100 a page', { sort: 'v40', pageSize: '100' }],
+        ['sort by V40, most first', { sort: 'v40', dir: 'desc' }],
+        ['last reading, newest first', { sort: 'lastSeen' }],
+      ];
+      for (const [name, qs] of cases) {
+        const q = tanksQuerySchema.parse(qs);
+        const ms: number[] = [];
+        let bytes = 0;
+        let total = 0;
+        for (let i = 0; i < RUNS; i++) {
+          const [t, body] = await time(async () => JSON.stringify(await listTanks(scope, q)));
+          ms.push(t);
+          bytes = Buffer.byteLength(body);
+          total = JSON.parse(body).total;
+        }
+        console.log(
+          `GET /api/tanks ${name.padEnd(34)} p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${bytes.toLocaleString('en-GB')} B (${total.toLocaleString('en-GB')} matching)`,
+        );
+      }
+      const tank = {
+        id: tankId,
+        volumeL: 210,
+        heightM: 1.4,
+        targetC: 55,
+        sensorCount: 12,
+        positionsM: Array.from({ length: 12 }, (_, i) => ((i + 0.5) / 12) * 1.4),
+      };
+      for (const resolution of ['15m', 'raw'] as const) {
+        const to = new Date();
+        const from = new Date(to.getTime() - 7 * 86_400_000);
+        const ms: number[] = [];
+        let body = '';
+        for (let i = 0; i < Math.min(RUNS, 15); i++) {
+          const [t, b] = await time(async () =>
+            JSON.stringify(
+              toSeries(await readingsInRange(tankId, from, to, resolution), tank, { from, to, resolution }),
+            ),
+          );
+          ms.push(t);
+          body = b;
+        }
+        console.log(
+          `GET /api/tanks/{id}/readings 7 days, ${resolution.padEnd(3)}        p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B (${gzipSync(body).length.toLocaleString('en-GB')} B gzipped), ${JSON.parse(body).t.length.toLocaleString('en-GB')} points`,
+        );
+      }
+      await closeDb();
+
+      // The JavaScript each page sends (its islands and what they import), from the production build.
+      ensureBuild();
+      console.log('');
+      console.log('Page scripts, gzipped (React islands and their imports, counted once a page):');
+      for (const p of pageScriptSizes(buildDir()).filter((x) => x.files > 0)) {
+        console.log(
+          `  ${p.page.padEnd(26)} ${(p.gzipBytes / 1024).toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}`,
+        );
+      }
+    },
+    KEEP,
+  );
 }
 
-main().catch((err) => { console.error(err); process.exitCode = 1; });
+main().catch((err) => {
+  console.error(err);
+  process.exitCode = 1;
+});

@@ -4,7 +4,10 @@ import { defaultDataDir, startPostgres, stopPostgres } from '../../scripts/lib/p
 import { testPortBase } from '../../scripts/lib/ports';
 
 /** The p-th percentile (0–100) of `xs`, nearest rank. */
-export const pct = (xs: number[], p: number): number => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!; };
+export const pct = (xs: number[], p: number): number => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))]!;
+};
 
 /** PostgreSQL port: `BENCH_PG_PORT`, else `offset` into the test port block (scripts/lib/ports.ts), beside other test runs. */
 export const benchPort = (offset: number): number => Number(process.env.BENCH_PG_PORT ?? testPortBase() + offset);
@@ -21,7 +24,10 @@ export async function withBenchDatabase(port: number, body: () => Promise<void>,
     await runMigrations();
     await body();
   } finally {
-    if (keep) console.log(`database kept: psql ${server.url}   (stop: runuser -u postgres -- /usr/lib/postgresql/15/bin/pg_ctl stop -D ${server.dataDir})`);
+    if (keep)
+      console.log(
+        `database kept: psql ${server.url}   (stop: runuser -u postgres -- /usr/lib/postgresql/15/bin/pg_ctl stop -D ${server.dataDir})`,
+      );
     else stopPostgres(server.dataDir);
   }
 }
@@ -31,7 +37,11 @@ export async function seedBenchCompany(homes: number): Promise<string> {
   const { db } = await import('../../src/db');
   const { sql } = await import('drizzle-orm');
   const d = db();
-  const [{ id: companyId }] = (await d.execute<{ id: string }>(sql`insert into companies (slug, name, email_domain) values ('bench', 'Bench Fleet', 'bench.example.com') returning id`)).rows;
+  const [{ id: companyId }] = (
+    await d.execute<{ id: string }>(
+      sql`insert into companies (slug, name, email_domain) values ('bench', 'Bench Fleet', 'bench.example.com') returning id`,
+    )
+  ).rows;
   await d.execute(sql`
     insert into homes (company_id, reference, address_line, town, postcode)
     select ${companyId}, 'BH-' || g, g || ' Bench Street', (array['Ashby Wend','Larkholt','Cobbmere','Tarnfield'])[1 + g % 4], 'WM1 1AA'

@@ -48,7 +48,9 @@ async function main() {
         times.push(performance.now() - t);
         outliers = r.outliers.length;
       }
-      lines.push(`  ${String(span).padStart(2)} days: p50 ${pct(times, 50).toFixed(0)} ms, p95 ${pct(times, 95).toFixed(0)} ms (${Math.min(span, DAYS) * HOMES} stored days read, ${outliers} outliers listed)`);
+      lines.push(
+        `  ${String(span).padStart(2)} days: p50 ${pct(times, 50).toFixed(0)} ms, p95 ${pct(times, 95).toFixed(0)} ms (${Math.min(span, DAYS) * HOMES} stored days read, ${outliers} outliers listed)`,
+      );
     }
 
     // The job: one local day of minute readings for JOB_TANKS tanks, queued as their hours.
@@ -59,17 +61,30 @@ async function main() {
       select t.id, ${day.toISOString()}::timestamptz + make_interval(mins => m), array[2000,3000,4000,4500,5000,5200,5400,5500]::smallint[],
         m % 180 < 30, 0, case when m % 180 < 30 then 1500 else 0 end, case when m % 240 = 0 then 80 else 0 end
       from (select id from tanks where company_id = ${companyId} limit ${JOB_TANKS}) t cross join generate_series(0, 1440) m`);
-    await d.execute(sql`insert into energy_day_dirty (tank_id, hour) select distinct tank_id, date_trunc('hour', ts) from readings on conflict do nothing`);
+    await d.execute(
+      sql`insert into energy_day_dirty (tank_id, hour) select distinct tank_id, date_trunc('hour', ts) from readings on conflict do nothing`,
+    );
     const jobStart = performance.now();
     let written = 0;
-    for (;;) { const n = await refreshEnergyDays({ limit: 2000 }); if (n.hours === 0) break; written += n.days; }
+    for (;;) {
+      const n = await refreshEnergyDays({ limit: 2000 });
+      if (n.hours === 0) break;
+      written += n.days;
+    }
     const jobMs = performance.now() - jobStart;
 
-    console.log(`\nFleet energy figures, ${HOMES.toLocaleString('en-GB')} homes × ${DAYS} stored days (seeded in ${seedS.toFixed(0)} s; load ${loadavg()[0]!.toFixed(1)} on this machine)`);
+    console.log(
+      `\nFleet energy figures, ${HOMES.toLocaleString('en-GB')} homes × ${DAYS} stored days (seeded in ${seedS.toFixed(0)} s; load ${loadavg()[0]!.toFixed(1)} on this machine)`,
+    );
     for (const l of lines) console.log(l);
-    console.log(`Energy-day job: ${written} tank-days of 1,441 readings each in ${(jobMs / 1000).toFixed(1)} s (${(jobMs / Math.max(1, written)).toFixed(1)} ms a tank-day)`);
+    console.log(
+      `Energy-day job: ${written} tank-days of 1,441 readings each in ${(jobMs / 1000).toFixed(1)} s (${(jobMs / Math.max(1, written)).toFixed(1)} ms a tank-day)`,
+    );
     await closeDb();
   });
 }
 
-main().catch((err) => { console.error(err); process.exit(1); });
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});

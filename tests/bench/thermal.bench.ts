@@ -1,7 +1,13 @@
 // Hot paths of the thermal core over a fleet. Run with `npm run bench:thermal`.
 // Figures go here, never into unit tests: the machines are shared and timings are noisy.
 import { afterAll, bench, describe } from 'vitest';
-import { createTank, mixedWaterLitres, stateOfCharge, stepTankInPlace, storedEnergyKWh } from '../../src/lib/thermal/index.js';
+import {
+  createTank,
+  mixedWaterLitres,
+  stateOfCharge,
+  stepTankInPlace,
+  storedEnergyKWh,
+} from '../../src/lib/thermal/index.js';
 import type { TankSpec } from '../../src/lib/thermal/index.js';
 
 const PROFILES = 100_000;
@@ -10,7 +16,7 @@ const STEPS_PER_DAY = 1440;
 
 // Deterministic pseudo-random profiles (a small LCG keeps runs comparable).
 let seed = 12345;
-const rand = (): number => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+const rand = (): number => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
 const profiles: number[][] = Array.from({ length: PROFILES }, () => {
   const n = 8 + Math.floor(rand() * 9);
   const interface_ = rand() * n;
@@ -40,8 +46,11 @@ function fleetDay(): number {
       else if (top > 54) hpOn = false;
       const drawing = (m > 420 && m < 432) || (m > 1260 && m < 1270) || m % 97 === 0;
       stepTankInPlace(spec, state, {
-        dtS: 60, coldC: 10, drawLpm: drawing ? 7 : 0,
-        hpOn: hpOn && spec.hpOutputW > 0, immersionOn: hpOn && spec.hpOutputW === 0,
+        dtS: 60,
+        coldC: 10,
+        drawLpm: drawing ? 7 : 0,
+        hpOn: hpOn && spec.hpOutputW > 0,
+        immersionOn: hpOn && spec.hpOutputW === 0,
       });
       steps++;
     }
@@ -50,21 +59,37 @@ function fleetDay(): number {
 }
 
 describe(`fleet computations (${PROFILES.toLocaleString('en')} tank profiles)`, () => {
-  bench('stateOfCharge', () => {
-    for (const layersC of profiles) stateOfCharge({ layersC, coldC: 10, targetC: 55 });
-  }, { iterations: 5 });
-  bench('mixedWaterLitres (V40)', () => {
-    for (const layersC of profiles) mixedWaterLitres({ layersC, volumeL: 200, coldC: 10, deliveryC: 40 });
-  }, { iterations: 5 });
-  bench('storedEnergyKWh', () => {
-    for (const layersC of profiles) storedEnergyKWh({ layersC, volumeL: 200, refC: 10 });
-  }, { iterations: 5 });
+  bench(
+    'stateOfCharge',
+    () => {
+      for (const layersC of profiles) stateOfCharge({ layersC, coldC: 10, targetC: 55 });
+    },
+    { iterations: 5 },
+  );
+  bench(
+    'mixedWaterLitres (V40)',
+    () => {
+      for (const layersC of profiles) mixedWaterLitres({ layersC, volumeL: 200, coldC: 10, deliveryC: 40 });
+    },
+    { iterations: 5 },
+  );
+  bench(
+    'storedEnergyKWh',
+    () => {
+      for (const layersC of profiles) storedEnergyKWh({ layersC, volumeL: 200, refC: 10 });
+    },
+    { iterations: 5 },
+  );
 });
 
 describe(`tank model (${FLEET} tanks × one day at 1-minute steps)`, () => {
-  bench('fleet day', () => {
-    fleetDay();
-  }, { iterations: 3 });
+  bench(
+    'fleet day',
+    () => {
+      fleetDay();
+    },
+    { iterations: 3 },
+  );
 });
 
 afterAll(() => {

@@ -8,7 +8,9 @@ import semver from 'semver';
 import { describe, expect, it } from 'vitest';
 
 const root = new URL('../..', import.meta.url).pathname;
-const lock = JSON.parse(readFileSync(join(root, 'package-lock.json'), 'utf8')) as { packages: Record<string, { optional?: boolean }> };
+const lock = JSON.parse(readFileSync(join(root, 'package-lock.json'), 'utf8')) as {
+  packages: Record<string, { optional?: boolean }>;
+};
 
 describe('dependencies on this Node.js', () => {
   it(`every installed package allows Node ${process.version}`, () => {
@@ -17,10 +19,15 @@ describe('dependencies on this Node.js', () => {
     for (const path of Object.keys(lock.packages)) {
       const manifest = join(root, path, 'package.json');
       if (!existsSync(manifest)) continue; // an optional package for another platform, not installed
-      const pkg = JSON.parse(readFileSync(manifest, 'utf8')) as { name?: string; version?: string; engines?: { node?: string } };
+      const pkg = JSON.parse(readFileSync(manifest, 'utf8')) as {
+        name?: string;
+        version?: string;
+        engines?: { node?: string };
+      };
       checked++;
       const wanted = pkg.engines?.node;
-      if (wanted && !semver.satisfies(process.version, wanted, { includePrerelease: true })) refused.push(`${pkg.name}@${pkg.version} wants node ${wanted}`);
+      if (wanted && !semver.satisfies(process.version, wanted, { includePrerelease: true }))
+        refused.push(`${pkg.name}@${pkg.version} wants node ${wanted}`);
     }
     expect(checked).toBeGreaterThan(100);
     expect(refused).toEqual([]);

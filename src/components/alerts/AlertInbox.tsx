@@ -15,7 +15,7 @@ const severityTone: Record<AlertSeverity, string> = {
   critical: 'bg-brick text-white', warning: 'bg-ochre-pale text-ink border border-ochre', info: 'bg-dusk-pale text-dusk border border-dusk',
 };
 const stateTone: Record<AlertState, string> = { open: 'text-brick font-semibold', acknowledged: 'text-ink-soft', resolved: 'text-tide-deep' };
-const fmt = (iso: string) => new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', timeZone: 'UTC' }) + ' UTC';
+const fmt = (iso: string) => `${new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', timeZone: 'UTC' })} UTC`;
 const tankLink = (a: AlertListItem) => `/tanks/${a.tank.id}?from=${new Date(a.evidence.at - 6 * 3_600_000).toISOString()}&to=${new Date(a.evidence.at + 6 * 3_600_000).toISOString()}`;
 
 function Select({ id, label, value, options, onChange }: { id: string; label: string; value: string; options: [string, string][]; onChange: (v: string) => void }) {
@@ -64,7 +64,7 @@ function AlertInbox({ towns, staff, me, initial }: Props) {
         <Select id="f-town" label="Town" value={filters.town ?? ''} onChange={(v) => set('town', v)} options={[['', 'Every town'], ...towns.map((t) => [t, t] as [string, string])]} />
       </form>
 
-      <div className="flex flex-wrap items-end gap-3" aria-label="Bulk actions">
+      <div className="flex flex-wrap items-end gap-3" role="group" aria-label="Bulk actions">
         <label className="flex items-center gap-2 text-sm">
           <input type="checkbox" checked={openIds.length > 0 && openIds.every((id) => selected.has(id))} disabled={openIds.length === 0}
             onChange={(e) => setSelected(e.target.checked ? new Set(openIds) : new Set())} /> Select all open on this page

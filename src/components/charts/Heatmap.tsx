@@ -32,6 +32,7 @@ export function Heatmap({ s, heightM, selected, onIndex }: { s: ReadingsResponse
   const onIndexRef = useRef(onIndex);
   onIndexRef.current = onIndex;
   const chartRef = useRef<uPlot | null>(null);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: the draw hook reads the selection from a ref; a new selection only asks for a redraw
   useEffect(() => { chartRef.current?.redraw(false, false); }, [selected]);
 
   const data = useMemo<uPlot.AlignedData>(() => [s.t.map((t) => t / 1000), s.t.map(() => heightM / 2)], [s, heightM]);

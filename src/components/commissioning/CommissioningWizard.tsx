@@ -38,6 +38,7 @@ function Wizard(props: Props) {
   const [uploads, setUploads] = useState<UploadItem[]>(props.uploads);
 
   // On a phone the step list scrolls sideways: keep the current step in view.
+  // biome-ignore lint/correctness/useExhaustiveDependencies: runs when the step changes, to scroll the new step into view
   useEffect(() => { document.querySelector('[aria-current="step"]')?.scrollIntoView({ block: 'nearest', inline: 'center' }); }, [step]);
   const change = useCallback((name: string, value: unknown) => setValues((v) => ({ ...v, [name]: value })), []);
   const go = (to: StepId) => { setStep(to); setValues({ ...defaults(to, data), ...data[to] }); setErrors({}); setProblem(null); window.scrollTo?.(0, 0); };

@@ -50,14 +50,14 @@ export function ConnectionCheck({ id, onReceived }: { id: string; onReceived: (r
           <p className="mt-2 text-ink-soft">{registration.notice} MQTT: user name <span className="figure">{registration.mqtt.username}</span>, topic <span className="figure">{registration.mqtt.telemetryTopic}</span>. HTTP gateways post to <span className="figure">/api/ingest</span> with the token as a Bearer token.</p>
         </div>
       )}
-      {c && c.registered && !c.received && (
+      {c?.registered && !c.received && (
         <div role="status" aria-live="polite" className="flex items-center gap-3 rounded-card border border-dashed border-line-strong p-4 text-sm">
           <span aria-hidden="true" className="h-3 w-3 animate-pulse rounded-full bg-tide" />
           Waiting for the first reading from the cylinder…
           {!registration && <button type="button" className="btn-quiet ml-auto" onClick={register} disabled={busy}>Issue a new token</button>}
         </div>
       )}
-      {c && c.registered && c.received && c.telemetry && (
+      {c?.registered && c.received && c.telemetry && (
         <div role="status" aria-live="polite" className="flex flex-wrap items-start gap-6" data-connection="received">
           <LayerColumn layersC={c.telemetry.layersC} label={`First telemetry, ${new Date(c.telemetry.ts).toLocaleTimeString('en-GB')}`} />
           <div className="text-sm">

@@ -9,7 +9,7 @@ export function ThermistorPanel({ r25Ohm, betaK, callC, satisfiedC }: { r25Ohm: 
   if ([input.sensor.r25Ohm, input.sensor.betaK, input.callC, input.satisfiedC].some(Number.isNaN)) {
     return <p className="text-sm text-ink-muted">Enter the sensor input’s curve and both temperatures to see the resistances to set.</p>;
   }
-  let working;
+  let working: ReturnType<typeof thermistorWorking>;
   try {
     working = thermistorWorking(input);
   } catch (err) {

@@ -49,8 +49,8 @@ function TariffsAdmin() {
     mutationFn: async () => fetchJson(`/api/tariffs?unit=${encodeURIComponent(form.unit)}`, { method: 'POST', headers: { accept: 'application/json', 'content-type': 'text/csv' }, body: await file!.text() }),
     onSuccess: done,
   });
-  const num = (k: 'import' | 'dayImport' | 'nightImport' | 'export') => (
-    <input className="field mt-1 w-24" type="number" step="0.01" value={form[k]} onChange={(e) => setForm({ ...form, [k]: Number(e.target.value) })} />
+  const price = (label: string, k: 'import' | 'dayImport' | 'nightImport' | 'export') => (
+    <label className="label">{label}<input className="field mt-1 w-24" type="number" step="0.01" value={form[k]} onChange={(e) => setForm({ ...form, [k]: Number(e.target.value) })} /></label>
   );
 
   return (
@@ -72,15 +72,15 @@ function TariffsAdmin() {
           <label className="label">Kind<select className="field mt-1" value={form.kind} onChange={(e) => setForm({ ...form, kind: e.target.value })}><option value="flat">Flat</option><option value="day_night">Day and night</option></select></label>
           <label className="label">Name<input className="field mt-1 w-48" value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} /></label>
           <label className="label">Unit<select className="field mt-1" value={form.unit} onChange={(e) => setForm({ ...form, unit: e.target.value })}><option>p/kWh</option><option>£/kWh</option></select></label>
-          {form.kind === 'flat' ? <label className="label">Import{num('import')}</label> : (
+          {form.kind === 'flat' ? price('Import', 'import') : (
             <>
-              <label className="label">Day import{num('dayImport')}</label>
-              <label className="label">Night import{num('nightImport')}</label>
+              {price('Day import', 'dayImport')}
+              {price('Night import', 'nightImport')}
               <label className="label">Night from<input className="field mt-1 w-24" value={form.nightStart} onChange={(e) => setForm({ ...form, nightStart: e.target.value })} /></label>
               <label className="label">Night to<input className="field mt-1 w-24" value={form.nightEnd} onChange={(e) => setForm({ ...form, nightEnd: e.target.value })} /></label>
             </>
           )}
-          <label className="label">Export{num('export')}</label>
+          {price('Export', 'export')}
           <label className="label">From<input className="field mt-1" type="date" value={form.validFrom} onChange={(e) => setForm({ ...form, validFrom: e.target.value })} /></label>
           <button type="submit" className="btn-primary" disabled={add.isPending}>Add tariff</button>
         </form>

@@ -151,7 +151,8 @@ export function TankTable({ towns }: { towns: string[] }) {
       {list.isPending ? <Loading label="Loading cylinders…" /> : list.isError && !list.data ? <ErrorNotice what="the cylinders" error={list.error} onRetry={() => list.refetch()} /> : data.length === 0 ? (
         <Empty>No cylinder matches these filters.</Empty>
       ) : (
-        <div className="max-h-[70vh] overflow-auto rounded-md border border-line" tabIndex={0} aria-label="Cylinders table, scrollable">
+        // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrolling region must take focus so a keyboard can scroll it (WCAG 2.1.1)
+        <div className="max-h-[70vh] overflow-auto rounded-md border border-line" role="region" tabIndex={0} aria-label="Cylinders table, scrollable">
           <table className="w-full border-collapse text-sm">
             <thead>
               {table.getHeaderGroups().map((hg) => (

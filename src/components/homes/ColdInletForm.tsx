@@ -17,7 +17,8 @@ function ColdInletForm({ homeId, canChange }: { homeId: string; canChange: boole
   const home = useQuery({ queryKey: key, queryFn: () => fetchJson<HomeWater>(`/api/homes/${homeId}`) });
   const [typed, setTyped] = useState('');
   const [fieldError, setFieldError] = useState<string | null>(null);
-  useEffect(() => { if (home.data) setTyped(home.data.coldInletC === null ? '' : String(home.data.coldInletC)); }, [home.data?.coldInletC]);
+  const stored = home.data?.coldInletC;
+  useEffect(() => { if (stored !== undefined) setTyped(stored === null ? '' : String(stored)); }, [stored]);
   const save = useMutation({
     mutationFn: (coldInletC: number | string | null) => fetchJson<{ tanksUpdated: number }>(`/api/homes/${homeId}`, { method: 'PATCH', body: JSON.stringify({ coldInletC }) }),
     onSuccess: () => client.invalidateQueries({ queryKey: key }),

@@ -36,7 +36,7 @@ export function RangePicker({ value, onChange, bounds }: { value: RangeChoice; o
         }}>
           <div><label className="label" htmlFor="range-from">From</label><input id="range-from" type="datetime-local" className="field py-1" value={from} onChange={(e) => setFrom(e.target.value)} aria-invalid={error?.field === 'from'} aria-describedby={error ? 'range-error' : undefined} /></div>
           <div><label className="label" htmlFor="range-to">To</label><input id="range-to" type="datetime-local" className="field py-1" value={to} onChange={(e) => setTo(e.target.value)} aria-invalid={error?.field === 'to'} aria-describedby={error ? 'range-error' : undefined} /></div>
-          <button className="btn-primary py-1.5">Show</button>
+          <button type="submit" className="btn-primary py-1.5">Show</button>
           {error && <p id="range-error" role="alert" className="w-full text-sm text-brick">{error.message}</p>}
         </form>
       )}

@@ -176,7 +176,7 @@ export async function registerInstall(companyId: string, id: string, answers: Pi
 export async function latestTelemetry(tankId: string) {
   const [row] = await db().select({ ts: tankLatestState.ts, layersCc: tankLatestState.layersCc, v40L: tankLatestState.v40L, soc: tankLatestState.soc, online: tankLatestState.online })
     .from(tankLatestState).where(eq(tankLatestState.tankId, tankId));
-  return row && row.ts && row.layersCc ? { ts: row.ts, layersC: row.layersCc.map((c) => (c === null ? null : c / 100)), v40L: row.v40L, soc: row.soc, online: row.online } : null;
+  return row?.ts && row.layersCc ? { ts: row.ts, layersC: row.layersCc.map((c) => (c === null ? null : c / 100)), v40L: row.v40L, soc: row.soc, online: row.online } : null;
 }
 
 export type SignOutcome = { ok: true; row: Commissioning } | { ok: false; reason: 'not_found' | 'locked' | 'not_registered' };

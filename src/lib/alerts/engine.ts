@@ -14,7 +14,13 @@ import { initialShortCycle, shortCycleFinding, stepShortCycle, type ShortCycleSt
 import { offlineFinding } from './rules/offline';
 import { initialSensor, sensorFinding, sensorSuspect, stepSensor, type SensorState } from './rules/sensor-fault';
 import { initialLegionella, legionellaFinding, stepLegionella, type LegionellaState } from './rules/legionella';
-import { initialLowHotWater, learnFromBatch, lowHotWaterFinding, stepLowHotWater, type LowHotWaterState } from './rules/low-hot-water';
+import {
+  initialLowHotWater,
+  learnFromBatch,
+  lowHotWaterFinding,
+  stepLowHotWater,
+  type LowHotWaterState,
+} from './rules/low-hot-water';
 import { accountBatch, immersionFinding, initialImmersion, type ImmersionState } from './rules/immersion';
 import { heatLossFinding, initialHeatLoss, stepHeatLoss, type HeatLossState } from './rules/heat-loss';
 
@@ -28,15 +34,27 @@ export interface TankFacts {
   declaredLossW: number | null;
   occupants: number;
   /** Geometry for the tank's figures (thermal `tankFigures`); absent: evenly spaced sensors in a 1 m column, target 55 °C. */
-  heightM?: number; sensorHeightsM?: readonly number[] | null; targetC?: number; coldInletC?: number | null;
+  heightM?: number;
+  sensorHeightsM?: readonly number[] | null;
+  targetC?: number;
+  coldInletC?: number | null;
 }
 
 /** The thermal core's geometry of a tank, so the rules' V40 is the figure every screen shows. */
 const figureGeometryOf = (t: TankFacts): TankGeometry => ({
-  volumeL: t.volumeL, heightM: t.heightM ?? 1, sensorCount: t.sensorCount, sensorHeightsM: t.sensorHeightsM ?? null, targetC: t.targetC ?? 55, coldInletC: t.coldInletC ?? null,
+  volumeL: t.volumeL,
+  heightM: t.heightM ?? 1,
+  sensorCount: t.sensorCount,
+  sensorHeightsM: t.sensorHeightsM ?? null,
+  targetC: t.targetC ?? 55,
+  coldInletC: t.coldInletC ?? null,
 });
 
-interface Track { activeSince: number | null; clearSince: number | null; open: boolean }
+interface Track {
+  activeSince: number | null;
+  clearSince: number | null;
+  open: boolean;
+}
 
 export interface EngineState {
   v: 1;
@@ -57,32 +75,49 @@ export type Transition =
 
 export function initialState(sensorCount: number): EngineState {
   return {
-    v: 1, lastTs: null, tracks: {},
-    shortCycle: initialShortCycle(), sensor: initialSensor(sensorCount), legionella: initialLegionella(),
-    lowHotWater: initialLowHotWater(), immersion: initialImmersion(), heatLoss: initialHeatLoss(),
+    v: 1,
+    lastTs: null,
+    tracks: {},
+    shortCycle: initialShortCycle(),
+    sensor: initialSensor(sensorCount),
+    legionella: initialLegionella(),
+    lowHotWater: initialLowHotWater(),
+    immersion: initialImmersion(),
+    heatLoss: initialHeatLoss(),
   };
 }
 
 /** Minutes a condition must hold before it opens, and be clear before it resolves (the hysteresis). */
 function delays(kind: AlertKind, th: Thresholds): { openMin: number; clearMin: number } {
   switch (kind) {
-    case 'low_hot_water': return { openMin: th.lowHotWaterMin, clearMin: 60 };
+    case 'low_hot_water':
+      return { openMin: th.lowHotWaterMin, clearMin: 60 };
     // A sensor can look right for a while (a swapped pair reads true when the tank is mixed): wait long before trusting it again.
-    case 'sensor_fault': return { openMin: 0, clearMin: 360 };
-    case 'short_cycling': return { openMin: 0, clearMin: 30 };
-    case 'offline': return { openMin: 0, clearMin: 10 };
-    default: return { openMin: 0, clearMin: 0 };
+    case 'sensor_fault':
+      return { openMin: 0, clearMin: 360 };
+    case 'short_cycling':
+      return { openMin: 0, clearMin: 30 };
+    case 'offline':
+      return { openMin: 0, clearMin: 10 };
+    default:
+      return { openMin: 0, clearMin: 0 };
   }
 }
 
 class Run {
   readonly transitions: Transition[] = [];
-  constructor(readonly s: EngineState, readonly th: Thresholds, readonly heatSource: HeatSource, openKinds: ReadonlySet<AlertKind>) {
+  constructor(
+    readonly s: EngineState,
+    readonly th: Thresholds,
+    readonly heatSource: HeatSource,
+    openKinds: ReadonlySet<AlertKind>,
+  ) {
     // Align with what is stored: a person may have resolved an alert (start afresh), or one may be open that the state forgot.
     for (const kind of alertKinds) {
       const t = s.tracks[kind];
       if (t?.open && !openKinds.has(kind)) s.tracks[kind] = { activeSince: null, clearSince: null, open: false };
-      else if (!t?.open && openKinds.has(kind)) s.tracks[kind] = { activeSince: t?.activeSince ?? null, clearSince: null, open: true };
+      else if (!t?.open && openKinds.has(kind))
+        s.tracks[kind] = { activeSince: t?.activeSince ?? null, clearSince: null, open: true };
     }
   }
 
@@ -120,7 +155,11 @@ class Run {
  * the rules themselves).
  */
 export function evaluateReadings(
-  state: EngineState | null, readings: readonly Reading[], tank: TankFacts, th: Thresholds, openKinds: ReadonlySet<AlertKind>,
+  state: EngineState | null,
+  readings: readonly Reading[],
+  tank: TankFacts,
+  th: Thresholds,
+  openKinds: ReadonlySet<AlertKind>,
 ): { state: EngineState; transitions: Transition[] } {
   const s: EngineState = state ?? initialState(tank.sensorCount);
   const run = new Run(s, th, tank.heatSource, openKinds);
@@ -150,7 +189,13 @@ export function evaluateReadings(
     s.lastTs = r.ts;
   }
   const last = fresh[fresh.length - 1]!.ts;
-  accountBatch(s.immersion, fresh, columns, { volumeL: tank.volumeL, uaWPerK: (tank.declaredLossW ?? DEFAULT_LOSS_W) / 45, ambientC: th.heatLossAmbientC }, th);
+  accountBatch(
+    s.immersion,
+    fresh,
+    columns,
+    { volumeL: tank.volumeL, uaWPerK: (tank.declaredLossW ?? DEFAULT_LOSS_W) / 45, ambientC: th.heatLossAmbientC },
+    th,
+  );
   run.apply('immersion_heavy', immersionFinding(s.immersion, last, th), last);
   run.apply('heat_loss', heatLossFinding(s.heatLoss, th), last);
   // Readings are arriving, so the tank is not offline (the clock resolves it once they have kept coming).
@@ -165,12 +210,18 @@ const DEFAULT_LOSS_W = 60;
  * legionella window running out on a tank that reports nothing new. Advances `state` in place.
  */
 export function evaluateClock(
-  state: EngineState | null, now: number, tank: TankFacts, th: Thresholds, openKinds: ReadonlySet<AlertKind>, lastReadingTs: number | null,
+  state: EngineState | null,
+  now: number,
+  tank: TankFacts,
+  th: Thresholds,
+  openKinds: ReadonlySet<AlertKind>,
+  lastReadingTs: number | null,
 ): { state: EngineState; transitions: Transition[] } {
   const s: EngineState = state ?? initialState(tank.sensorCount);
   const run = new Run(s, th, tank.heatSource, openKinds);
   const lastTs = Math.max(s.lastTs ?? -Infinity, lastReadingTs ?? -Infinity);
   run.apply('offline', offlineFinding(Number.isFinite(lastTs) ? lastTs : null, now, th), now);
-  if (!sensorSuspect(s.sensor) && s.lastTs !== null && now > s.lastTs) run.apply('legionella_risk', legionellaFinding(s.legionella, now, th), now);
+  if (!sensorSuspect(s.sensor) && s.lastTs !== null && now > s.lastTs)
+    run.apply('legionella_risk', legionellaFinding(s.legionella, now, th), now);
   return { state: s, transitions: run.transitions };
 }

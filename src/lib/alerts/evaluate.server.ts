@@ -3,7 +3,16 @@
 // come from src/db/queries/alert-evaluation.ts; the rules are the engine's.
 import { db } from '../../db';
 import { thresholdsFor } from '../../db/queries/alerts';
-import { lockAlertTank, openAlert, openAlertKinds, resolveOpenAlert, saveAlertState, storedReadingsAfter, type AlertTankRow, type StoredReadingRow } from '../../db/queries/alert-evaluation';
+import {
+  lockAlertTank,
+  openAlert,
+  openAlertKinds,
+  resolveOpenAlert,
+  saveAlertState,
+  storedReadingsAfter,
+  type AlertTankRow,
+  type StoredReadingRow,
+} from '../../db/queries/alert-evaluation';
 import { fromStored } from '../telemetry/writer.server';
 import type { Reading } from '../telemetry/wire';
 import { evaluateClock, evaluateReadings, type EngineState, type TankFacts, type Transition } from './engine';
@@ -19,27 +28,64 @@ const FIRST_LOOKBACK_MS = 8 * DAY;
 const CHUNK = 5000;
 
 const factsOf = (r: AlertTankRow): TankFacts => ({
-  volumeL: r.volume_l, sensorCount: r.sensor_count, heatSource: r.heat_source,
-  declaredLossW: r.declared_loss_w, occupants: r.occupants ?? 2,
-  heightM: r.height_m, sensorHeightsM: r.sensor_heights_m, targetC: r.target_c, coldInletC: r.cold_inlet_c,
+  volumeL: r.volume_l,
+  sensorCount: r.sensor_count,
+  heatSource: r.heat_source,
+  declaredLossW: r.declared_loss_w,
+  occupants: r.occupants ?? 2,
+  heightM: r.height_m,
+  sensorHeightsM: r.sensor_heights_m,
+  targetC: r.target_c,
+  coldInletC: r.cold_inlet_c,
 });
 
-const readingOf = (tankId: string, x: StoredReadingRow): Reading => fromStored({
-  tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
-  immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm, solarSurplusW: x.solar_surplus_w,
-});
+const readingOf = (tankId: string, x: StoredReadingRow): Reading =>
+  fromStored({
+    tankId,
+    ts: Number(x.ts_ms),
+    seq: x.seq,
+    layersCc: x.layers_cc,
+    flowCc: x.flow_cc,
+    returnCc: x.return_cc,
+    compressor: x.compressor,
+    immersionW: x.immersion_w,
+    powerW: x.power_w,
+    pumpPct: x.pump_pct,
+    drawDlpm: x.draw_dlpm,
+    solarSurplusW: x.solar_surplus_w,
+  });
 
-export interface AppliedTransition { alertId: string; tankId: string; companyId: string; kind: AlertKind; type: Transition['type']; at: number }
+export interface AppliedTransition {
+  alertId: string;
+  tankId: string;
+  companyId: string;
+  kind: AlertKind;
+  type: Transition['type'];
+  at: number;
+}
 
-async function applyTransitions(tx: Tx, tank: AlertTankRow, th: Thresholds, transitions: readonly Transition[]): Promise<AppliedTransition[]> {
+async function applyTransitions(
+  tx: Tx,
+  tank: AlertTankRow,
+  th: Thresholds,
+  transitions: readonly Transition[],
+): Promise<AppliedTransition[]> {
   const out: AppliedTransition[] = [];
   const base = { tankId: tank.id, companyId: tank.company_id };
   for (const t of transitions) {
     if (t.type === 'open') {
-      const id = await openAlert(tx, { id: tank.id, companyId: tank.company_id }, t.kind, th.severity[t.kind], t.evidence, t.at);
+      const id = await openAlert(
+        tx,
+        { id: tank.id, companyId: tank.company_id },
+        t.kind,
+        th.severity[t.kind],
+        t.evidence,
+        t.at,
+      );
       if (id) out.push({ ...base, alertId: id, kind: t.kind, type: 'open', at: t.at });
     } else {
-      for (const id of await resolveOpenAlert(tx, tank.id, t.kind, t.at)) out.push({ ...base, alertId: id, kind: t.kind, type: 'resolve', at: t.at });
+      for (const id of await resolveOpenAlert(tx, tank.id, t.kind, t.at))
+        out.push({ ...base, alertId: id, kind: t.kind, type: 'resolve', at: t.at });
     }
   }
   return out;
@@ -56,18 +102,26 @@ export async function evaluateTankReadings(tankId: string): Promise<AppliedTrans
     const th = await thresholdsFor(tank.company_id);
     const open = await openAlertKinds(tx, tankId);
     let state = tank.state as EngineState | null;
-    const from = tank.evaluated_ms !== null ? Number(tank.evaluated_ms) : tank.latest_ms !== null ? Number(tank.latest_ms) - FIRST_LOOKBACK_MS : null;
+    const from =
+      tank.evaluated_ms !== null
+        ? Number(tank.evaluated_ms)
+        : tank.latest_ms !== null
+          ? Number(tank.latest_ms) - FIRST_LOOKBACK_MS
+          : null;
     if (from === null) return [];
     let after = from;
     const applied: AppliedTransition[] = [];
     for (;;) {
-      const readings: Reading[] = (await storedReadingsAfter(tx, tankId, after, CHUNK)).map((x) => readingOf(tankId, x));
+      const readings: Reading[] = (await storedReadingsAfter(tx, tankId, after, CHUNK)).map((x) =>
+        readingOf(tankId, x),
+      );
       if (readings.length === 0) break;
       const res = evaluateReadings(state, readings, factsOf(tank), th, open);
       state = res.state;
       for (const a of await applyTransitions(tx, tank, th, res.transitions)) {
         applied.push(a);
-        if (a.type === 'open') open.add(a.kind); else open.delete(a.kind);
+        if (a.type === 'open') open.add(a.kind);
+        else open.delete(a.kind);
       }
       after = readings[readings.length - 1]!.ts;
       if (readings.length < CHUNK) break;
@@ -90,8 +144,18 @@ export async function evaluateTankClock(tankId: string, at: number | (() => numb
     const open = await openAlertKinds(tx, tankId);
     // Offline means nothing heard: a tank replaying its backlog (old readings, received now) is online.
     // Receipt times later than `now` (a clock run on simulated past time) are no evidence either way.
-    const heard = [tank.latest_ms, tank.seen_ms].filter((v): v is string => v !== null).map(Number).filter((ms) => ms <= now);
-    const res = evaluateClock(tank.state as EngineState | null, now, factsOf(tank), th, open, heard.length ? Math.max(...heard) : null);
+    const heard = [tank.latest_ms, tank.seen_ms]
+      .filter((v): v is string => v !== null)
+      .map(Number)
+      .filter((ms) => ms <= now);
+    const res = evaluateClock(
+      tank.state as EngineState | null,
+      now,
+      factsOf(tank),
+      th,
+      open,
+      heard.length ? Math.max(...heard) : null,
+    );
     const applied = await applyTransitions(tx, tank, th, res.transitions);
     await saveAlertState(tx, tankId, res.state);
     return applied;

@@ -3,7 +3,13 @@
 // they opted out). Every notice is claimed in the notification log before it is sent, so each goes
 // out once however many processes run this; a failed send gives its claim back for the next run.
 import {
-  alertsAwaiting, claimNotification, companiesWithAlerts, digestContent, householdersToNotify, releaseNotification, staffWithRole,
+  alertsAwaiting,
+  claimNotification,
+  companiesWithAlerts,
+  digestContent,
+  householdersToNotify,
+  releaseNotification,
+  staffWithRole,
   type NotifiableAlert,
 } from '../../db/queries/alerts';
 import { siteUrl } from '../accounts/invitations';
@@ -18,8 +24,18 @@ const IMMEDIATE_WITHIN_MS = 24 * HOUR;
 export const DIGEST_HOUR_UTC = 7;
 
 /** The tank view at the evidence's time. */
-export const tankUrl = (tankId: string, at: number) => siteUrl(`/tanks/${tankId}?from=${new Date(at - 6 * HOUR).toISOString()}&to=${new Date(at + 6 * HOUR).toISOString()}`);
-const toMail = (a: NotifiableAlert): MailAlert => ({ kind: a.kind, severity: a.severity, serial: a.serial, homeLabel: a.homeLabel, openedAt: a.openedAt, resolvedAt: a.resolvedAt, evidence: a.evidence, url: tankUrl(a.tankId, a.evidence.at) });
+export const tankUrl = (tankId: string, at: number) =>
+  siteUrl(`/tanks/${tankId}?from=${new Date(at - 6 * HOUR).toISOString()}&to=${new Date(at + 6 * HOUR).toISOString()}`);
+const toMail = (a: NotifiableAlert): MailAlert => ({
+  kind: a.kind,
+  severity: a.severity,
+  serial: a.serial,
+  homeLabel: a.homeLabel,
+  openedAt: a.openedAt,
+  resolvedAt: a.resolvedAt,
+  evidence: a.evidence,
+  url: tankUrl(a.tankId, a.evidence.at),
+});
 
 async function claimAll(claims: Parameters<typeof claimNotification>[0][]): Promise<typeof claims> {
   const won: typeof claims = [];
@@ -27,13 +43,19 @@ async function claimAll(claims: Parameters<typeof claimNotification>[0][]): Prom
   return won;
 }
 
-async function send(claims: Parameters<typeof claimNotification>[0][], mail: Parameters<typeof sendMail>[0], log: (l: string) => void): Promise<boolean> {
+async function send(
+  claims: Parameters<typeof claimNotification>[0][],
+  mail: Parameters<typeof sendMail>[0],
+  log: (l: string) => void,
+): Promise<boolean> {
   try {
     await sendMail(mail);
     return true;
   } catch (err) {
     for (const c of claims) await releaseNotification(c.dedupeKey);
-    log(`[alerts] could not send "${mail.subject}" to ${mail.to} (will retry): ${err instanceof Error ? err.message : String(err)}`);
+    log(
+      `[alerts] could not send "${mail.subject}" to ${mail.to} (will retry): ${err instanceof Error ? err.message : String(err)}`,
+    );
     return false;
   }
 }
@@ -46,10 +68,24 @@ export async function sendSevereNotices(now: number, log: (l: string) => void = 
   for (const a of pending) byCompany.set(a.companyId, [...(byCompany.get(a.companyId) ?? []), a]);
   for (const [companyId, alerts] of byCompany) {
     for (const op of await staffWithRole(companyId, 'operator')) {
-      const claims = await claimAll(alerts.map((a) => ({ companyId, alertId: a.id, userId: op.userId, email: op.email, channel: 'immediate' as const, dedupeKey: `immediate:${a.id}:${op.userId}`, subject: `Severe: ${alertLabels[a.kind]} at ${a.serial}` })));
+      const claims = await claimAll(
+        alerts.map((a) => ({
+          companyId,
+          alertId: a.id,
+          userId: op.userId,
+          email: op.email,
+          channel: 'immediate' as const,
+          dedupeKey: `immediate:${a.id}:${op.userId}`,
+          subject: `Severe: ${alertLabels[a.kind]} at ${a.serial}`,
+        })),
+      );
       const mine = alerts.filter((a) => claims.some((c) => c.alertId === a.id));
       if (mine.length === 0) continue;
-      const mail = severeAlertsMail(mine[0]!.companyName, mine.map(toMail), siteUrl('/alerts?state=active&severity=critical'));
+      const mail = severeAlertsMail(
+        mine[0]!.companyName,
+        mine.map(toMail),
+        siteUrl('/alerts?state=active&severity=critical'),
+      );
       if (await send(claims, { to: op.email, companyId, ...mail }, log)) sent++;
     }
   }
@@ -64,7 +100,17 @@ export async function sendHouseholderNotices(now: number, log: (l: string) => vo
     const mail = householderMail(a.kind, siteUrl('/home'), siteUrl('/alerts/preferences'));
     if (!mail) continue;
     for (const h of await householdersToNotify(a.tankId)) {
-      const claims = await claimAll([{ companyId: a.companyId, alertId: a.id, userId: h.userId, email: h.email, channel: 'householder', dedupeKey: `householder:${a.id}:${h.userId}`, subject: mail.subject }]);
+      const claims = await claimAll([
+        {
+          companyId: a.companyId,
+          alertId: a.id,
+          userId: h.userId,
+          email: h.email,
+          channel: 'householder',
+          dedupeKey: `householder:${a.id}:${h.userId}`,
+          subject: mail.subject,
+        },
+      ]);
       if (claims.length && (await send(claims, { to: h.email, companyId: a.companyId, ...mail }, log))) sent++;
     }
   }
@@ -72,7 +118,11 @@ export async function sendHouseholderNotices(now: number, log: (l: string) => vo
 }
 
 /** The daily digest of each company with alerts, once a day from DIGEST_HOUR_UTC on. */
-export async function sendDigests(now: number, log: (l: string) => void = console.log, opts: { companyId?: string } = {}): Promise<number> {
+export async function sendDigests(
+  now: number,
+  log: (l: string) => void = console.log,
+  opts: { companyId?: string } = {},
+): Promise<number> {
   const dayStart = Math.floor((now - DIGEST_HOUR_UTC * HOUR) / (24 * HOUR)) * 24 * HOUR;
   const to = new Date(dayStart + DIGEST_HOUR_UTC * HOUR);
   const from = new Date(to.getTime() - 24 * HOUR);
@@ -84,7 +134,17 @@ export async function sendDigests(now: number, log: (l: string) => void = consol
     if (opened.length === 0 && stillOpen === 0) continue;
     const mail = digestMail(c.name, day, opened.map(toMail), stillOpen, siteUrl('/alerts'));
     for (const op of await staffWithRole(c.id, 'operator')) {
-      const claims = await claimAll([{ companyId: c.id, alertId: null, userId: op.userId, email: op.email, channel: 'digest', dedupeKey: `digest:${c.id}:${day}:${op.userId}`, subject: mail.subject }]);
+      const claims = await claimAll([
+        {
+          companyId: c.id,
+          alertId: null,
+          userId: op.userId,
+          email: op.email,
+          channel: 'digest',
+          dedupeKey: `digest:${c.id}:${day}:${op.userId}`,
+          subject: mail.subject,
+        },
+      ]);
       if (claims.length && (await send(claims, { to: op.email, companyId: c.id, ...mail }, log))) sent++;
     }
   }

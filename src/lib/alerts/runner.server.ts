@@ -41,8 +41,14 @@ export class BatchEvaluator {
 
   /** The ingest worker's hook: call with the topics of a committed batch. */
   evaluateOnBatch(topics: readonly string[]): void {
-    void tankIdsOf(topics).then((ids) => { for (const id of ids) this.dirty.add(id); this.kick(); })
-      .catch((err) => this.log(`[alerts] could not look up tanks of a batch: ${err instanceof Error ? err.message : String(err)}`));
+    void tankIdsOf(topics)
+      .then((ids) => {
+        for (const id of ids) this.dirty.add(id);
+        this.kick();
+      })
+      .catch((err) =>
+        this.log(`[alerts] could not look up tanks of a batch: ${err instanceof Error ? err.message : String(err)}`),
+      );
   }
 
   /** Resolves when everything queued so far has been evaluated. */
@@ -57,14 +63,20 @@ export class BatchEvaluator {
         const ids = [...this.dirty];
         this.dirty.clear();
         for (const id of ids) {
-          try { await evaluateTankReadings(id); } catch (err) {
+          try {
+            await evaluateTankReadings(id);
+          } catch (err) {
             this.dirty.add(id); // its readings stay unevaluated; try again with the next batch or tick
-            this.log(`[alerts] evaluation of tank ${id} failed (will retry): ${err instanceof Error ? err.message : String(err)}`);
+            this.log(
+              `[alerts] evaluation of tank ${id} failed (will retry): ${err instanceof Error ? err.message : String(err)}`,
+            );
             await new Promise((r) => setTimeout(r, 1000));
           }
         }
       }
-    })().finally(() => { this.running = null; });
+    })().finally(() => {
+      this.running = null;
+    });
   }
 }
 
@@ -75,7 +87,10 @@ export class BatchEvaluator {
  * a backfill takes minutes, and each tank must be judged at the moment it is looked at, or a tank
  * heard during the turn would look silent since its newest (old) reading.
  */
-export async function runClock(now: number | (() => number), opts: { companyId?: string; log?: (line: string) => void } = {}): Promise<{ transitions: AppliedTransition[]; mails: number }> {
+export async function runClock(
+  now: number | (() => number),
+  opts: { companyId?: string; log?: (line: string) => void } = {},
+): Promise<{ transitions: AppliedTransition[]; mails: number }> {
   const log = opts.log ?? console.log;
   const transitions: AppliedTransition[] = [];
   for (const t of await tanksForClock(opts.companyId)) {
@@ -83,7 +98,10 @@ export async function runClock(now: number | (() => number), opts: { companyId?:
     transitions.push(...(await evaluateTankClock(t.id, now)));
   }
   const at = typeof now === 'function' ? now() : now;
-  const mails = (await sendSevereNotices(at, log)) + (await sendHouseholderNotices(at, log)) + (await sendDigests(at, log, { companyId: opts.companyId }));
+  const mails =
+    (await sendSevereNotices(at, log)) +
+    (await sendHouseholderNotices(at, log)) +
+    (await sendDigests(at, log, { companyId: opts.companyId }));
   return { transitions, mails };
 }
 
@@ -91,7 +109,10 @@ export async function runClock(now: number | (() => number), opts: { companyId?:
 export class AlertClock {
   private timer: NodeJS.Timeout | null = null;
   private busy = false;
-  constructor(private readonly intervalMs: number, private readonly log: (line: string) => void = console.log) {}
+  constructor(
+    private readonly intervalMs: number,
+    private readonly log: (line: string) => void = console.log,
+  ) {}
 
   start(): void {
     if (this.intervalMs <= 0) return;
@@ -99,8 +120,12 @@ export class AlertClock {
       if (this.busy) return; // a slow turn is skipped rather than piled up
       this.busy = true;
       runClock(Date.now, { log: this.log })
-        .catch((err) => this.log(`[alerts] clock turn failed (will retry): ${err instanceof Error ? err.message : String(err)}`))
-        .finally(() => { this.busy = false; });
+        .catch((err) =>
+          this.log(`[alerts] clock turn failed (will retry): ${err instanceof Error ? err.message : String(err)}`),
+        )
+        .finally(() => {
+          this.busy = false;
+        });
     }, this.intervalMs);
   }
 

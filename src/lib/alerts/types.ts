@@ -1,7 +1,15 @@
 // Names shared by the rules, the schema and the pages. Pure: no I/O.
 import type { EngineState } from './engine';
 
-export const alertKinds = ['offline', 'sensor_fault', 'legionella_risk', 'short_cycling', 'low_hot_water', 'immersion_heavy', 'heat_loss'] as const;
+export const alertKinds = [
+  'offline',
+  'sensor_fault',
+  'legionella_risk',
+  'short_cycling',
+  'low_hot_water',
+  'immersion_heavy',
+  'heat_loss',
+] as const;
 export type AlertKind = (typeof alertKinds)[number];
 
 export const alertSeverities = ['critical', 'warning', 'info'] as const;
@@ -21,8 +29,16 @@ export const alertLabels: Record<AlertKind, string> = {
   heat_loss: 'Heat loss above declared',
 };
 
-export const severityLabels: Record<AlertSeverity, string> = { critical: 'Severe', warning: 'Warning', info: 'Advisory' };
-export const stateLabels: Record<AlertState, string> = { open: 'Open', acknowledged: 'Acknowledged', resolved: 'Resolved' };
+export const severityLabels: Record<AlertSeverity, string> = {
+  critical: 'Severe',
+  warning: 'Warning',
+  info: 'Advisory',
+};
+export const stateLabels: Record<AlertState, string> = {
+  open: 'Open',
+  acknowledged: 'Acknowledged',
+  resolved: 'Resolved',
+};
 
 /** The kinds a householder is told about, in plain words (the rest are for the installer). */
 export const householderKinds: readonly AlertKind[] = ['legionella_risk', 'low_hot_water', 'immersion_heavy'];

@@ -1,10 +1,10 @@
 // The e-mail that carries the commissioning record to the householder (the invitation to
 // Heatlayer itself goes by the accounts invitation path, in its own message).
+import { escapeHtml } from '../mail/html';
 import type { MailContent } from '../mail/messages';
 import { LEGIONELLA_GUIDANCE, SCALD_CAUTION } from './cautions';
 import type { SignedRecord } from './record';
 
-const escape = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 export function handoverMail(r: SignedRecord): MailContent {
   const paragraphs = [
@@ -17,6 +17,6 @@ export function handoverMail(r: SignedRecord): MailContent {
   return {
     subject: `Your cylinder’s commissioning record from ${r.companyName}`,
     text: paragraphs.join('\n\n'),
-    html: `<!doctype html><html><body style="font-family:sans-serif;color:#15232c">${paragraphs.map((p) => `<p>${escape(p)}</p>`).join('')}</body></html>`,
+    html: `<!doctype html><html><body style="font-family:sans-serif;color:#15232c">${paragraphs.map((p) => `<p>${escapeHtml(p)}</p>`).join('')}</body></html>`,
   };
 }

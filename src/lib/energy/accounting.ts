@@ -49,7 +49,8 @@ export interface AccountDayOptions {
 /** Energy and cost of one home's hot water over one day. Energies kWh, money pence. */
 export interface DayEnergy {
   /** Local calendar date, "YYYY-MM-DD". */ date: string;
-  /** Bounds of the day, epoch ms. */ startMs: number; endMs: number;
+  /** Bounds of the day, epoch ms. */ startMs: number;
+  endMs: number;
   /** Heat into the water from the heat pump, kWh. */ heatPumpHeatKWh: number;
   /** Heat from the immersion on grid electricity, kWh. */ immersionGridHeatKWh: number;
   /** Heat from the immersion on diverted solar surplus (free), kWh. */ immersionSolarHeatKWh: number;
@@ -84,7 +85,12 @@ function layerMean(layersC: readonly number[], shares: readonly number[] | null)
  * force at each half hour (`tariffs` as for priceAt); diverted solar costs nothing. Throws
  * EnergyInputError naming the first unusable reading field.
  */
-export function accountDay(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, options: AccountDayOptions): DayEnergy {
+export function accountDay(
+  readings: readonly EnergyReading[],
+  tank: AccountingTank,
+  tariffs: Tariffs,
+  options: AccountDayOptions,
+): DayEnergy {
   const startMs = epochMs('options.startMs', options.startMs);
   const endMs = epochMs('options.endMs', options.endMs);
   if (endMs <= startMs) throw new EnergyInputError('options.endMs', 'options.endMs must be after options.startMs.');
@@ -105,12 +111,26 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
   for (let i = 0; i < readings.length; i++) {
     const r = readings[i]!;
     epochMs(`readings[${i}].ts`, r.ts);
-    if (i > 0 && r.ts <= readings[i - 1]!.ts) throw new EnergyInputError(`readings[${i}].ts`, `readings[${i}].ts is not after the reading before it: readings must be sorted by time without duplicates.`);
-    if (!Array.isArray(r.layersC) || r.layersC.length !== n || n === 0) throw new EnergyInputError(`readings[${i}].layersC`, `readings[${i}].layersC must hold ${n || 'one or more'} layer temperatures, bottom to top, like the first reading.`);
+    if (i > 0 && r.ts <= readings[i - 1]!.ts)
+      throw new EnergyInputError(
+        `readings[${i}].ts`,
+        `readings[${i}].ts is not after the reading before it: readings must be sorted by time without duplicates.`,
+      );
+    if (!Array.isArray(r.layersC) || r.layersC.length !== n || n === 0)
+      throw new EnergyInputError(
+        `readings[${i}].layersC`,
+        `readings[${i}].layersC must hold ${n || 'one or more'} layer temperatures, bottom to top, like the first reading.`,
+      );
     for (const field of ['immersionW', 'powerW', 'drawLpm', 'solarSurplusW'] as const) {
-      if (r[field] !== undefined) finite(`readings[${i}].${field}`, r[field], field === 'drawLpm' ? 'litres per minute' : 'W');
+      if (r[field] !== undefined)
+        finite(`readings[${i}].${field}`, r[field], field === 'drawLpm' ? 'litres per minute' : 'W');
     }
-    energies[i] = storedEnergyKWh({ layersC: r.layersC, volumeL, refC: coldC, ...(tank.heightsM ? { heightsM: tank.heightsM } : {}) });
+    energies[i] = storedEnergyKWh({
+      layersC: r.layersC,
+      volumeL,
+      refC: coldC,
+      ...(tank.heightsM ? { heightsM: tank.heightsM } : {}),
+    });
   }
 
   const slotGrid = new Map<number, { hp: number; imm: number; solar: number }>();
@@ -128,8 +148,18 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
     }
   };
 
-  let hpHeat = 0, immGrid = 0, immSolar = 0, drawn = 0, loss = 0, residual = 0, hpElec = 0, covered = 0, gap = 0;
-  let firstE: number | null = null, lastE = 0, lastCompressorMs = -Infinity;
+  let hpHeat = 0,
+    immGrid = 0,
+    immSolar = 0,
+    drawn = 0,
+    loss = 0,
+    residual = 0,
+    hpElec = 0,
+    covered = 0,
+    gap = 0;
+  let firstE: number | null = null,
+    lastE = 0,
+    lastCompressorMs = -Infinity;
   for (let i = 0; i + 1 < readings.length; i++) {
     const r = readings[i]!;
     if (r.ts < startMs || r.ts >= endMs) continue;
@@ -149,7 +179,7 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
     const top = r.layersC[n - 1]!;
     const lift = Math.max(0, top - coldC);
     const drawL = Math.max(0, r.drawLpm ?? 0) * (dtMs / 60_000);
-    const qDraw = (drawL / 1000) * waterDensity(top) * waterCp((top + coldC) / 2) * lift / J_PER_KWH;
+    const qDraw = ((drawL / 1000) * waterDensity(top) * waterCp((top + coldC) / 2) * lift) / J_PER_KWH;
     const qLoss = (ua * (layerMean(r.layersC, shares) - ambientC) * hours) / 1000;
     const immW = Math.max(0, r.immersionW ?? 0);
     const solarW = Math.min(immW, Math.max(0, r.solarSurplusW ?? 0));
@@ -166,7 +196,10 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
     addToSlots(r.ts, next.ts, hpW, immW - solarW, solarW);
   }
 
-  let hpCost = 0, immCost = 0, forgone = 0, unpriced = 0;
+  let hpCost = 0,
+    immCost = 0,
+    forgone = 0,
+    unpriced = 0;
   for (const [slot, e] of slotGrid) {
     const p = priceAt(tariffs, slot * HALF_HOUR_MS);
     if (!p) {
@@ -180,7 +213,9 @@ export function accountDay(readings: readonly EnergyReading[], tank: AccountingT
 
   const heatIn = hpHeat + immGrid + immSolar;
   return {
-    date: options.date, startMs, endMs,
+    date: options.date,
+    startMs,
+    endMs,
     heatPumpHeatKWh: hpHeat,
     immersionGridHeatKWh: immGrid,
     immersionSolarHeatKWh: immSolar,
@@ -211,10 +246,25 @@ export interface MonthEnergy extends Omit<DayEnergy, 'date' | 'startMs' | 'endMs
 }
 
 const SUMMED = [
-  'heatPumpHeatKWh', 'immersionGridHeatKWh', 'immersionSolarHeatKWh', 'heatInKWh', 'drawnKWh', 'drawnLitres40',
-  'standingLossKWh', 'storedChangeKWh', 'residualKWh', 'heatPumpElectricityKWh', 'immersionGridElectricityKWh',
-  'immersionSolarElectricityKWh', 'heatPumpCostPence', 'immersionCostPence', 'costPence', 'solarExportForgonePence',
-  'unpricedKWh', 'coveredMinutes', 'gapMinutes',
+  'heatPumpHeatKWh',
+  'immersionGridHeatKWh',
+  'immersionSolarHeatKWh',
+  'heatInKWh',
+  'drawnKWh',
+  'drawnLitres40',
+  'standingLossKWh',
+  'storedChangeKWh',
+  'residualKWh',
+  'heatPumpElectricityKWh',
+  'immersionGridElectricityKWh',
+  'immersionSolarElectricityKWh',
+  'heatPumpCostPence',
+  'immersionCostPence',
+  'costPence',
+  'solarExportForgonePence',
+  'unpricedKWh',
+  'coveredMinutes',
+  'gapMinutes',
 ] as const;
 
 /** Sum days into calendar months (by each day's local date), oldest first; the month's DHW COP is its heat-pump heat over its heat-pump electricity. */

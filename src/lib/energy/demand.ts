@@ -72,14 +72,20 @@ export function learnDemand(readings: readonly EnergyReading[], options: LearnDe
   for (let i = 0; i + 1 < readings.length; i++) {
     const r = readings[i]!;
     const dtMs = readings[i + 1]!.ts - r.ts;
-    if (!(dtMs > 0)) throw new EnergyInputError(`readings[${i + 1}].ts`, `readings[${i + 1}].ts is not after the reading before it: readings must be sorted by time without duplicates.`);
+    if (!(dtMs > 0))
+      throw new EnergyInputError(
+        `readings[${i + 1}].ts`,
+        `readings[${i + 1}].ts is not after the reading before it: readings must be sorted by time without duplicates.`,
+      );
     if (dtMs > maxGapMs) continue;
     const h = localHourOfWeek(r.ts, timeZone);
     hours[h]! += dtMs / 3_600_000;
     const lpm = r.drawLpm ?? 0;
     if (lpm > 0) {
       const top = r.layersC[r.layersC.length - 1]!;
-      const kWh = ((lpm * dtMs) / 60_000 / 1000) * waterDensity(top) * waterCp((top + coldC) / 2) * Math.max(0, top - coldC) / J_PER_KWH;
+      const kWh =
+        (((lpm * dtMs) / 60_000 / 1000) * waterDensity(top) * waterCp((top + coldC) / 2) * Math.max(0, top - coldC)) /
+        J_PER_KWH;
       litres[h]! += kWh / perLitre;
     }
   }
@@ -93,7 +99,8 @@ export function learnDemand(readings: readonly EnergyReading[], options: LearnDe
  */
 export function demandSeries(model: DemandModel, startMs: number, steps: number, stepMin = 30): number[] {
   wholeIn('steps', steps, 1, 7 * 24 * 60);
-  if (60 % stepMin !== 0) throw new EnergyInputError('stepMin', `stepMin is ${stepMin}: it must divide an hour (5, 10, 15, 20, 30 or 60).`);
+  if (60 % stepMin !== 0)
+    throw new EnergyInputError('stepMin', `stepMin is ${stepMin}: it must divide an hour (5, 10, 15, 20, 30 or 60).`);
   const out = new Array<number>(steps);
   for (let i = 0; i < steps; i++) {
     const ms = startMs + i * stepMin * 60_000;

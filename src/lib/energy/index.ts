@@ -4,13 +4,38 @@
 // (demand and V40 as litres of mixed water at 40 °C), times epoch ms (UTC), temperatures °C.
 export { EnergyInputError } from './errors.js';
 export { HALF_HOUR_MS, PENCE_PER_POUND, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
-export { zoneOffsetMs, localMinuteOfDay, localHourOfWeek, localDate, localDayBounds, isTimeZone } from './local-time.js';
+export {
+  zoneOffsetMs,
+  localMinuteOfDay,
+  localHourOfWeek,
+  localDate,
+  localDayBounds,
+  isTimeZone,
+} from './local-time.js';
 
 export {
-  priceUnits, MAX_PRICE_PENCE, MIN_NEGATIVE_PRICE_PENCE, pencePerUnit,
-  flatTariffInput, dayNightTariffInput, tariffInput, parseTariff, priceAt, importPriceSeries,
+  priceUnits,
+  MAX_PRICE_PENCE,
+  MIN_NEGATIVE_PRICE_PENCE,
+  pencePerUnit,
+  flatTariffInput,
+  dayNightTariffInput,
+  tariffInput,
+  parseTariff,
+  priceAt,
+  importPriceSeries,
 } from './tariff.js';
-export type { PriceUnit, FlatTariff, DayNightTariff, HalfHourlyTariff, Tariff, TariffLayers, Tariffs, Price, FieldError } from './tariff.js';
+export type {
+  PriceUnit,
+  FlatTariff,
+  DayNightTariff,
+  HalfHourlyTariff,
+  Tariff,
+  TariffLayers,
+  Tariffs,
+  Price,
+  FieldError,
+} from './tariff.js';
 export { parseHalfHourlyCsv, MAX_CSV_ROWS } from './tariff-csv.js';
 export type { TariffRowError, HalfHourlyCsvOptions } from './tariff-csv.js';
 
@@ -21,13 +46,28 @@ export { HOURS_PER_WEEK, occupantScale, demandPrior, learnDemand, demandSeries }
 export type { DemandModel, LearnDemandOptions } from './demand.js';
 
 export { planCharge } from './planner.js';
-export type { ChargePlanInput, ChargePlan, PlanStep, BaselineResult, HeatSourceLimits, CompressorMemory, PlannerTuning } from './planner.js';
+export type {
+  ChargePlanInput,
+  ChargePlan,
+  PlanStep,
+  BaselineResult,
+  HeatSourceLimits,
+  CompressorMemory,
+  PlannerTuning,
+} from './planner.js';
 export { buildPlanModel, v40Curve, PLAN_ACTIONS } from './plan-model.js';
 export type { PlanModel, PlanModelInput, PlanAction, Transition, V40Curve } from './plan-model.js';
 export { solveDp, nextMemory } from './plan-dp.js';
 export type { DpResult, DpSettings, StartMemory } from './plan-dp.js';
 export { simulate, baselineController, MAX_DRAW_LPM } from './plan-simulation.js';
-export type { BaselineRule, Controller, SimulationInput, Simulation, SimulatedStep, SourceCommand } from './plan-simulation.js';
+export type {
+  BaselineRule,
+  Controller,
+  SimulationInput,
+  Simulation,
+  SimulatedStep,
+  SourceCommand,
+} from './plan-simulation.js';
 export { commandSchedule } from './schedule.js';
 export type { CommandWindow } from './schedule.js';
 

@@ -14,11 +14,20 @@ function formatter(timeZone: string): Intl.DateTimeFormat {
   if (!f) {
     try {
       f = new Intl.DateTimeFormat('en-GB', {
-        timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit',
-        hour: '2-digit', minute: '2-digit', second: '2-digit',
+        timeZone,
+        hourCycle: 'h23',
+        year: 'numeric',
+        month: '2-digit',
+        day: '2-digit',
+        hour: '2-digit',
+        minute: '2-digit',
+        second: '2-digit',
       });
     } catch {
-      throw new EnergyInputError('timeZone', `timeZone is ${timeZone}: it must be an IANA time-zone name such as Europe/London.`);
+      throw new EnergyInputError(
+        'timeZone',
+        `timeZone is ${timeZone}: it must be an IANA time-zone name such as Europe/London.`,
+      );
     }
     formatters.set(timeZone, f);
   }

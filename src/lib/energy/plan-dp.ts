@@ -42,7 +42,12 @@ export interface DpResult {
 const EPS = 1e-9;
 
 /** Memory after `action` from (running, m); null when the action is a start the spacing forbids. */
-export function nextMemory(running: boolean, m: number, action: PlanAction, k: number): { running: boolean; m: number } | null {
+export function nextMemory(
+  running: boolean,
+  m: number,
+  action: PlanAction,
+  k: number,
+): { running: boolean; m: number } | null {
   const hp = (action & 2) !== 0;
   if (hp && !running) return m >= k ? { running: true, m: Math.min(k, 1) } : null;
   return { running: hp, m: Math.min(k, m + 1) };
@@ -97,13 +102,15 @@ export function solveDp(model: PlanModel, settings: DpSettings): DpResult {
     for (let i = 0; i < J * nA; i++) {
       tNext[i] = tNext[i]! - model.jMin;
       const s = floor - tShort[i]!;
-      tShort[i] = s > 0 ? s : 0;
+      tShort[i] = Math.max(s, 0);
     }
     for (let jj = 0; jj < J; jj++) {
       const row = jj * nA;
       for (let mi = 0; mi < M; mi++) {
         if (firstStep[mi]! < t && firstStep[mi]! < 2) continue;
-        let bestS = Infinity, bestC = Infinity, bestA = 0;
+        let bestS = Infinity,
+          bestC = Infinity,
+          bestA = 0;
         const memRow = mi * nA;
         for (let ai = 0; ai < nA; ai++) {
           const nmi = memNext[memRow + ai]!;
@@ -112,7 +119,11 @@ export function solveDp(model: PlanModel, settings: DpSettings): DpResult {
           const s = tShort[row + ai]! + shortNext[idx]!;
           const c = tCost[row + ai]! + memCost[memRow + ai]! + costNext[idx]!;
           // Less shortfall, or as little and cheaper (lexicographic, within EPS).
-          if (s < bestS - EPS || (s <= bestS + EPS && c < bestC - EPS)) { bestS = s; bestC = c; bestA = ai; }
+          if (s < bestS - EPS || (s <= bestS + EPS && c < bestC - EPS)) {
+            bestS = s;
+            bestC = c;
+            bestA = ai;
+          }
         }
         shortCur[jj * M + mi] = bestS;
         costCur[jj * M + mi] = bestC;
@@ -126,8 +137,13 @@ export function solveDp(model: PlanModel, settings: DpSettings): DpResult {
   const mem = settings.memory;
   let j = Math.min(model.jMax, Math.max(model.jMin, model.j0));
   let mi = (mem.running ? k + 1 : 0) + Math.min(k, Math.max(0, mem.stepsSinceStart));
-  const actions: PlanAction[] = [], lowV40: number[] = [], energyKWh: number[] = [], electricityKWh: number[] = [];
-  let shortfall = 0, cost = 0, starts = 0;
+  const actions: PlanAction[] = [],
+    lowV40: number[] = [],
+    energyKWh: number[] = [],
+    electricityKWh: number[] = [];
+  let shortfall = 0,
+    cost = 0,
+    starts = 0;
   for (let t = 0; t < T; t++) {
     const ai = policy[t * size + (j - model.jMin) * M + mi]!;
     const a = acts[ai]!;
@@ -143,5 +159,14 @@ export function solveDp(model: PlanModel, settings: DpSettings): DpResult {
     energyKWh.push(model.energyAt(t + 1, j));
   }
   const credit = settings.terminalCreditPence * Math.max(0, model.energyAt(T, j));
-  return { actions, shortfallL40: shortfall, costPence: cost, starts, objectivePence: cost + starts * settings.startPenaltyPence - credit, lowV40, energyKWh, electricityKWh };
+  return {
+    actions,
+    shortfallL40: shortfall,
+    costPence: cost,
+    starts,
+    objectivePence: cost + starts * settings.startPenaltyPence - credit,
+    lowV40,
+    energyKWh,
+    electricityKWh,
+  };
 }

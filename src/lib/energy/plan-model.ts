@@ -23,7 +23,16 @@
 // Every transition is monotone in E (more stored heat never ends with less), so the grid model ranks
 // schedules as the continuous one does up to that rounding; the plan is then checked, and repaired,
 // through the full tank model (planner.ts).
-import { MODEL_PROPERTY_C, createTank, mixedWaterLitres, stepTankInPlace, tankEnergyJ, tankNodeCount, waterCp, waterDensity } from '../thermal/index.js';
+import {
+  MODEL_PROPERTY_C,
+  createTank,
+  mixedWaterLitres,
+  stepTankInPlace,
+  tankEnergyJ,
+  tankNodeCount,
+  waterCp,
+  waterDensity,
+} from '../thermal/index.js';
 import type { TankSpec, TankState } from '../thermal/index.js';
 import { capabilities } from '../heat-sources.js';
 import { J_PER_KWH, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
@@ -38,7 +47,8 @@ export interface PlanModel {
   /** Number of steps. */ steps: number;
   /** Step length, hours. */ stepH: number;
   /** Grid spacing at step 0, kWh. */ gridKWh: number;
-  /** Lowest and highest grid index. */ jMin: number; jMax: number;
+  /** Lowest and highest grid index. */ jMin: number;
+  jMax: number;
   /** Grid index of the initial state. */ j0: number;
   /** Which actions the heat sources allow (immersion-only tanks have no heat pump). */ actions: readonly PlanAction[];
   /** Energy of grid point j at step t (0 ≤ t ≤ steps), kWh. */ energyAt(t: number, j: number): number;
@@ -76,7 +86,10 @@ export interface PlanModelInput {
 }
 
 /** Points (E kWh, V40 L) with E ascending and V40 non-decreasing. */
-export interface V40Curve { energyKWh: number[]; litres40: number[] }
+export interface V40Curve {
+  energyKWh: number[];
+  litres40: number[];
+}
 
 /**
  * V40 against stored heat above cold water for this tank, measured on the tank model: start full
@@ -86,9 +99,13 @@ export interface V40Curve { energyKWh: number[]; litres40: number[] }
 export function v40Curve(spec: TankSpec, coldC: number, topC: number): V40Curve {
   const n = tankNodeCount(spec);
   const k = Math.min(n - 1, Math.floor(spec.immersionHeightFrac * n));
-  const init = capabilities(spec.heatSource).immersion === 'only' ? Array.from({ length: n }, (_, i) => (i >= k ? topC : coldC)) : topC;
+  const init =
+    capabilities(spec.heatSource).immersion === 'only'
+      ? Array.from({ length: n }, (_, i) => (i >= k ? topC : coldC))
+      : topC;
   const state = createTank(spec, init);
-  const e: number[] = [], v: number[] = [];
+  const e: number[] = [],
+    v: number[] = [];
   const volumeL = spec.volumeL;
   for (let guard = 0; guard < 10_000; guard++) {
     const litres = mixedWaterLitres({ layersC: state.nodesC, volumeL, coldC, deliveryC: V40_DELIVERY_C });
@@ -102,7 +119,8 @@ export function v40Curve(spec: TankSpec, coldC: number, topC: number): V40Curve 
   e.reverse();
   v.reverse();
   // Make the curve a function: E strictly ascending, V40 non-decreasing.
-  const E: number[] = [], V: number[] = [];
+  const E: number[] = [],
+    V: number[] = [];
   for (let i = 0; i < e.length; i++) {
     if (E.length && e[i]! <= E[E.length - 1]!) continue;
     E.push(e[i]!);
@@ -141,12 +159,17 @@ export function buildPlanModel(p: PlanModelInput): PlanModel {
   const k40 = kWhPerLitreAt40(p.coldC);
   // V40(E) tabulated on a fine uniform grid for O(1) lookups in the programme's inner loop.
   const TABLE_KWH = 0.01;
-  const cE = p.curve.energyKWh, cV = p.curve.litres40;
-  const eTop = cE[cE.length - 1]!, vTop = cV[cV.length - 1]!;
+  const cE = p.curve.energyKWh,
+    cV = p.curve.litres40;
+  const eTop = cE[cE.length - 1]!,
+    vTop = cV[cV.length - 1]!;
   const table = new Float64Array(Math.ceil(eTop / TABLE_KWH) + 2);
   for (let i = 0, seg = 0; i < table.length; i++) {
     const x = i * TABLE_KWH;
-    if (x >= eTop) { table[i] = vTop + (x - eTop) / k40; continue; }
+    if (x >= eTop) {
+      table[i] = vTop + (x - eTop) / k40;
+      continue;
+    }
     while (cE[seg + 1]! < x) seg++;
     const f = (x - cE[seg]!) / (cE[seg + 1]! - cE[seg]!);
     table[i] = cV[seg]! + f * (cV[seg + 1]! - cV[seg]!);
@@ -170,7 +193,8 @@ export function buildPlanModel(p: PlanModelInput): PlanModel {
   const delta = p.gridKWh;
   const top = Math.max(eHp, eIm, e0) + delta;
   // Index range covering [0, top] at every step (β may push the grid up or down a little).
-  let jMin = 0, jMax = 0;
+  let jMin = 0,
+    jMax = 0;
   for (let t = 0; t <= steps; t++) {
     jMin = Math.min(jMin, Math.floor((0 - beta[t]!) / (alpha[t]! * delta)));
     jMax = Math.max(jMax, Math.ceil((top - beta[t]!) / (alpha[t]! * delta)));
@@ -221,7 +245,17 @@ export function buildPlanModel(p: PlanModelInput): PlanModel {
   };
 
   return {
-    steps, stepH, gridKWh: delta, jMin, jMax, j0: Math.round(e0 / delta), actions,
-    energyAt, transition, fillStep, v40Of, k40,
+    steps,
+    stepH,
+    gridKWh: delta,
+    jMin,
+    jMax,
+    j0: Math.round(e0 / delta),
+    actions,
+    energyAt,
+    transition,
+    fillStep,
+    v40Of,
+    k40,
   };
 }

@@ -11,7 +11,10 @@ import { J_PER_KWH, kWhPerLitreAt40, V40_DELIVERY_C } from './units.js';
 export const MAX_DRAW_LPM = 12;
 
 /** What the sources do during one sub-step. */
-export interface SourceCommand { hp: boolean; immersion: boolean }
+export interface SourceCommand {
+  hp: boolean;
+  immersion: boolean;
+}
 
 /** A rule deciding the sources each sub-step from the step index, the time and the tank. */
 export type Controller = (step: number, ms: number, state: TankState) => SourceCommand;
@@ -42,7 +45,8 @@ export interface SimulatedStep {
   /** Cost, pence. */ costPence: number;
   /** Heat-pump starts in the step. */ starts: number;
   /** Demand the tank could not deliver, litres at 40 °C. */ unmetLitres40: number;
-  /** Whether each source ran at any time in the step. */ hp: boolean; immersion: boolean;
+  /** Whether each source ran at any time in the step. */ hp: boolean;
+  immersion: boolean;
 }
 
 /** A whole simulated schedule. */
@@ -61,17 +65,34 @@ export function simulate(input: SimulationInput, controller: Controller): Simula
   const n = tankNodeCount(spec);
   const subS = (input.stepMin * 60) / input.substeps;
   const k40J = kWhPerLitreAt40(coldC) * J_PER_KWH;
-  const v40 = (): number => mixedWaterLitres({ layersC: state.nodesC, volumeL: spec.volumeL, coldC, deliveryC: V40_DELIVERY_C });
+  const v40 = (): number =>
+    mixedWaterLitres({ layersC: state.nodesC, volumeL: spec.volumeL, coldC, deliveryC: V40_DELIVERY_C });
   const steps: SimulatedStep[] = [];
   const startsMs: number[] = [];
-  let hpWasOn = input.hpRunning, totalE = 0, totalC = 0;
+  let hpWasOn = input.hpRunning,
+    totalE = 0,
+    totalC = 0;
   for (let t = 0; t < input.importPence.length; t++) {
     let owedJ = input.demandLitres40[t]! * k40J;
-    const s: SimulatedStep = { minV40: Infinity, endV40: 0, hpHeatKWh: 0, immersionHeatKWh: 0, electricityKWh: 0, costPence: 0, starts: 0, unmetLitres40: 0, hp: false, immersion: false };
+    const s: SimulatedStep = {
+      minV40: Infinity,
+      endV40: 0,
+      hpHeatKWh: 0,
+      immersionHeatKWh: 0,
+      electricityKWh: 0,
+      costPence: 0,
+      starts: 0,
+      unmetLitres40: 0,
+      hp: false,
+      immersion: false,
+    };
     for (let u = 0; u < input.substeps; u++) {
       const ms = input.startMs + (t * input.substeps + u) * subS * 1000;
       const cmd = controller(t, ms, state);
-      if (cmd.hp && !hpWasOn) { s.starts++; startsMs.push(ms); }
+      if (cmd.hp && !hpWasOn) {
+        s.starts++;
+        startsMs.push(ms);
+      }
       hpWasOn = cmd.hp;
       let drawLpm = 0;
       if (owedJ > 0) {
@@ -80,8 +101,13 @@ export function simulate(input: SimulationInput, controller: Controller): Simula
         drawLpm = lift > 0.5 ? Math.min(MAX_DRAW_LPM, owedJ / (4180 * lift) / (subS / 60)) : MAX_DRAW_LPM;
       }
       const r = stepTankInPlace(spec, state, {
-        dtS: subS, coldC, drawLpm, hpOn: cmd.hp, immersionOn: cmd.immersion,
-        hpOutputW: input.hpOutputW, hpFlowC: input.hpTopC,
+        dtS: subS,
+        coldC,
+        drawLpm,
+        hpOn: cmd.hp,
+        immersionOn: cmd.immersion,
+        hpOutputW: input.hpOutputW,
+        hpFlowC: input.hpTopC,
       });
       owedJ -= r.drawnJ;
       s.hpHeatKWh += r.hpHeatJ / J_PER_KWH;
@@ -98,7 +124,13 @@ export function simulate(input: SimulationInput, controller: Controller): Simula
     totalC += s.costPence;
     steps.push(s);
   }
-  return { steps, electricityKWh: totalE, costPence: totalC, endEnergyKWh: Math.max(0, tankEnergyJ(spec, state, coldC) / J_PER_KWH), startsMs };
+  return {
+    steps,
+    electricityKWh: totalE,
+    costPence: totalC,
+    endEnergyKWh: Math.max(0, tankEnergyJ(spec, state, coldC) / J_PER_KWH),
+    startsMs,
+  };
 }
 
 /** A fixed rule to compare plans against. Temperatures °C, times local minutes after midnight. */
@@ -125,7 +157,14 @@ export type BaselineRule =
  * The controller of a baseline rule: a thermostat on the main source (the immersion on an
  * immersion-only tank) that never starts the heat pump within `spacingMs` of its last start.
  */
-export function baselineController(rule: BaselineRule, spec: TankSpec, hasHp: boolean, spacingMs: number, lastStartMs: number | null, running: boolean): Controller {
+export function baselineController(
+  rule: BaselineRule,
+  spec: TankSpec,
+  hasHp: boolean,
+  spacingMs: number,
+  lastStartMs: number | null,
+  running: boolean,
+): Controller {
   const n = tankNodeCount(spec);
   const node = Math.min(n - 1, Math.max(0, Math.floor((rule.sensorFrac ?? 1 / 3) * n)));
   let calling = running;
@@ -138,7 +177,8 @@ export function baselineController(rule: BaselineRule, spec: TankSpec, hasHp: bo
     let allowed = true;
     if (rule.kind === 'window') {
       const m = localMinuteOfDay(ms, rule.timeZone);
-      allowed = rule.startMin < rule.endMin ? m >= rule.startMin && m < rule.endMin : m >= rule.startMin || m < rule.endMin;
+      allowed =
+        rule.startMin < rule.endMin ? m >= rule.startMin && m < rule.endMin : m >= rule.startMin || m < rule.endMin;
     }
     let want = calling && allowed;
     if (hasHp && want && !on && ms - last < spacingMs) want = false;

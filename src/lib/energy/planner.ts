@@ -56,7 +56,9 @@ export interface ChargePlanInput {
   /** Import price of each step, p/kWh (e.g. from importPriceSeries). */ importPence: readonly number[];
   /** Expected draw in each step, litres at 40 °C (e.g. from demandSeries). */ demandLitres40: readonly number[];
   /** Least V40 to keep at every step, litres. */ comfortFloorL40: number;
-  /** Heat-pump COP (heat over electricity), one value or one per step (e.g. from estimatedCop). */ cop: number | readonly number[];
+  /** Heat-pump COP (heat over electricity), one value or one per step (e.g. from estimatedCop). */ cop:
+    | number
+    | readonly number[];
   /** Cold-water temperature, °C (default 10). */ coldC?: number;
   limits?: HeatSourceLimits;
   compressor?: CompressorMemory;
@@ -66,7 +68,8 @@ export interface ChargePlanInput {
 
 /** One step of the plan. */
 export interface PlanStep {
-  /** Step bounds, epoch ms. */ startMs: number; endMs: number;
+  /** Step bounds, epoch ms. */ startMs: number;
+  endMs: number;
   heatPump: boolean;
   immersion: boolean;
   /** The heat pump starts at this step. */ heatPumpStart: boolean;
@@ -110,15 +113,23 @@ export interface ChargePlan {
 
 const STEP_MINUTES = [5, 10, 15, 20, 30, 60];
 
-function perStep(field: string, value: number | readonly number[], steps: number, check: (f: string, v: unknown) => number): number[] {
+function perStep(
+  field: string,
+  value: number | readonly number[],
+  steps: number,
+  check: (f: string, v: unknown) => number,
+): number[] {
   if (typeof value === 'number') return new Array<number>(steps).fill(check(field, value));
-  if (!Array.isArray(value) || value.length !== steps) throw new EnergyInputError(field, `${field} must have one value per step (${steps}).`);
+  if (!Array.isArray(value) || value.length !== steps)
+    throw new EnergyInputError(field, `${field} must have one value per step (${steps}).`);
   return value.map((v, i) => check(`${field}[${i}]`, v));
 }
 
 function belowFloor(sim: Simulation, floor: number): number[] {
   const out: number[] = [];
-  sim.steps.forEach((s, t) => { if (s.minV40 < floor - 1e-6) out.push(t); });
+  sim.steps.forEach((s, t) => {
+    if (s.minV40 < floor - 1e-6) out.push(t);
+  });
   return out;
 }
 
@@ -129,9 +140,17 @@ function belowFloor(sim: Simulation, floor: number): number[] {
 export function planCharge(input: ChargePlanInput): ChargePlan {
   const spec = input.spec;
   const stepMin = input.stepMin ?? 30;
-  if (!STEP_MINUTES.includes(stepMin)) throw new EnergyInputError('stepMin', `stepMin is ${stepMin}: it must be one of ${STEP_MINUTES.join(', ')} minutes.`);
+  if (!STEP_MINUTES.includes(stepMin))
+    throw new EnergyInputError(
+      'stepMin',
+      `stepMin is ${stepMin}: it must be one of ${STEP_MINUTES.join(', ')} minutes.`,
+    );
   const startMs = epochMs('startMs', input.startMs);
-  if (startMs % (stepMin * 60_000) !== 0) throw new EnergyInputError('startMs', `startMs ${new Date(startMs).toISOString()} is not on a ${stepMin}-minute boundary.`);
+  if (startMs % (stepMin * 60_000) !== 0)
+    throw new EnergyInputError(
+      'startMs',
+      `startMs ${new Date(startMs).toISOString()} is not on a ${stepMin}-minute boundary.`,
+    );
   const steps = Array.isArray(input.importPence) ? input.importPence.length : 0;
   wholeIn('importPence.length', steps, 1, (7 * 24 * 60) / stepMin);
   const importPence = perStep('importPence', input.importPence, steps, (f, v) => finite(f, v, 'p/kWh'));
@@ -144,7 +163,11 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   const hasHpSource = capabilities(spec.heatSource).heatPump;
   const hpOutputW = hasHpSource ? nonNegative('limits.hpOutputW', limits.hpOutputW ?? spec.hpOutputW, 'W') : 0;
   const immersionW = nonNegative('limits.immersionW', limits.immersionW ?? spec.immersionW, 'W');
-  const hpTopC = finite('limits.hpTopC', limits.hpTopC ?? spec.maxFlowC ?? (capabilities(spec.heatSource).boiler ? 70 : 55), '°C');
+  const hpTopC = finite(
+    'limits.hpTopC',
+    limits.hpTopC ?? spec.maxFlowC ?? (capabilities(spec.heatSource).boiler ? 70 : 55),
+    '°C',
+  );
   const spacingMin = nonNegative('limits.minStartSpacingMin', limits.minStartSpacingMin ?? 60, 'minutes');
   const compressor = input.compressor ?? { running: false, lastStartMs: null };
   const tuning = input.tuning ?? {};
@@ -154,17 +177,54 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   const startPenalty = nonNegative('tuning.startPenaltyPence', tuning.startPenaltyPence ?? 0.5, 'pence');
   const hasHp = hpOutputW > 0;
 
-  const curve = v40Curve(spec, coldC, hasHp ? hpTopC : spec.immersionStatC ?? 65);
+  const curve = v40Curve(spec, coldC, hasHp ? hpTopC : (spec.immersionStatC ?? 65));
   // Heat left at the end is worth what it would cost to make at the horizon's cheapest price: enough
   // for the plan to fill up in a cheap window near the end, never a reason to heat at an ordinary price.
   const cheapest = Math.min(...importPence.map((p, t) => (hasHp ? p / cop[t]! : p)));
-  const heatValue = finite('tuning.heatValuePencePerKWh', tuning.heatValuePencePerKWh ?? Math.max(0, cheapest), 'pence per kWh');
+  const heatValue = finite(
+    'tuning.heatValuePencePerKWh',
+    tuning.heatValuePencePerKWh ?? Math.max(0, cheapest),
+    'pence per kWh',
+  );
 
   const spacingSteps = Math.ceil(spacingMin / stepMin - 1e-9);
-  const sinceStart = compressor.lastStartMs === null ? spacingSteps : Math.max(0, Math.floor((startMs - compressor.lastStartMs) / (stepMin * 60_000)));
-  const memory = { running: compressor.running && hasHp, stepsSinceStart: Math.min(spacingSteps, sinceStart), spacingSteps };
-  const model = buildPlanModel({ spec, state: input.state, coldC, stepMin, importPence, demandLitres40: demand, cop, hpOutputW, immersionW, hpTopC, gridKWh, curve });
-  const simInput: SimulationInput = { spec, state: input.state, startMs, stepMin, substeps, coldC, importPence, demandLitres40: demand, cop, hpOutputW, hpTopC, hpRunning: memory.running };
+  const sinceStart =
+    compressor.lastStartMs === null
+      ? spacingSteps
+      : Math.max(0, Math.floor((startMs - compressor.lastStartMs) / (stepMin * 60_000)));
+  const memory = {
+    running: compressor.running && hasHp,
+    stepsSinceStart: Math.min(spacingSteps, sinceStart),
+    spacingSteps,
+  };
+  const model = buildPlanModel({
+    spec,
+    state: input.state,
+    coldC,
+    stepMin,
+    importPence,
+    demandLitres40: demand,
+    cop,
+    hpOutputW,
+    immersionW,
+    hpTopC,
+    gridKWh,
+    curve,
+  });
+  const simInput: SimulationInput = {
+    spec,
+    state: input.state,
+    startMs,
+    stepMin,
+    substeps,
+    coldC,
+    importPence,
+    demandLitres40: demand,
+    cop,
+    hpOutputW,
+    hpTopC,
+    hpRunning: memory.running,
+  };
   const runPlan = (actions: readonly PlanAction[]): Simulation =>
     simulate(simInput, (t) => ({ hp: (actions[t]! & 2) !== 0, immersion: (actions[t]! & 1) !== 0 }));
 
@@ -173,10 +233,20 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   let repairs = 0;
   let lastActions: PlanAction[] = [];
   for (let round = 0; ; round++) {
-    const dp = solveDp(model, { floorsL40: floors, terminalCreditPence: heatValue, startPenaltyPence: startPenalty, memory });
+    const dp = solveDp(model, {
+      floorsL40: floors,
+      terminalCreditPence: heatValue,
+      startPenaltyPence: startPenalty,
+      memory,
+    });
     const sim = runPlan(dp.actions);
     const below = belowFloor(sim, floor);
-    if (best === null || below.length < best.below.length || (below.length === best.below.length && sim.costPence < best.sim.costPence)) best = { dp, sim, below };
+    if (
+      best === null ||
+      below.length < best.below.length ||
+      (below.length === best.below.length && sim.costPence < best.sim.costPence)
+    )
+      best = { dp, sim, below };
     const stuck = best !== null && round > 0 && dp.actions.every((a, t) => a === lastActions[t]);
     lastActions = dp.actions;
     if (below.length === 0 || round >= maxRepairs || stuck) break;
@@ -190,18 +260,33 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
   const planSteps: PlanStep[] = dp.actions.map((a, t) => {
     const s = sim.steps[t]!;
     return {
-      startMs: startMs + t * stepMs, endMs: startMs + (t + 1) * stepMs,
-      heatPump: (a & 2) !== 0, immersion: (a & 1) !== 0, heatPumpStart: s.starts > 0,
-      importPence: importPence[t]!, demandLitres40: demand[t]!,
-      expectedV40: s.endV40, lowestV40: s.minV40, electricityKWh: s.electricityKWh, costPence: s.costPence,
+      startMs: startMs + t * stepMs,
+      endMs: startMs + (t + 1) * stepMs,
+      heatPump: (a & 2) !== 0,
+      immersion: (a & 1) !== 0,
+      heatPumpStart: s.starts > 0,
+      importPence: importPence[t]!,
+      demandLitres40: demand[t]!,
+      expectedV40: s.endV40,
+      lowestV40: s.minV40,
+      electricityKWh: s.electricityKWh,
+      costPence: s.costPence,
     };
   });
 
   const rule: BaselineRule = input.baseline ?? { kind: 'thermostat', targetC: hpTopC - 3, hysteresisK: 5 };
-  const baseSim = simulate(simInput, baselineController(rule, spec, hasHp, spacingMin * 60_000, compressor.lastStartMs, memory.running));
+  const baseSim = simulate(
+    simInput,
+    baselineController(rule, spec, hasHp, spacingMin * 60_000, compressor.lastStartMs, memory.running),
+  );
   const baseline: BaselineResult = {
-    rule, costPence: baseSim.costPence, electricityKWh: baseSim.electricityKWh, endStoredKWh: baseSim.endEnergyKWh,
-    expectedV40: baseSim.steps.map((s) => s.endV40), stepsBelowFloor: belowFloor(baseSim, floor), starts: baseSim.startsMs.length,
+    rule,
+    costPence: baseSim.costPence,
+    electricityKWh: baseSim.electricityKWh,
+    endStoredKWh: baseSim.endEnergyKWh,
+    expectedV40: baseSim.steps.map((s) => s.endV40),
+    stepsBelowFloor: belowFloor(baseSim, floor),
+    starts: baseSim.startsMs.length,
   };
   return {
     steps: planSteps,
@@ -215,6 +300,6 @@ export function planCharge(input: ChargePlanInput): ChargePlan {
     repairs,
     baseline,
     heatValuePencePerKWh: heatValue,
-    savingsPence: (baseSim.costPence - heatValue * baseSim.endEnergyKWh) - (sim.costPence - heatValue * sim.endEnergyKWh),
+    savingsPence: baseSim.costPence - heatValue * baseSim.endEnergyKWh - (sim.costPence - heatValue * sim.endEnergyKWh),
   };
 }

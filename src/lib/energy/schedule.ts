@@ -16,14 +16,20 @@ export interface CommandWindow {
 export function commandSchedule(actions: readonly PlanAction[], startMs: number, stepMin: number): CommandWindow[] {
   const out: { startMs: number; w: CommandWindow }[] = [];
   const stepMs = stepMin * 60_000;
-  for (const [bit, source] of [[2, 'heat_pump'], [1, 'immersion']] as const) {
+  for (const [bit, source] of [
+    [2, 'heat_pump'],
+    [1, 'immersion'],
+  ] as const) {
     let open = -1;
     for (let t = 0; t <= actions.length; t++) {
       const on = t < actions.length && (actions[t]! & bit) !== 0;
       if (on && open < 0) open = t;
       if (!on && open >= 0) {
         const a = startMs + open * stepMs;
-        out.push({ startMs: a, w: { start: new Date(a).toISOString(), end: new Date(startMs + t * stepMs).toISOString(), source } });
+        out.push({
+          startMs: a,
+          w: { start: new Date(a).toISOString(), end: new Date(startMs + t * stepMs).toISOString(), source },
+        });
         open = -1;
       }
     }

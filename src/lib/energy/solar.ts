@@ -23,7 +23,10 @@ export interface DiversionInput {
 export interface Diversion {
   /** Power to send to the immersion now, W (0 … immersionW). */ divertW: number;
   /** Heat the water at and above the element can still take before its thermostat, kWh. */ roomKWh: number;
-  /** Why: diverting, no surplus to divert, or the reachable water is at the thermostat. */ reason: 'diverting' | 'no_surplus' | 'tank_full';
+  /** Why: diverting, no surplus to divert, or the reachable water is at the thermostat. */ reason:
+    | 'diverting'
+    | 'no_surplus'
+    | 'tank_full';
 }
 
 /** Below this much room the tank counts as full, kWh (about a minute of a 3 kW element). */
@@ -36,11 +39,16 @@ export function solarDiversion(input: DiversionInput): Diversion {
   const immersionW = nonNegative('immersionW', input.immersionW, 'W');
   const volumeL = positive('volumeL', input.volumeL, 'litres');
   const frac = finite('immersionHeightFrac', input.immersionHeightFrac, 'a fraction 0–1');
-  if (frac < 0 || frac > 1) throw new EnergyInputError('immersionHeightFrac', `immersionHeightFrac is ${frac}: it must be from 0 (bottom) to 1 (top).`);
+  if (frac < 0 || frac > 1)
+    throw new EnergyInputError(
+      'immersionHeightFrac',
+      `immersionHeightFrac is ${frac}: it must be from 0 (bottom) to 1 (top).`,
+    );
   const statC = finite('statC', input.statC ?? 65, '°C');
   const marginW = nonNegative('marginW', input.marginW ?? 50, 'W');
   const layers = input.layersC;
-  if (!Array.isArray(layers) || layers.length === 0) throw new EnergyInputError('layersC', 'layersC must hold one or more layer temperatures, bottom to top.');
+  if (!Array.isArray(layers) || layers.length === 0)
+    throw new EnergyInputError('layersC', 'layersC must hold one or more layer temperatures, bottom to top.');
   const n = layers.length;
   const first = Math.min(n - 1, Math.floor(frac * n));
   let roomJ = 0;

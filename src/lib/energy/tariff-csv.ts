@@ -16,7 +16,14 @@ import { HALF_HOUR_MS } from './units.js';
 /** One refused row: `row` is the line number in the file (the header is line 1). */
 export interface TariffRowError {
   /** Line number in the file, 1 = header. */ row: number;
-  /** Column at fault, or `row` when the whole line is. */ field: 'start' | 'end' | 'import' | 'export' | 'unit' | 'row' | 'header';
+  /** Column at fault, or `row` when the whole line is. */ field:
+    | 'start'
+    | 'end'
+    | 'import'
+    | 'export'
+    | 'unit'
+    | 'row'
+    | 'header';
   /** Why, in a full sentence. */ message: string;
 }
 
@@ -33,7 +40,13 @@ export const MAX_CSV_ROWS = 3 * 366 * 48;
 const COLUMNS = ['start', 'end', 'import', 'export', 'unit'] as const;
 const INSTANT = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:\d{2})$/;
 
-interface Slot { row: number; startMs: number; importPence: number; exportPence: number; valid: boolean }
+interface Slot {
+  row: number;
+  startMs: number;
+  importPence: number;
+  exportPence: number;
+  valid: boolean;
+}
 
 function iso(ms: number): string {
   return new Date(ms).toISOString().replace('.000Z', 'Z');
@@ -55,22 +68,51 @@ export function parseHalfHourlyCsv(
     records = parse(text, { bom: true, info: true, relax_column_count: true, skip_empty_lines: true, trim: true });
   } catch (cause) {
     const line = (cause as { lines?: number }).lines ?? 1;
-    return { ok: false, errors: [{ row: line, field: 'row', message: `Line ${line} is not valid CSV: ${(cause as Error).message}` }] };
+    return {
+      ok: false,
+      errors: [{ row: line, field: 'row', message: `Line ${line} is not valid CSV: ${(cause as Error).message}` }],
+    };
   }
-  if (records.length === 0) return { ok: false, errors: [{ row: 1, field: 'header', message: 'The file is empty: it needs a header line start,end,import,export,unit and one line per half hour.' }] };
+  if (records.length === 0)
+    return {
+      ok: false,
+      errors: [
+        {
+          row: 1,
+          field: 'header',
+          message: 'The file is empty: it needs a header line start,end,import,export,unit and one line per half hour.',
+        },
+      ],
+    };
 
   const header = records[0]!.record.map((h) => h.toLowerCase());
   const col = new Map<string, number>();
   header.forEach((h, i) => {
-    if (!(COLUMNS as readonly string[]).includes(h)) errors.push({ row: 1, field: 'header', message: `Column "${h}" is not known: the columns are ${COLUMNS.join(', ')}.` });
+    if (!(COLUMNS as readonly string[]).includes(h))
+      errors.push({
+        row: 1,
+        field: 'header',
+        message: `Column "${h}" is not known: the columns are ${COLUMNS.join(', ')}.`,
+      });
     else if (col.has(h)) errors.push({ row: 1, field: 'header', message: `Column "${h}" appears twice.` });
     else col.set(h, i);
   });
   for (const required of ['start', 'end', 'import'] as const) {
-    if (!col.has(required)) errors.push({ row: 1, field: 'header', message: `The header has no "${required}" column.` });
+    if (!col.has(required))
+      errors.push({ row: 1, field: 'header', message: `The header has no "${required}" column.` });
   }
-  if (!col.has('unit') && !options.unit) errors.push({ row: 1, field: 'header', message: 'The header has no "unit" column and no unit was chosen for the file: give p/kWh or £/kWh.' });
-  if (records.length - 1 > MAX_CSV_ROWS) errors.push({ row: 1, field: 'row', message: `The file has ${records.length - 1} price lines; at most ${MAX_CSV_ROWS} fit in one upload.` });
+  if (!col.has('unit') && !options.unit)
+    errors.push({
+      row: 1,
+      field: 'header',
+      message: 'The header has no "unit" column and no unit was chosen for the file: give p/kWh or £/kWh.',
+    });
+  if (records.length - 1 > MAX_CSV_ROWS)
+    errors.push({
+      row: 1,
+      field: 'row',
+      message: `The file has ${records.length - 1} price lines; at most ${MAX_CSV_ROWS} fit in one upload.`,
+    });
   if (records.length === 1) errors.push({ row: 1, field: 'row', message: 'The file has a header but no prices.' });
   if (errors.length) return { ok: false, errors };
 
@@ -78,7 +120,9 @@ export function parseHalfHourlyCsv(
   for (let r = 1; r < records.length; r++) {
     const { record, info } = records[r]!;
     const row = info.lines;
-    const bad = (field: TariffRowError['field'], message: string): void => { errors.push({ row, field, message: `Line ${row}: ${message}` }); };
+    const bad = (field: TariffRowError['field'], message: string): void => {
+      errors.push({ row, field, message: `Line ${row}: ${message}` });
+    };
     if (record.length !== header.length) {
       bad('row', `has ${record.length} fields where the header has ${header.length}.`);
       continue;
@@ -89,14 +133,19 @@ export function parseHalfHourlyCsv(
     const time = (name: 'start' | 'end'): number => {
       const s = cell(name);
       const ms = INSTANT.test(s) ? Date.parse(s) : NaN;
-      if (Number.isNaN(ms)) bad(name, `${name} "${s}" is not an ISO 8601 date and time with a zone, such as 2025-01-06T00:00:00Z.`);
+      if (Number.isNaN(ms))
+        bad(name, `${name} "${s}" is not an ISO 8601 date and time with a zone, such as 2025-01-06T00:00:00Z.`);
       return ms;
     };
     const startMs = time('start');
     const endMs = time('end');
     let timesOk = false;
     if (!Number.isNaN(startMs) && !Number.isNaN(endMs)) {
-      if (endMs - startMs !== HALF_HOUR_MS) bad('end', `the slot from ${cell('start')} to ${cell('end')} lasts ${(endMs - startMs) / 60_000} minutes; every slot must last 30 minutes.`);
+      if (endMs - startMs !== HALF_HOUR_MS)
+        bad(
+          'end',
+          `the slot from ${cell('start')} to ${cell('end')} lasts ${(endMs - startMs) / 60_000} minutes; every slot must last 30 minutes.`,
+        );
       else if (startMs % HALF_HOUR_MS !== 0) bad('start', `start ${cell('start')} is not on the hour or half hour.`);
       else timesOk = true;
     }
@@ -132,9 +181,17 @@ export function parseHalfHourlyCsv(
     const cur = slots[i]!;
     const prevEnd = prev.startMs + HALF_HOUR_MS;
     if (cur.startMs < prevEnd) {
-      errors.push({ row: cur.row, field: 'start', message: `Line ${cur.row}: the slot starting ${iso(cur.startMs)} overlaps line ${prev.row} (${iso(prev.startMs)} to ${iso(prevEnd)}).` });
+      errors.push({
+        row: cur.row,
+        field: 'start',
+        message: `Line ${cur.row}: the slot starting ${iso(cur.startMs)} overlaps line ${prev.row} (${iso(prev.startMs)} to ${iso(prevEnd)}).`,
+      });
     } else if (cur.startMs > prevEnd) {
-      errors.push({ row: cur.row, field: 'start', message: `Line ${cur.row}: no prices from ${iso(prevEnd)} to ${iso(cur.startMs)}, a gap of ${(cur.startMs - prevEnd) / 60_000} minutes after line ${prev.row}.` });
+      errors.push({
+        row: cur.row,
+        field: 'start',
+        message: `Line ${cur.row}: no prices from ${iso(prevEnd)} to ${iso(cur.startMs)}, a gap of ${(cur.startMs - prevEnd) / 60_000} minutes after line ${prev.row}.`,
+      });
     }
   }
   if (errors.length) {

@@ -8,10 +8,20 @@ import { EN16147_COLD_C } from '../thermal';
 import { chargeOf } from '../telemetry/writer.server';
 import type { Scope } from '../server/authz';
 
-export interface ColdInletChange { homeId: string; coldInletC: number | null; previousC: number | null; tanksUpdated: number }
+export interface ColdInletChange {
+  homeId: string;
+  coldInletC: number | null;
+  previousC: number | null;
+  tanksUpdated: number;
+}
 
 /** Null when the home is not the viewer's to change. */
-export async function changeColdInlet(scope: Scope, actorUserId: string, homeId: string, coldInletC: number | null): Promise<ColdInletChange | null> {
+export async function changeColdInlet(
+  scope: Scope,
+  actorUserId: string,
+  homeId: string,
+  coldInletC: number | null,
+): Promise<ColdInletChange | null> {
   return db().transaction(async (tx) => {
     const changed = await updateColdInlet(tx, scope, homeId, coldInletC);
     if (!changed) return null;
@@ -23,10 +33,16 @@ export async function changeColdInlet(scope: Scope, actorUserId: string, homeId:
       await storeLatestFigures(tx, c.tankId, chargeOf({ ...c, coldInletC, stuck: c.sensorCheck ?? null }, layersC));
       tanksUpdated++;
     }
-    await recordAudit({
-      companyId: scope.companyId, actorUserId, action: 'home.cold_inlet_changed', subject: `home:${homeId}`,
-      detail: { fromC: changed.previous, toC: coldInletC, defaultC: EN16147_COLD_C, tanksUpdated },
-    }, tx);
+    await recordAudit(
+      {
+        companyId: scope.companyId,
+        actorUserId,
+        action: 'home.cold_inlet_changed',
+        subject: `home:${homeId}`,
+        detail: { fromC: changed.previous, toC: coldInletC, defaultC: EN16147_COLD_C, tanksUpdated },
+      },
+      tx,
+    );
     return { homeId, coldInletC, previousC: changed.previous, tanksUpdated };
   });
 }

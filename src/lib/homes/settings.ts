@@ -9,11 +9,14 @@ import { z } from 'zod';
 export const COLD_INLET_MIN_C = 1;
 export const COLD_INLET_MAX_C = 25;
 
-export const homeSettingsBody = z.object({
-  coldInletC: z.number({ message: 'must be a number of °C, or null for EN 16147’s 10 °C' })
-    .finite()
-    .min(COLD_INLET_MIN_C, `must be at least ${COLD_INLET_MIN_C} °C`)
-    .max(COLD_INLET_MAX_C, `must be at most ${COLD_INLET_MAX_C} °C`)
-    .nullable(),
-}).strict();
+export const homeSettingsBody = z
+  .object({
+    coldInletC: z
+      .number({ message: 'must be a number of °C, or null for EN 16147’s 10 °C' })
+      .finite()
+      .min(COLD_INLET_MIN_C, `must be at least ${COLD_INLET_MIN_C} °C`)
+      .max(COLD_INLET_MAX_C, `must be at most ${COLD_INLET_MAX_C} °C`)
+      .nullable(),
+  })
+  .strict();
 export type HomeSettingsBody = z.infer<typeof homeSettingsBody>;

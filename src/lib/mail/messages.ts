@@ -1,16 +1,16 @@
+import { escapeHtml } from './html';
 import { roleLabels } from '../server/viewer';
 import type { Role } from '../../db/schema/companies';
 
 /** The words of every e-mail the product sends, as plain text and simple HTML. */
 export interface MailContent { subject: string; text: string; html: string }
 
-const escape = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 function compose(subject: string, paragraphs: string[], link: { url: string; label: string }, footer: string): MailContent {
   const text = [...paragraphs, `${link.label}: ${link.url}`, footer].join('\n\n');
-  const html = `<!doctype html><html><body style="font-family:sans-serif;color:#15232c">${paragraphs.map((p) => `<p>${escape(p)}</p>`).join('')}`
-    + `<p><a href="${escape(link.url)}" style="background:#1d6f6c;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escape(link.label)}</a></p>`
-    + `<p style="color:#66767f;font-size:12px">${escape(footer)}</p></body></html>`;
+  const html = `<!doctype html><html><body style="font-family:sans-serif;color:#15232c">${paragraphs.map((p) => `<p>${escapeHtml(p)}</p>`).join('')}`
+    + `<p><a href="${escapeHtml(link.url)}" style="background:#1d6f6c;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escapeHtml(link.label)}</a></p>`
+    + `<p style="color:#66767f;font-size:12px">${escapeHtml(footer)}</p></body></html>`;
   return { subject, text, html };
 }
 

@@ -69,7 +69,7 @@ export async function prepareUpload(filename: string, bytes: Buffer): Promise<Pr
     const longEdge = Math.max(meta.width ?? 0, meta.height ?? 0);
     return {
       kind: 'photo', contentType: 'image/jpeg', body: data, width: info.width, height: info.height,
-      downscaled: longEdge > MAX_IMAGE_EDGE_PX, filename: name.replace(/\.(jpe?g|png|webp)$/i, '') + '.jpg',
+      downscaled: longEdge > MAX_IMAGE_EDGE_PX, filename: `${name.replace(/\.(jpe?g|png|webp)$/i, '')}.jpg`,
     };
   } catch {
     throw new HttpError(422, 'CorruptImage', `“${name}” looks like a ${type.toUpperCase()} photo but cannot be read (it may be damaged or only partly sent). Take or export the photo again and upload the new copy.`, [{ field: 'file', message: 'The image cannot be read.' }]);

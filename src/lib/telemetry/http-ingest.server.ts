@@ -58,7 +58,7 @@ export async function ingestHttp(tank: IngestTank, body: Buffer): Promise<Ingest
   }
   const deadLetters = parsed.rejected.map((r) => letter(r.code, `readings[${r.index}]: ${r.reason}`, r.fields, Buffer.from(JSON.stringify(r.raw) ?? 'null')));
   writer ??= new TelemetryWriter(getPool());
-  let result;
+  let result: Awaited<ReturnType<TelemetryWriter['write']>>;
   try {
     result = await writer.write({ readings: parsed.readings.map((reading) => ({ tank, reading })), deadLetters });
   } catch (err) {

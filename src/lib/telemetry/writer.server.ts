@@ -82,12 +82,12 @@ export function fromStored(s: StoredReading): Reading {
 const copyValue = (v: number | boolean | null) => (v === null ? '\\N' : typeof v === 'boolean' ? (v ? 't' : 'f') : String(v));
 
 function copyLine(s: StoredReading): string {
-  return [
+  return `${[
     s.tankId, new Date(s.ts).toISOString(), copyValue(s.seq),
     `{${s.layersCc.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`,
     copyValue(s.flowCc), copyValue(s.returnCc), copyValue(s.compressor), copyValue(s.immersionW),
     copyValue(s.powerW), copyValue(s.pumpPct), copyValue(s.drawDlpm), copyValue(s.solarSurplusW ?? null),
-  ].join('\t') + '\n';
+  ].join('\t')}\n`;
 }
 
 /** What the figures need of a tank, read with its latest state (so an amended target counts at once). */

@@ -16,7 +16,10 @@ export function carnotCop(input: { sinkC: number; sourceC: number }): number {
   const sink = temperature('sinkC', input.sinkC);
   const source = temperature('sourceC', input.sourceC);
   if (sink <= source) {
-    throw new ThermalInputError('sinkC', `sinkC is ${sink} °C: the sink (water) must be warmer than the source (${source} °C) for a heating COP.`);
+    throw new ThermalInputError(
+      'sinkC',
+      `sinkC is ${sink} °C: the sink (water) must be warmer than the source (${source} °C) for a heating COP.`,
+    );
   }
   return (sink + KELVIN) / (sink - source);
 }
@@ -27,8 +30,15 @@ export function carnotCop(input: { sinkC: number; sourceC: number }): number {
  */
 export function estimatedCop(input: { sinkC: number; sourceC: number; qualityGrade?: number }): number {
   record('input', input, '{ sinkC, sourceC, qualityGrade? }');
-  const grade = input.qualityGrade === undefined ? 0.4 : positive('qualityGrade', input.qualityGrade, 'a fraction of the Carnot COP');
-  if (grade > 1) throw new ThermalInputError('qualityGrade', `qualityGrade is ${grade}: no heat pump beats Carnot, so it must be at most 1.`);
+  const grade =
+    input.qualityGrade === undefined
+      ? 0.4
+      : positive('qualityGrade', input.qualityGrade, 'a fraction of the Carnot COP');
+  if (grade > 1)
+    throw new ThermalInputError(
+      'qualityGrade',
+      `qualityGrade is ${grade}: no heat pump beats Carnot, so it must be at most 1.`,
+    );
   return grade * carnotCop(input);
 }
 

@@ -3,7 +3,10 @@ import { ThermalInputError } from './errors.js';
 import { finite, positive, record } from './validate.js';
 
 /** One observation: epoch milliseconds and whether the compressor was running. */
-export interface OnOffSample { t: number; on: boolean }
+export interface OnOffSample {
+  t: number;
+  on: boolean;
+}
 
 /** One compressor run: epoch milliseconds and its length in minutes. */
 export interface CompressorRun {
@@ -34,10 +37,16 @@ export function compressorCycles(samples: readonly OnOffSample[]): { starts: num
     const s = samples[i]!;
     const t = finite(`samples[${i}].t`, s?.t, 'a time in epoch milliseconds');
     if (typeof s.on !== 'boolean') {
-      throw new ThermalInputError(`samples[${i}].on`, `samples[${i}].on is ${String(s.on)}: it must be true (running) or false (stopped).`);
+      throw new ThermalInputError(
+        `samples[${i}].on`,
+        `samples[${i}].on is ${String(s.on)}: it must be true (running) or false (stopped).`,
+      );
     }
     if (t <= prevT) {
-      throw new ThermalInputError(`samples[${i}].t`, `samples[${i}].t is not after samples[${i - 1}].t: samples must be in strictly increasing time order.`);
+      throw new ThermalInputError(
+        `samples[${i}].t`,
+        `samples[${i}].t is not after samples[${i - 1}].t: samples must be in strictly increasing time order.`,
+      );
     }
     prevT = t;
     if (s.on && runStart === null) {
@@ -75,9 +84,16 @@ export function shortCycleViolations<S extends number | { start: number }>(
   let prev = -Infinity;
   for (let i = 0; i < starts.length; i++) {
     const item = starts[i]!;
-    const t = finite(`starts[${i}]`, typeof item === 'number' ? item : item?.start, 'a start time in epoch milliseconds');
+    const t = finite(
+      `starts[${i}]`,
+      typeof item === 'number' ? item : item?.start,
+      'a start time in epoch milliseconds',
+    );
     if (t < prev) {
-      throw new ThermalInputError(`starts[${i}]`, `starts[${i}] is before starts[${i - 1}]: starts must be in time order.`);
+      throw new ThermalInputError(
+        `starts[${i}]`,
+        `starts[${i}] is before starts[${i - 1}]: starts must be in time order.`,
+      );
     }
     if (t - prev < gapMs) out.push(item);
     prev = t;

@@ -53,7 +53,10 @@ export function mixedWaterLitres(input: LayerProfile & { volumeL: number; coldC:
   const coldC = waterTemp('coldC', input.coldC);
   const deliveryC = waterTemp('deliveryC', input.deliveryC);
   if (deliveryC <= coldC) {
-    throw new ThermalInputError('deliveryC', `deliveryC is ${deliveryC} °C: the delivery temperature must be above the cold-water temperature (${coldC} °C).`);
+    throw new ThermalInputError(
+      'deliveryC',
+      `deliveryC is ${deliveryC} °C: the delivery temperature must be above the cold-water temperature (${coldC} °C).`,
+    );
   }
   const w = input.heightsM === undefined ? null : shares('heightsM', input.heightsM, t.length);
   const span = deliveryC - coldC;
@@ -76,14 +79,17 @@ export function stateOfCharge(input: LayerProfile & { coldC: number; targetC: nu
   const coldC = waterTemp('coldC', input.coldC);
   const targetC = waterTemp('targetC', input.targetC);
   if (targetC <= coldC) {
-    throw new ThermalInputError('targetC', `targetC is ${targetC} °C: the target temperature must be above the cold-water temperature (${coldC} °C).`);
+    throw new ThermalInputError(
+      'targetC',
+      `targetC is ${targetC} °C: the target temperature must be above the cold-water temperature (${coldC} °C).`,
+    );
   }
   const w = input.heightsM === undefined ? null : shares('heightsM', input.heightsM, t.length);
   const span = targetC - coldC;
   let soc = 0;
   for (let i = 0; i < t.length; i++) {
     const x = (t[i]! - coldC) / span;
-    soc += (x <= 0 ? 0 : x >= 1 ? 1 : x) * (w ? w[i]! : 1 / t.length);
+    soc += (x <= 0 ? 0 : Math.min(x, 1)) * (w ? w[i]! : 1 / t.length);
   }
   return Math.min(1, Math.max(0, soc));
 }

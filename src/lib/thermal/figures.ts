@@ -11,7 +11,17 @@
 import { mixedWaterLitres, stateOfCharge, storedEnergyKWh } from './energy.js';
 import { ThermalInputError } from './errors.js';
 import { mixNumber, thermocline } from './stratification.js';
-import { DEFAULT_SENSOR_LIMITS, DEFAULT_STUCK_LIMITS, initialStuck, sensorFaults, stepStuck, stuckSensors, type SensorFault, type SensorLimits, type StuckLimits } from './sensor-check.js';
+import {
+  DEFAULT_SENSOR_LIMITS,
+  DEFAULT_STUCK_LIMITS,
+  initialStuck,
+  sensorFaults,
+  stepStuck,
+  stuckSensors,
+  type SensorFault,
+  type SensorLimits,
+  type StuckLimits,
+} from './sensor-check.js';
 import { finite, positive } from './validate.js';
 
 /** Cold water of the EN 16147 V40 and its tapping cycles, °C. */
@@ -24,9 +34,13 @@ export interface TankGeometry {
   volumeL: number;
   /** Height of the water column, metres. */ heightM: number;
   sensorCount: number;
-  /** Sensor heights above the bottom, metres, bottom to top; null or absent: evenly spaced. */ sensorHeightsM?: readonly number[] | null;
+  /** Sensor heights above the bottom, metres, bottom to top; null or absent: evenly spaced. */ sensorHeightsM?:
+    | readonly number[]
+    | null;
   /** Thermostat target, °C: full charge. */ targetC: number;
-  /** The home's cold-inlet temperature, °C, where the company has set one; otherwise EN 16147's 10 °C. */ coldInletC?: number | null;
+  /** The home's cold-inlet temperature, °C, where the company has set one; otherwise EN 16147's 10 °C. */ coldInletC?:
+    | number
+    | null;
 }
 
 export interface FigureOptions {
@@ -40,7 +54,9 @@ export interface FiguresQuality {
   status: FiguresStatus;
   /** Sensors left out, numbered from 1 at the bottom. */ leftOut: number[];
   /** Why each was left out. */ faults: { sensor: number; fault: SensorFault }[];
-  /** One sentence for staff ("Estimated, sensor 3 left out (no reading)."); null when measured. */ reason: string | null;
+  /** One sentence for staff ("Estimated, sensor 3 left out (no reading)."); null when measured. */ reason:
+    | string
+    | null;
 }
 
 export interface TankFigures {
@@ -49,7 +65,9 @@ export interface TankFigures {
   /** Heat above the cold inlet, kWh. */ storedKWh: number | null;
   /** Heat still to add for every layer to reach the target, kWh. */ toFullKWh: number | null;
   /** MIX number, 0 stratified – 1 mixed. */ mix: number | null;
-  /** Thermocline height above the bottom, metres; null without a transition (or when withheld). */ thermoclineM: number | null;
+  /** Thermocline height above the bottom, metres; null without a transition (or when withheld). */ thermoclineM:
+    | number
+    | null;
   /** Cold water the figures count from, °C. */ coldC: number;
   /** The column used, measured and estimated layers, °C; null when withheld. */ layersC: number[] | null;
   quality: FiguresQuality;
@@ -74,8 +92,14 @@ export function layerThicknesses(positionsM: readonly number[], heightM: number)
  * Mean water temperature of a full column, °C, each layer weighted by the water it stands for
  * (`layerThicknesses`): what a cooling curve follows, on the tank page and in the heat-loss rule alike.
  */
-export function columnMeanC(layersC: readonly number[], geometry: Pick<TankGeometry, 'heightM' | 'sensorHeightsM'>): number {
-  const weights = layerThicknesses(sensorPositions(layersC.length, geometry.heightM, geometry.sensorHeightsM), geometry.heightM);
+export function columnMeanC(
+  layersC: readonly number[],
+  geometry: Pick<TankGeometry, 'heightM' | 'sensorHeightsM'>,
+): number {
+  const weights = layerThicknesses(
+    sensorPositions(layersC.length, geometry.heightM, geometry.sensorHeightsM),
+    geometry.heightM,
+  );
   const total = weights.reduce((a, b) => a + b, 0);
   return layersC.reduce((a, t, i) => a + t * weights[i]!, 0) / total;
 }
@@ -85,9 +109,15 @@ export function coldWaterC(geometry: Pick<TankGeometry, 'coldInletC'>): number {
   return geometry.coldInletC ?? EN16147_COLD_C;
 }
 
-const faultWords: Record<SensorFault, string> = { missing: 'no reading', out_of_range: 'reading out of range', stuck: 'stuck', out_of_order: 'out of order' };
+const faultWords: Record<SensorFault, string> = {
+  missing: 'no reading',
+  out_of_range: 'reading out of range',
+  stuck: 'stuck',
+  out_of_order: 'out of order',
+};
 
-const listOf = (xs: readonly string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs.at(-1)}`);
+const listOf = (xs: readonly string[]) =>
+  xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs.at(-1)}`;
 
 function leftOutWords(faults: readonly { sensor: number; fault: SensorFault }[]): string {
   const kinds = [...new Set(faults.map((f) => faultWords[f.fault]))];
@@ -100,24 +130,52 @@ function leftOutWords(faults: readonly { sensor: number; fault: SensorFault }[])
  * nothing. Throws ThermalInputError for an impossible geometry; a bad reading is never an error,
  * it only lowers the quality.
  */
-export function tankFigures(reading: { layersC: readonly (number | null | undefined)[] }, geometry: TankGeometry, options: FigureOptions = {}): TankFigures {
+export function tankFigures(
+  reading: { layersC: readonly (number | null | undefined)[] },
+  geometry: TankGeometry,
+  options: FigureOptions = {},
+): TankFigures {
   const volumeL = positive('geometry.volumeL', geometry.volumeL, 'litres');
   const heightM = positive('geometry.heightM', geometry.heightM, 'metres');
   const n = geometry.sensorCount;
-  if (!Number.isInteger(n) || n < 1) throw new ThermalInputError('geometry.sensorCount', `geometry.sensorCount is ${n}: it must be a whole number of sensors from 1.`);
+  if (!Number.isInteger(n) || n < 1)
+    throw new ThermalInputError(
+      'geometry.sensorCount',
+      `geometry.sensorCount is ${n}: it must be a whole number of sensors from 1.`,
+    );
   const coldC = finite('geometry.coldInletC', coldWaterC(geometry), 'a temperature in °C');
-  if (coldC < 0 || coldC >= 30) throw new ThermalInputError('geometry.coldInletC', `geometry.coldInletC is ${coldC} °C: a cold inlet is between 0 and 30 °C.`);
-  const targetC = Math.min(100, Math.max(finite('geometry.targetC', geometry.targetC, 'a temperature in °C'), coldC + 1));
+  if (coldC < 0 || coldC >= 30)
+    throw new ThermalInputError(
+      'geometry.coldInletC',
+      `geometry.coldInletC is ${coldC} °C: a cold inlet is between 0 and 30 °C.`,
+    );
+  const targetC = Math.min(
+    100,
+    Math.max(finite('geometry.targetC', geometry.targetC, 'a temperature in °C'), coldC + 1),
+  );
 
   const faults = sensorFaults(reading.layersC, n, options.limits ?? DEFAULT_SENSOR_LIMITS, options.stuck);
   const leftOut = faults.flatMap((f, i) => (f ? [{ sensor: i + 1, fault: f }] : []));
   const withheld = (reason: string): TankFigures => ({
-    soc: null, v40L: null, storedKWh: null, toFullKWh: null, mix: null, thermoclineM: null, coldC, layersC: null,
+    soc: null,
+    v40L: null,
+    storedKWh: null,
+    toFullKWh: null,
+    mix: null,
+    thermoclineM: null,
+    coldC,
+    layersC: null,
     quality: { status: 'withheld', leftOut: leftOut.map((f) => f.sensor), faults: leftOut, reason },
   });
-  if (faults[n - 1]) return withheld(`Withheld: the top sensor (${n}) is left out (${faultWords[faults[n - 1]!]}), and the hottest water cannot be estimated without it.`);
+  if (faults[n - 1])
+    return withheld(
+      `Withheld: the top sensor (${n}) is left out (${faultWords[faults[n - 1]!]}), and the hottest water cannot be estimated without it.`,
+    );
   for (let i = 0; i + 1 < n; i++) {
-    if (faults[i] && faults[i + 1]) return withheld(`Withheld: sensors ${i + 1} and ${i + 2} are left out side by side (${[...new Set([faultWords[faults[i]!], faultWords[faults[i + 1]!]])].join(', ')}), too much of the column to estimate.`);
+    if (faults[i] && faults[i + 1])
+      return withheld(
+        `Withheld: sensors ${i + 1} and ${i + 2} are left out side by side (${[...new Set([faultWords[faults[i]!], faultWords[faults[i + 1]!]])].join(', ')}), too much of the column to estimate.`,
+      );
   }
 
   const z = sensorPositions(n, heightM, geometry.sensorHeightsM);
@@ -130,7 +188,10 @@ export function tankFigures(reading: { layersC: readonly (number | null | undefi
     while (below >= 0 && faults[below]) below--;
     let above = i + 1;
     while (faults[above]) above++; // the top is believed, so this stops
-    column[i] = below < 0 ? column[above]! : column[below]! + ((column[above]! - column[below]!) * (z[i]! - z[below]!)) / (z[above]! - z[below]!);
+    column[i] =
+      below < 0
+        ? column[above]!
+        : column[below]! + ((column[above]! - column[below]!) * (z[i]! - z[below]!)) / (z[above]! - z[below]!);
   }
 
   const heightsM = layerThicknesses(z, heightM);
@@ -147,9 +208,15 @@ export function tankFigures(reading: { layersC: readonly (number | null | undefi
     thermoclineM: tc ? tc.heightM : null,
     coldC,
     layersC: column,
-    quality: leftOut.length === 0
-      ? { status: 'measured', leftOut: [], faults: [], reason: null }
-      : { status: 'estimated', leftOut: leftOut.map((f) => f.sensor), faults: leftOut, reason: `Estimated, ${leftOutWords(leftOut)}.` },
+    quality:
+      leftOut.length === 0
+        ? { status: 'measured', leftOut: [], faults: [], reason: null }
+        : {
+            status: 'estimated',
+            leftOut: leftOut.map((f) => f.sensor),
+            faults: leftOut,
+            reason: `Estimated, ${leftOutWords(leftOut)}.`,
+          },
   };
 }
 
@@ -159,11 +226,18 @@ export function tankFigures(reading: { layersC: readonly (number | null | undefi
  * and the planner's history leave out the same sensors the latest figures do. Null for a reading
  * without layers.
  */
-export function figuresOverTime(readings: readonly { t: number; layersC: readonly (number | null | undefined)[] }[], geometry: TankGeometry, options: { limits?: SensorLimits; stuckLimits?: StuckLimits } = {}): (TankFigures | null)[] {
+export function figuresOverTime(
+  readings: readonly { t: number; layersC: readonly (number | null | undefined)[] }[],
+  geometry: TankGeometry,
+  options: { limits?: SensorLimits; stuckLimits?: StuckLimits } = {},
+): (TankFigures | null)[] {
   const check = initialStuck(geometry.sensorCount);
   return readings.map((r) => {
     if (r.layersC.length === 0) return null;
     stepStuck(check, r.t, r.layersC, options.stuckLimits ?? DEFAULT_STUCK_LIMITS);
-    return tankFigures(r, geometry, { ...(options.limits ? { limits: options.limits } : {}), stuck: stuckSensors(check) });
+    return tankFigures(r, geometry, {
+      ...(options.limits ? { limits: options.limits } : {}),
+      stuck: stuckSensors(check),
+    });
   });
 }

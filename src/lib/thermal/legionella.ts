@@ -4,7 +4,10 @@ import { ThermalInputError } from './errors.js';
 import { finite, layerHeights, layers, positive, record } from './validate.js';
 
 /** One reading of the layer temperatures: epoch milliseconds and °C bottom to top. */
-export interface LayerSample { t: number; layersC: readonly number[] }
+export interface LayerSample {
+  t: number;
+  layersC: readonly number[];
+}
 
 /** Exposure of each layer over the series. */
 export interface LegionellaExposure {
@@ -43,10 +46,16 @@ export function legionellaExposure(
     const t = finite(`series[${k}].t`, s?.t, 'a time in epoch milliseconds');
     const row = layers(`series[${k}].layersC`, s.layersC);
     if (row.length !== n) {
-      throw new ThermalInputError(`series[${k}].layersC`, `series[${k}].layersC has ${row.length} layers: every reading must have the same ${n} layers as the first.`);
+      throw new ThermalInputError(
+        `series[${k}].layersC`,
+        `series[${k}].layersC has ${row.length} layers: every reading must have the same ${n} layers as the first.`,
+      );
     }
     if (t <= prevT) {
-      throw new ThermalInputError(`series[${k}].t`, `series[${k}].t is not after series[${k - 1}].t: readings must be in strictly increasing time order.`);
+      throw new ThermalInputError(
+        `series[${k}].t`,
+        `series[${k}].t is not after series[${k - 1}].t: readings must be in strictly increasing time order.`,
+      );
     }
     if (prev) {
       const gap = t - prevT;
@@ -68,5 +77,10 @@ export function legionellaExposure(
   const held = longest.map((m) => m >= holdMin);
   let fraction = 0;
   for (let i = 0; i < n; i++) if (held[i]) fraction += h[i]! / total;
-  return { minutesAtOrAbove: minutes, longestStretchMin: longest, layerHeld: held, heldFraction: Math.min(1, fraction) };
+  return {
+    minutesAtOrAbove: minutes,
+    longestStretchMin: longest,
+    layerHeld: held,
+    heldFraction: Math.min(1, fraction),
+  };
 }

@@ -7,9 +7,16 @@ const KELVIN = 273.15;
 const T25_K = 298.15;
 
 /** Beta-model thermistor: resistance `r25Ohm` (Ω) at 25 °C and constant `betaK` (K). */
-export interface BetaThermistor { r25Ohm: number; betaK: number }
+export interface BetaThermistor {
+  r25Ohm: number;
+  betaK: number;
+}
 /** Steinhart & Hart (1968) coefficients: 1/T = a + b·ln R + c·(ln R)³, T in K, R in Ω. */
-export interface SteinhartHart { a: number; b: number; c: number }
+export interface SteinhartHart {
+  a: number;
+  b: number;
+  c: number;
+}
 
 function checkSensor(sensor: BetaThermistor, field = 'sensor'): void {
   if (typeof sensor !== 'object' || sensor === null) {
@@ -39,7 +46,11 @@ export function ntcTemperature(ohm: number, sensor: BetaThermistor): number {
   checkSensor(sensor);
   const r = positive('ohm', ohm, 'ohms');
   const inv = 1 / T25_K + Math.log(r / sensor.r25Ohm) / sensor.betaK;
-  if (inv <= 0) throw new ThermalInputError('ohm', `ohm is ${r}: that resistance lies outside this thermistor's curve (it would mean a temperature above absolute infinity).`);
+  if (inv <= 0)
+    throw new ThermalInputError(
+      'ohm',
+      `ohm is ${r}: that resistance lies outside this thermistor's curve (it would mean a temperature above absolute infinity).`,
+    );
   return 1 / inv - KELVIN;
 }
 
@@ -47,7 +58,10 @@ export function ntcTemperature(ohm: number, sensor: BetaThermistor): number {
 export function steinhartHartTemperature(ohm: number, coefficients: SteinhartHart): number {
   const r = positive('ohm', ohm, 'ohms');
   if (typeof coefficients !== 'object' || coefficients === null) {
-    throw new ThermalInputError('coefficients', 'coefficients are missing: give { a, b, c } of the Steinhart–Hart equation.');
+    throw new ThermalInputError(
+      'coefficients',
+      'coefficients are missing: give { a, b, c } of the Steinhart–Hart equation.',
+    );
   }
   const a = finite('coefficients.a', coefficients.a);
   const b = finite('coefficients.b', coefficients.b);
@@ -55,7 +69,10 @@ export function steinhartHartTemperature(ohm: number, coefficients: SteinhartHar
   const l = Math.log(r);
   const inv = a + b * l + c * l * l * l;
   if (!(inv > 0)) {
-    throw new ThermalInputError('coefficients', `coefficients give 1/T = ${inv} K⁻¹ at ${r} Ω: check a, b and c (1/T must be positive).`);
+    throw new ThermalInputError(
+      'coefficients',
+      `coefficients give 1/T = ${inv} K⁻¹ at ${r} Ω: check a, b and c (1/T must be positive).`,
+    );
   }
   return 1 / inv - KELVIN;
 }
@@ -75,7 +92,7 @@ export function steinhartHartCoefficients(points: ReadonlyArray<{ ohm: number; t
   // Steinhart & Hart's closed form for three points.
   const g2 = (y2 - y1) / (l2 - l1);
   const g3 = (y3 - y1) / (l3 - l1);
-  const c = ((g3 - g2) / (l3 - l2)) / (l1 + l2 + l3);
+  const c = (g3 - g2) / (l3 - l2) / (l1 + l2 + l3);
   const b = g2 - c * (l1 * l1 + l1 * l2 + l2 * l2);
   const a = y1 - (b + l1 * l1 * c) * l1;
   return { a, b, c };
@@ -91,13 +108,20 @@ export interface ThermistorSettings {
  * The resistances that make a heat pump with a Beta-model NTC input (`sensor`) read `callC`
  * ("cold, heat now") and `satisfiedC` ("hot enough"), both °C, with callC below satisfiedC.
  */
-export function thermistorSettings(input: { sensor: BetaThermistor; callC: number; satisfiedC: number }): ThermistorSettings {
+export function thermistorSettings(input: {
+  sensor: BetaThermistor;
+  callC: number;
+  satisfiedC: number;
+}): ThermistorSettings {
   record('input', input, '{ sensor, callC, satisfiedC }');
   checkSensor(input.sensor);
   const callC = celsius('callC', input.callC);
   const satisfiedC = celsius('satisfiedC', input.satisfiedC);
   if (callC >= satisfiedC) {
-    throw new ThermalInputError('callC', `callC is ${callC} °C: the call-for-heat temperature must be below the satisfied temperature (${satisfiedC} °C).`);
+    throw new ThermalInputError(
+      'callC',
+      `callC is ${callC} °C: the call-for-heat temperature must be below the satisfied temperature (${satisfiedC} °C).`,
+    );
   }
   return { callOhm: ntcResistance(callC, input.sensor), satisfiedOhm: ntcResistance(satisfiedC, input.sensor) };
 }

@@ -22,7 +22,11 @@ export function implausible(v: number | null | undefined, limits: SensorLimits):
 }
 
 /** True when the lower of two adjacent readings is warmer than the upper beyond the limit. */
-export function inverted(below: number | null | undefined, above: number | null | undefined, limits: SensorLimits): boolean {
+export function inverted(
+  below: number | null | undefined,
+  above: number | null | undefined,
+  limits: SensorLimits,
+): boolean {
   return below != null && above != null && below - above > limits.inversionK;
 }
 
@@ -34,15 +38,29 @@ export function inverted(below: number | null | undefined, above: number | null 
  * found by dynamic programming over at most a few dozen sensors); on a tie the top sensor is
  * kept, since the top decides how much hot water there is.
  */
-export function sensorFaults(layersC: readonly (number | null | undefined)[], count: number, limits: SensorLimits, stuck: readonly number[] = []): (SensorFault | null)[] {
+export function sensorFaults(
+  layersC: readonly (number | null | undefined)[],
+  count: number,
+  limits: SensorLimits,
+  stuck: readonly number[] = [],
+): (SensorFault | null)[] {
   const faults: (SensorFault | null)[] = [];
   for (let i = 0; i < count; i++) {
     const v = layersC[i];
-    faults.push(v === null || v === undefined ? 'missing' : implausible(v, limits) ? 'out_of_range' : stuck.includes(i) ? 'stuck' : null);
+    faults.push(
+      v === null || v === undefined
+        ? 'missing'
+        : implausible(v, limits)
+          ? 'out_of_range'
+          : stuck.includes(i)
+            ? 'stuck'
+            : null,
+    );
   }
   const kept = faults.flatMap((f, i) => (f === null ? [i] : []));
   let anyInversion = false;
-  for (let k = 0; k + 1 < kept.length; k++) if (inverted(layersC[kept[k]!], layersC[kept[k + 1]!], limits)) anyInversion = true;
+  for (let k = 0; k + 1 < kept.length; k++)
+    if (inverted(layersC[kept[k]!], layersC[kept[k + 1]!], limits)) anyInversion = true;
   if (!anyInversion) return faults;
   // best[k]: longest chain of kept sensors ending at kept[k]; prev[k]: the one before it.
   const best: number[] = [];
@@ -52,7 +70,10 @@ export function sensorFaults(layersC: readonly (number | null | undefined)[], co
     prev.push(-1);
     for (let j = k - 1; j >= 0; j--) {
       if (inverted(layersC[kept[j]!], layersC[kept[k]!], limits)) continue;
-      if (best[j]! + 1 > best[k]!) { best[k] = best[j]! + 1; prev[k] = j; }
+      if (best[j]! + 1 > best[k]!) {
+        best[k] = best[j]! + 1;
+        prev[k] = j;
+      }
     }
   }
   let end = kept.length - 1;
@@ -72,7 +93,12 @@ export interface StuckLimits {
 }
 
 /** The sensor-fault rule's defaults (src/lib/alerts/thresholds.ts). */
-export const DEFAULT_STUCK_LIMITS: StuckLimits = { windowMin: 120, toleranceK: 0.05, neighbourMoveK: 2, maxGapMs: 15 * 60_000 };
+export const DEFAULT_STUCK_LIMITS: StuckLimits = {
+  windowMin: 120,
+  toleranceK: 0.05,
+  neighbourMoveK: 2,
+  maxGapMs: 15 * 60_000,
+};
 
 export interface StuckState {
   prevTs: number | null;
@@ -84,7 +110,12 @@ export interface StuckState {
   stuckDetail: ({ rangeK: number; neighbourK: number; at: number } | null)[];
 }
 
-export const initialStuck = (n: number): StuckState => ({ prevTs: null, window: null, stuck: new Array(n).fill(null), stuckDetail: new Array(n).fill(null) });
+export const initialStuck = (n: number): StuckState => ({
+  prevTs: null,
+  window: null,
+  stuck: new Array(n).fill(null),
+  stuckDetail: new Array(n).fill(null),
+});
 
 const round1 = (x: number) => Math.round(x * 10) / 10;
 
@@ -92,7 +123,12 @@ const round1 = (x: number) => Math.round(x * 10) / 10;
  * Advances the stuck check by one reading (in time order): tumbling windows of `windowMin`; a
  * sensor is judged only when a neighbour moved enough to tell, and cleared once it moves itself.
  */
-export function stepStuck(s: StuckState, ts: number, layersC: readonly (number | null | undefined)[], limits: StuckLimits): void {
+export function stepStuck(
+  s: StuckState,
+  ts: number,
+  layersC: readonly (number | null | undefined)[],
+  limits: StuckLimits,
+): void {
   const n = layersC.length;
   if (s.stuck.length !== n) Object.assign(s, initialStuck(n));
   if (s.prevTs !== null && ts - s.prevTs > limits.maxGapMs) s.window = null;
@@ -126,4 +162,5 @@ export function stepStuck(s: StuckState, ts: number, layersC: readonly (number |
 }
 
 /** Sensors (0-based) the stuck check currently holds stuck. */
-export const stuckSensors = (s: StuckState | null | undefined): number[] => (s ? s.stuck.flatMap((x, i) => (x === true ? [i] : [])) : []);
+export const stuckSensors = (s: StuckState | null | undefined): number[] =>
+  s ? s.stuck.flatMap((x, i) => (x === true ? [i] : [])) : [];

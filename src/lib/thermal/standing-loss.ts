@@ -5,7 +5,10 @@ import { finite, positive, record, waterTemp } from './validate.js';
 import { waterCp, waterDensity } from './water.js';
 
 /** One reading during the cooling period: epoch milliseconds and the volume-mean water temperature, °C. */
-export interface CoolingSample { t: number; meanC: number }
+export interface CoolingSample {
+  t: number;
+  meanC: number;
+}
 
 /** Result of the cooling-curve fit. */
 export interface StandingLossResult {
@@ -34,7 +37,10 @@ export function standingLoss(
   const minExcessK = options.minExcessK === undefined ? 3 : positive('minExcessK', options.minExcessK, 'kelvin');
   const maxRmsK = options.maxRmsK === undefined ? 0.3 : positive('maxRmsK', options.maxRmsK, 'kelvin');
   if (!Array.isArray(samples) || samples.length < 3) {
-    throw new ThermalInputError('samples', `samples holds ${Array.isArray(samples) ? samples.length : 'no'} readings: at least 3 readings over the cooling period are needed.`);
+    throw new ThermalInputError(
+      'samples',
+      `samples holds ${Array.isArray(samples) ? samples.length : 'no'} readings: at least 3 readings over the cooling period are needed.`,
+    );
   }
   const xs: number[] = [];
   const ys: number[] = [];
@@ -44,10 +50,16 @@ export function standingLoss(
     const t = finite(`samples[${i}].t`, s?.t, 'a time in epoch milliseconds');
     const c = waterTemp(`samples[${i}].meanC`, s?.meanC);
     if (i > 0 && t <= samples[i - 1]!.t) {
-      throw new ThermalInputError(`samples[${i}].t`, `samples[${i}].t is not after samples[${i - 1}].t: samples must be in strictly increasing time order.`);
+      throw new ThermalInputError(
+        `samples[${i}].t`,
+        `samples[${i}].t is not after samples[${i - 1}].t: samples must be in strictly increasing time order.`,
+      );
     }
     if (c - ambientC < minExcessK) {
-      throw new ThermalInputError(`samples[${i}].meanC`, `samples[${i}].meanC is ${c} °C, within ${minExcessK} K of ambient (${ambientC} °C): the fit needs water clearly warmer than its surroundings.`);
+      throw new ThermalInputError(
+        `samples[${i}].meanC`,
+        `samples[${i}].meanC is ${c} °C, within ${minExcessK} K of ambient (${ambientC} °C): the fit needs water clearly warmer than its surroundings.`,
+      );
     }
     xs.push((t - samples[0]!.t) / 1000);
     ys.push(Math.log(c - ambientC));
@@ -55,7 +67,10 @@ export function standingLoss(
   }
   const durationH = xs[xs.length - 1]! / 3600;
   if (durationH < minHours) {
-    throw new ThermalInputError('samples', `samples span ${durationH.toFixed(2)} h: a cooling period of at least ${minHours} h is needed for a reliable fit.`);
+    throw new ThermalInputError(
+      'samples',
+      `samples span ${durationH.toFixed(2)} h: a cooling period of at least ${minHours} h is needed for a reliable fit.`,
+    );
   }
   const n = xs.length;
   const mx = xs.reduce((a, b) => a + b, 0) / n;
@@ -68,7 +83,10 @@ export function standingLoss(
   }
   const slope = sxy / sxx; // −UA/(m·c), 1/s
   if (!(slope < 0)) {
-    throw new ThermalInputError('samples', 'samples do not cool over the period: pick a period with no heating and no draw.');
+    throw new ThermalInputError(
+      'samples',
+      'samples do not cool over the period: pick a period with no heating and no draw.',
+    );
   }
   const intercept = my - slope * mx;
   let sq = 0;
@@ -78,7 +96,10 @@ export function standingLoss(
   }
   const rms = Math.sqrt(sq / n);
   if (rms > maxRmsK) {
-    throw new ThermalInputError('samples', `samples are too noisy for a cooling curve (RMS residual ${rms.toFixed(2)} K, limit ${maxRmsK} K): the period probably includes a draw or heating.`);
+    throw new ThermalInputError(
+      'samples',
+      `samples are too noisy for a cooling curve (RMS residual ${rms.toFixed(2)} K, limit ${maxRmsK} K): the period probably includes a draw or heating.`,
+    );
   }
   const meanC = sumT / n;
   const heatCapacityJPerK = (volumeL / 1000) * waterDensity(meanC) * waterCp(meanC);

@@ -68,7 +68,10 @@ export function thermocline(input: LayerProfile & { tankHeightM?: number; minSpr
   const total = input.tankHeightM === undefined ? 1 : positive('tankHeightM', input.tankHeightM, 'metres');
   const minSpread = input.minSpreadK === undefined ? 2 : positive('minSpreadK', input.minSpreadK, 'kelvin');
   if (input.heightsM !== undefined && input.tankHeightM !== undefined) {
-    throw new ThermalInputError('tankHeightM', 'tankHeightM and heightsM were both given: pass layer thicknesses (heightsM) or a column height (tankHeightM), not both.');
+    throw new ThermalInputError(
+      'tankHeightM',
+      'tankHeightM and heightsM were both given: pass layer thicknesses (heightsM) or a column height (tankHeightM), not both.',
+    );
   }
   const h = layerHeights('heightsM', input.heightsM, t.length, total);
   let tMin = Infinity;

@@ -35,7 +35,9 @@ export interface TankSpec {
 }
 
 /** Node temperatures, °C, bottom to top (length = node count of the spec). */
-export interface TankState { nodesC: number[] }
+export interface TankState {
+  nodesC: number[];
+}
 
 /** What happens during one step. */
 export interface StepInputs {
@@ -100,7 +102,8 @@ function integerIn(field: string, value: unknown, lo: number, hi: number): numbe
 
 function fraction(field: string, value: unknown): number {
   const v = finite(field, value, 'a fraction from 0 (bottom) to 1 (top)');
-  if (v < 0 || v > 1) throw new ThermalInputError(field, `${field} is ${v}: it must be a fraction from 0 (bottom) to 1 (top).`);
+  if (v < 0 || v > 1)
+    throw new ThermalInputError(field, `${field} is ${v}: it must be a fraction from 0 (bottom) to 1 (top).`);
   return v;
 }
 
@@ -115,11 +118,17 @@ function derive(spec: TankSpec): Derived {
   const heightM = positive('spec.heightM', spec.heightM, 'metres');
   const ambientC = finite('spec.ambientC', spec.ambientC, 'a temperature in °C');
   if (ambientC < -40 || ambientC > 60) {
-    throw new ThermalInputError('spec.ambientC', `spec.ambientC is ${ambientC} °C: the air around a cylinder must be between −40 and 60 °C.`);
+    throw new ThermalInputError(
+      'spec.ambientC',
+      `spec.ambientC is ${ambientC} °C: the air around a cylinder must be between −40 and 60 °C.`,
+    );
   }
   const ua = nonNegative('spec.uaWPerK', spec.uaWPerK, 'W/K');
   if (!HEAT_SOURCES.includes(spec.heatSource)) {
-    throw new ThermalInputError('spec.heatSource', `spec.heatSource is ${String(spec.heatSource)}: it must be one of ${HEAT_SOURCES.join(', ')}.`);
+    throw new ThermalInputError(
+      'spec.heatSource',
+      `spec.heatSource is ${String(spec.heatSource)}: it must be one of ${HEAT_SOURCES.join(', ')}.`,
+    );
   }
   nonNegative('spec.hpOutputW', spec.hpOutputW, 'W');
   nonNegative('spec.immersionW', spec.immersionW, 'W');
@@ -132,7 +141,7 @@ function derive(spec: TankSpec): Derived {
 
   const rho = waterDensity(MODEL_PROPERTY_C);
   const cp = waterCp(MODEL_PROPERTY_C);
-  const massKg = (volumeL / 1000) * rho / n;
+  const massKg = ((volumeL / 1000) * rho) / n;
   const areaM2 = volumeL / 1000 / heightM;
   const d: Derived = {
     n,
@@ -171,7 +180,10 @@ export function createTank(spec: TankSpec, initialC: number | number[]): TankSta
     return { nodesC: new Array<number>(d.n).fill(waterTemp('initialC', initialC)) };
   }
   if (!Array.isArray(initialC) || (initialC.length !== d.n && initialC.length !== spec.sensorCount)) {
-    throw new ThermalInputError('initialC', `initialC must be one temperature in °C or an array of ${d.n} node or ${spec.sensorCount} sensor temperatures, bottom to top.`);
+    throw new ThermalInputError(
+      'initialC',
+      `initialC must be one temperature in °C or an array of ${d.n} node or ${spec.sensorCount} sensor temperatures, bottom to top.`,
+    );
   }
   const values = initialC.map((t, i) => waterTemp(`initialC[${i}]`, t));
   return { nodesC: values.length === d.n ? values : resample(values, d.n) };
@@ -215,13 +227,16 @@ export function stepTankInPlace(spec: TankSpec, state: TankState, inputs: StepIn
   const drawLpm = nonNegative('inputs.drawLpm', inputs.drawLpm, 'litres per minute');
   const flowC = inputs.hpFlowC === undefined ? d.maxFlowC : waterTemp('inputs.hpFlowC', inputs.hpFlowC);
   const hpW = inputs.hpOutputW === undefined ? spec.hpOutputW : nonNegative('inputs.hpOutputW', inputs.hpOutputW, 'W');
-  const immW = inputs.immersionPowerW === undefined ? spec.immersionW : Math.min(spec.immersionW, nonNegative('inputs.immersionPowerW', inputs.immersionPowerW, 'W'));
+  const immW =
+    inputs.immersionPowerW === undefined
+      ? spec.immersionW
+      : Math.min(spec.immersionW, nonNegative('inputs.immersionPowerW', inputs.immersionPowerW, 'W'));
   const T = state.nodesC;
 
   // 1. Draw.
   let drawnJ = 0;
   let outletC = 0;
-  const drawMassKg = (drawLpm * dt / 60 / 1000) * d.densityKgPerM3;
+  const drawMassKg = ((drawLpm * dt) / 60 / 1000) * d.densityKgPerM3;
   if (drawMassKg > 0) {
     const sub = Math.ceil(drawMassKg / d.massKg);
     const f = drawMassKg / d.massKg / sub;
@@ -338,7 +353,10 @@ function coilHeat(d: Derived, T: number[], powerW: number, dt: number, flowC: nu
 function mixInversions(T: number[], n: number): void {
   let inverted = false;
   for (let i = 0; i < n - 1; i++) {
-    if (T[i]! > T[i + 1]!) { inverted = true; break; }
+    if (T[i]! > T[i + 1]!) {
+      inverted = true;
+      break;
+    }
   }
   if (!inverted) return;
   const sum = scratchSum;
@@ -364,12 +382,18 @@ function mixInversions(T: number[], n: number): void {
 function checkState(d: Derived, state: TankState): void {
   const nodes = state?.nodesC;
   if (!Array.isArray(nodes) || nodes.length !== d.n) {
-    throw new ThermalInputError('state.nodesC', `state.nodesC must be an array of ${d.n} node temperatures in °C (got ${Array.isArray(nodes) ? nodes.length : 'none'}); create it with createTank.`);
+    throw new ThermalInputError(
+      'state.nodesC',
+      `state.nodesC must be an array of ${d.n} node temperatures in °C (got ${Array.isArray(nodes) ? nodes.length : 'none'}); create it with createTank.`,
+    );
   }
   for (let i = 0; i < d.n; i++) {
     const t = nodes[i];
     if (typeof t !== 'number' || !Number.isFinite(t)) {
-      throw new ThermalInputError(`state.nodesC[${i}]`, `state.nodesC[${i}] is ${String(t)}: every node temperature must be a finite number in °C.`);
+      throw new ThermalInputError(
+        `state.nodesC[${i}]`,
+        `state.nodesC[${i}] is ${String(t)}: every node temperature must be a finite number in °C.`,
+      );
     }
   }
 }

@@ -22,11 +22,20 @@ export interface TappingDraw {
 }
 
 /** A whole tapping cycle and its reference energy. */
-export interface TappingProfile { size: TappingProfileSize; qrefKWh: number; draws: TappingDraw[] }
+export interface TappingProfile {
+  size: TappingProfileSize;
+  qrefKWh: number;
+  draws: TappingDraw[];
+}
 
 /** Reference energy Qref of each profile, kWh/day (814/2013 Annex III; EN 16147). */
 export const TAPPING_QREF_KWH: Readonly<Record<TappingProfileSize, number>> = {
-  XS: 2.1, S: 2.1, M: 5.845, L: 11.655, XL: 19.07, XXL: 24.53,
+  XS: 2.1,
+  S: 2.1,
+  M: 5.845,
+  L: 11.655,
+  XL: 19.07,
+  XXL: 24.53,
 };
 
 // Tap kinds: [flow l/min, useful Tm °C, peak Tp °C or null]. Small draws Tm 25; shower and
@@ -46,45 +55,122 @@ type Row = readonly [string, number, TapType];
 const sm = (time: string): Row => [time, 0.105, 'small'];
 
 const M_ROWS: readonly Row[] = [
-  sm('07:00'), ['07:05', 1.4, 'shower'], sm('07:30'), sm('08:01'), sm('08:15'), sm('08:30'), sm('08:45'),
-  sm('09:00'), sm('09:30'), ['10:30', 0.105, 'floor_cleaning'], sm('11:30'), sm('11:45'),
-  ['12:45', 0.315, 'dishwashing'], sm('14:30'), sm('15:30'), sm('16:30'), sm('18:00'),
-  ['18:15', 0.105, 'household_cleaning'], ['18:30', 0.105, 'household_cleaning'], sm('19:00'),
-  ['20:30', 0.735, 'dishwashing'], sm('21:15'), ['21:30', 1.4, 'shower'],
+  sm('07:00'),
+  ['07:05', 1.4, 'shower'],
+  sm('07:30'),
+  sm('08:01'),
+  sm('08:15'),
+  sm('08:30'),
+  sm('08:45'),
+  sm('09:00'),
+  sm('09:30'),
+  ['10:30', 0.105, 'floor_cleaning'],
+  sm('11:30'),
+  sm('11:45'),
+  ['12:45', 0.315, 'dishwashing'],
+  sm('14:30'),
+  sm('15:30'),
+  sm('16:30'),
+  sm('18:00'),
+  ['18:15', 0.105, 'household_cleaning'],
+  ['18:30', 0.105, 'household_cleaning'],
+  sm('19:00'),
+  ['20:30', 0.735, 'dishwashing'],
+  sm('21:15'),
+  ['21:30', 1.4, 'shower'],
 ];
 
 const L_ROWS: readonly Row[] = [
-  sm('07:00'), ['07:05', 1.4, 'shower'], sm('07:30'), sm('07:45'), ['08:05', 3.605, 'bath'], sm('08:25'),
-  sm('08:30'), sm('08:45'), sm('09:00'), sm('09:30'), ['10:30', 0.105, 'floor_cleaning'], sm('11:30'),
-  sm('11:45'), ['12:45', 0.315, 'dishwashing'], sm('14:30'), sm('15:30'), sm('16:30'), sm('18:00'),
-  ['18:15', 0.105, 'household_cleaning'], ['18:30', 0.105, 'household_cleaning'], sm('19:00'),
-  ['20:30', 0.735, 'dishwashing'], ['21:00', 3.605, 'bath'], sm('21:30'),
+  sm('07:00'),
+  ['07:05', 1.4, 'shower'],
+  sm('07:30'),
+  sm('07:45'),
+  ['08:05', 3.605, 'bath'],
+  sm('08:25'),
+  sm('08:30'),
+  sm('08:45'),
+  sm('09:00'),
+  sm('09:30'),
+  ['10:30', 0.105, 'floor_cleaning'],
+  sm('11:30'),
+  sm('11:45'),
+  ['12:45', 0.315, 'dishwashing'],
+  sm('14:30'),
+  sm('15:30'),
+  sm('16:30'),
+  sm('18:00'),
+  ['18:15', 0.105, 'household_cleaning'],
+  ['18:30', 0.105, 'household_cleaning'],
+  sm('19:00'),
+  ['20:30', 0.735, 'dishwashing'],
+  ['21:00', 3.605, 'bath'],
+  sm('21:30'),
 ];
 
 const XS_ROWS: readonly Row[] = [
-  ['07:30', 0.525, 'small'], ['12:45', 0.525, 'small'], ['18:00', 0.525, 'small'], ['21:30', 0.525, 'small'],
+  ['07:30', 0.525, 'small'],
+  ['12:45', 0.525, 'small'],
+  ['18:00', 0.525, 'small'],
+  ['21:30', 0.525, 'small'],
 ];
 
 const S_ROWS: readonly Row[] = [
-  sm('07:00'), sm('07:30'), sm('08:30'), sm('09:30'), sm('11:30'), sm('11:45'),
-  ['12:45', 0.315, 'dishwashing'], sm('18:00'), sm('18:15'), ['20:30', 0.42, 'dishwashing'],
+  sm('07:00'),
+  sm('07:30'),
+  sm('08:30'),
+  sm('09:30'),
+  sm('11:30'),
+  sm('11:45'),
+  ['12:45', 0.315, 'dishwashing'],
+  sm('18:00'),
+  sm('18:15'),
+  ['20:30', 0.42, 'dishwashing'],
   ['21:30', 0.525, 'large'],
 ];
 
 // XL and XXL share their pattern; only the bath energy differs (4.42 and 6.24 kWh).
 function xlRows(bathKWh: number): Row[] {
   return [
-    sm('07:00'), ['07:15', 1.82, 'shower'], sm('07:26'), ['07:45', bathKWh, 'bath'], sm('08:01'), sm('08:15'),
-    sm('08:30'), sm('08:45'), sm('09:00'), sm('09:30'), sm('10:00'), ['10:30', 0.105, 'floor_cleaning'],
-    sm('11:00'), sm('11:30'), sm('11:45'), ['12:45', 0.735, 'dishwashing'], sm('14:30'), sm('15:00'),
-    sm('15:30'), sm('16:00'), sm('16:30'), sm('17:00'), sm('18:00'), ['18:15', 0.105, 'household_cleaning'],
-    ['18:30', 0.105, 'household_cleaning'], sm('19:00'), ['20:30', 0.735, 'dishwashing'], sm('20:45'),
-    ['20:46', bathKWh, 'bath'], ['21:30', bathKWh, 'bath'],
+    sm('07:00'),
+    ['07:15', 1.82, 'shower'],
+    sm('07:26'),
+    ['07:45', bathKWh, 'bath'],
+    sm('08:01'),
+    sm('08:15'),
+    sm('08:30'),
+    sm('08:45'),
+    sm('09:00'),
+    sm('09:30'),
+    sm('10:00'),
+    ['10:30', 0.105, 'floor_cleaning'],
+    sm('11:00'),
+    sm('11:30'),
+    sm('11:45'),
+    ['12:45', 0.735, 'dishwashing'],
+    sm('14:30'),
+    sm('15:00'),
+    sm('15:30'),
+    sm('16:00'),
+    sm('16:30'),
+    sm('17:00'),
+    sm('18:00'),
+    ['18:15', 0.105, 'household_cleaning'],
+    ['18:30', 0.105, 'household_cleaning'],
+    sm('19:00'),
+    ['20:30', 0.735, 'dishwashing'],
+    sm('20:45'),
+    ['20:46', bathKWh, 'bath'],
+    ['21:30', bathKWh, 'bath'],
   ];
 }
 
 const ROWS: Readonly<Record<TappingProfileSize, readonly Row[]>> = {
-  XS: XS_ROWS, S: S_ROWS, M: M_ROWS, L: L_ROWS, XL: xlRows(4.42), XXL: xlRows(6.24),
+  XS: XS_ROWS,
+  S: S_ROWS,
+  M: M_ROWS,
+  L: L_ROWS,
+  XL: xlRows(4.42),
+  XXL: xlRows(6.24),
 };
 
 const SIZES = Object.keys(ROWS) as TappingProfileSize[];

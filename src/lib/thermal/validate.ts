@@ -48,7 +48,10 @@ export function waterTemp(field: string, value: unknown): number {
 /** A non-empty array of layer temperatures, bottom to top, each a liquid-water temperature in °C. */
 export function layers(field: string, value: unknown): readonly number[] {
   if (!Array.isArray(value)) {
-    throw new ThermalInputError(field, `${field} is ${describe(value)}: it must be an array of layer temperatures in °C, bottom to top.`);
+    throw new ThermalInputError(
+      field,
+      `${field} is ${describe(value)}: it must be an array of layer temperatures in °C, bottom to top.`,
+    );
   }
   if (value.length === 0) {
     throw new ThermalInputError(field, `${field} is empty: at least one layer temperature in °C is needed.`);
@@ -56,7 +59,10 @@ export function layers(field: string, value: unknown): readonly number[] {
   for (let i = 0; i < value.length; i++) {
     const t = value[i];
     if (typeof t !== 'number' || !Number.isFinite(t)) {
-      throw new ThermalInputError(`${field}[${i}]`, `${field}[${i}] is ${describe(t)}: every layer temperature must be a finite number in °C.`);
+      throw new ThermalInputError(
+        `${field}[${i}]`,
+        `${field}[${i}] is ${describe(t)}: every layer temperature must be a finite number in °C.`,
+      );
     }
     if (t < MIN_WATER_C || t > MAX_WATER_C) {
       throw new ThermalInputError(
@@ -72,7 +78,10 @@ export function layers(field: string, value: unknown): readonly number[] {
 export function layerHeights(field: string, value: unknown, count: number, defaultTotal = 1): number[] {
   if (value === undefined) return new Array<number>(count).fill(defaultTotal / count);
   if (!Array.isArray(value) || value.length !== count) {
-    throw new ThermalInputError(field, `${field} must be an array of ${count} layer thicknesses in metres, one per layer (got ${Array.isArray(value) ? value.length : describe(value)}).`);
+    throw new ThermalInputError(
+      field,
+      `${field} must be an array of ${count} layer thicknesses in metres, one per layer (got ${Array.isArray(value) ? value.length : describe(value)}).`,
+    );
   }
   return value.map((h, i) => positive(`${field}[${i}]`, h, 'metres'));
 }

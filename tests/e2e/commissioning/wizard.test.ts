@@ -77,7 +77,7 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await page.getByRole('button', { name: 'Scan the code' }).click();
     const camera = page.getByLabel('Camera view for scanning the serial');
     await camera.waitFor({ timeout: 15_000 });
-    await page.waitForFunction(() => (document.querySelector('[aria-label="Camera view for scanning the serial"]') as HTMLMediaElement | null)?.readyState! >= 2, undefined, { timeout: 15_000 });
+    await page.waitForFunction(() => ((document.querySelector('[aria-label="Camera view for scanning the serial"]') as HTMLMediaElement | null)?.readyState ?? 0) >= 2, undefined, { timeout: 15_000 });
     await page.getByRole('button', { name: 'Stop scanning' }).click();
     await expect(camera.count()).resolves.toBe(0);
     // A bad value first, refused with the field named

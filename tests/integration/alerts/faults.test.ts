@@ -16,7 +16,7 @@ const cases: Case[] = [
     // The simulator sticks the third sensor from the top; the neighbours that go on moving give it away.
     evidence: (e, n) => { expect(e.summary).toMatch(new RegExp(`[Ss]ensor ${n - 2}\\b`)); expect(e.readings).toHaveLength(1); } },
   { fault: 'sensors_swapped', kind: 'sensor_fault', opensWithinH: 2, resolvesWithinH: 8,
-    evidence: (e) => { expect(e.summary).toMatch(/Sensor 2 reads [\d.]+ K warmer than sensor 3 above it/); expect(e.facts['inversion2_3K']).toBeGreaterThan(3); } },
+    evidence: (e) => { expect(e.summary).toMatch(/Sensor 2 reads [\d.]+ K warmer than sensor 3 above it/); expect(e.facts.inversion2_3K).toBeGreaterThan(3); } },
   { fault: 'short_cycle', kind: 'short_cycling', opensWithinH: 6, resolvesWithinH: 24,
     evidence: (e) => { expect(e.facts.violations).toBeGreaterThanOrEqual(3); expect(e.facts.minStartGapMin).toBe(60); expect(e.events.length).toBeGreaterThanOrEqual(3); } },
   { fault: 'network_outage', kind: 'offline', opensWithinH: 24, resolvesWithinH: 1,

@@ -40,7 +40,7 @@ describe('broker limits', () => {
     // A valid reading padded with JSON whitespace to 2 MiB: were it let through, the worker would
     // store it or keep it as a dead letter (PayloadTooLarge).
     const r = JSON.stringify(reading(big, Date.now() - 5 * MIN));
-    const payload = r.slice(0, -1) + ' '.repeat(2 * limits.maxPayloadBytes) + '}';
+    const payload = `${r.slice(0, -1) + ' '.repeat(2 * limits.maxPayloadBytes)}}`;
     const result = await outcome(dev, dev.publishAsync(topicFor(big.serial, 'telemetry'), payload, { qos: 1 }));
     dev.end(true);
     expect(result).toBe('closed');
@@ -57,7 +57,7 @@ describe('broker limits', () => {
     const dev = await connectDevice(mqttUrl(), big);
     const ts = Date.now() - 3 * MIN;
     const r = JSON.stringify(reading(big, ts));
-    const payload = r.slice(0, -1) + ' '.repeat(limits.maxPayloadBytes - r.length) + '}';
+    const payload = `${r.slice(0, -1) + ' '.repeat(limits.maxPayloadBytes - r.length)}}`;
     expect(Buffer.byteLength(payload)).toBe(limits.maxPayloadBytes);
     expect(await outcome(dev, dev.publishAsync(topicFor(big.serial, 'telemetry'), payload, { qos: 1 }))).toBe('acknowledged');
     await dev.endAsync();

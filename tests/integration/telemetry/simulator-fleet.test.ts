@@ -56,7 +56,7 @@ describe('simulated fleet with one tank\'s token rotated', () => {
     await new Promise((r) => setTimeout(r, 2000));
     const after = await Promise.all(others.map((t) => readingCount(db, id(t.serial))));
     // …every other tank stored more readings (about 20 in 2 s at 10 a second; at least 5 asked here).
-    others.forEach((t, i) => expect({ serial: t.serial, more: after[i] - before[i] >= 5 }).toEqual({ serial: t.serial, more: true }));
+    for (const [i, t] of others.entries()) expect({ serial: t.serial, more: after[i] - before[i] >= 5 }).toEqual({ serial: t.serial, more: true });
     // The rotated tank stored nothing new, and said so once, not at every attempt.
     const since = () => count(db, `select count(*) as n from readings where tank_id = $1 and ts > $2`, [id(rotated.serial), new Date(rotatedAt.getTime() + 1000)]);
     expect(await since()).toBe(0);

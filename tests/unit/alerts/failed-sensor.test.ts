@@ -10,7 +10,14 @@ import type { Reading } from '../../../src/lib/telemetry/wire';
 const MIN = 60_000;
 const t0 = Date.UTC(2026, 10, 2, 5);
 const tank: TankFacts = { volumeL: 200, sensorCount: 4, heatSource: 'hp_plate', declaredLossW: 57, occupants: 2 };
-const r = (min: number, layersC: (number | null)[], extra: Partial<Reading> = {}): Reading => ({ ts: t0 + min * MIN, layersC, compressor: false, immersionW: 0, drawLpm: 0, ...extra });
+const r = (min: number, layersC: (number | null)[], extra: Partial<Reading> = {}): Reading => ({
+  ts: t0 + min * MIN,
+  layersC,
+  compressor: false,
+  immersionW: 0,
+  drawLpm: 0,
+  ...extra,
+});
 
 /** Which sensor, if any, reads nothing (0-based). */
 type Drop = number | null;
@@ -35,11 +42,16 @@ function cooling(startMin: number, lossW: number, missing: Drop): Reading[] {
 
 function run(readings: Reading[]): { transitions: Transition[]; state: EngineState } {
   let state: EngineState | null = null;
-  const open = new Set<AlertKind>(), all: Transition[] = [];
+  const open = new Set<AlertKind>(),
+    all: Transition[] = [];
   for (let i = 0; i < readings.length; i += 10) {
     const res = evaluateReadings(state, readings.slice(i, i + 10), tank, th, open);
     state = res.state;
-    for (const t of res.transitions) { all.push(t); if (t.type === 'open') open.add(t.kind); else open.delete(t.kind); }
+    for (const t of res.transitions) {
+      all.push(t);
+      if (t.type === 'open') open.add(t.kind);
+      else open.delete(t.kind);
+    }
   }
   return { transitions: all, state: state! };
 }
@@ -52,7 +64,8 @@ describe('column rules with a failed sensor', () => {
     expect(opened(full.transitions, 'heat_loss')).toBe(1);
     expect(opened(one.transitions, 'heat_loss')).toBe(1);
     expect(one.state.heatLoss.fits).toHaveLength(full.state.heatLoss.fits.length);
-    one.state.heatLoss.fits.forEach((f, i) => expect(f.lossW).toBeCloseTo(full.state.heatLoss.fits[i]!.lossW, 0));
+    for (const [i, f] of one.state.heatLoss.fits.entries())
+      expect(f.lossW).toBeCloseTo(full.state.heatLoss.fits[i]!.lossW, 0);
     // About the 120 W the curve was made with (rounding of the fit: common practice).
     expect(one.state.heatLoss.fits[1]!.lossW).toBeGreaterThan(110);
   });
@@ -65,10 +78,11 @@ describe('column rules with a failed sensor', () => {
 
   it('immersion share: sensor 2 out, the day is still accounted and the alert opens', () => {
     // The immersion alone heating the water for 25 h: 100 % of the heat against a 20 % limit (common practice).
-    const heating = (missing: Drop) => Array.from({ length: 25 * 60 }, (_, m) => {
-      const c = 15 + (45 * m) / (25 * 60);
-      return r(m, drop([c, c + 0.5, c + 1, c + 1.5], missing), { immersionW: 500 });
-    });
+    const heating = (missing: Drop) =>
+      Array.from({ length: 25 * 60 }, (_, m) => {
+        const c = 15 + (45 * m) / (25 * 60);
+        return r(m, drop([c, c + 0.5, c + 1, c + 1.5], missing), { immersionW: 500 });
+      });
     const full = run(heating(null));
     const one = run(heating(1));
     expect(opened(one.transitions, 'immersion_heavy')).toBe(1);

@@ -1,7 +1,12 @@
 // Rule thresholds at their edges, and the lifecycle's hysteresis, on hand-made readings.
 import { describe, expect, it } from 'vitest';
 import { evaluateClock, evaluateReadings, type EngineState, type TankFacts } from '../../../src/lib/alerts/engine';
-import { defaultThresholds, resolveThresholds, thresholdOverridesSchema, type Thresholds } from '../../../src/lib/alerts/thresholds';
+import {
+  defaultThresholds,
+  resolveThresholds,
+  thresholdOverridesSchema,
+  type Thresholds,
+} from '../../../src/lib/alerts/thresholds';
 import { initialLegionella, stepLegionella, legionellaFinding } from '../../../src/lib/alerts/rules/legionella';
 import { initialShortCycle, shortCycleFinding, stepShortCycle } from '../../../src/lib/alerts/rules/short-cycling';
 import { heatLossFinding, initialHeatLoss, stepHeatLoss } from '../../../src/lib/alerts/rules/heat-loss';
@@ -13,12 +18,21 @@ const MIN = 60_000;
 const t0 = Date.UTC(2026, 10, 2);
 const th: Thresholds = defaultThresholds;
 const tank: TankFacts = { volumeL: 200, sensorCount: 4, heatSource: 'hp_plate', declaredLossW: 57, occupants: 2 };
-const r = (min: number, layersC: (number | null)[], extra: Partial<Reading> = {}): Reading => ({ ts: t0 + min * MIN, layersC, compressor: false, immersionW: 0, drawLpm: 0, ...extra });
+const r = (min: number, layersC: (number | null)[], extra: Partial<Reading> = {}): Reading => ({
+  ts: t0 + min * MIN,
+  layersC,
+  compressor: false,
+  immersionW: 0,
+  drawLpm: 0,
+  ...extra,
+});
 const steady = (min: number) => r(min, [20, 35, 50, 55 + ((min % 3) - 1) * 0.02]);
 
 function run(readings: Reading[], thresholds = th, state: EngineState | null = null, open = new Set<AlertKind>()) {
   const res = evaluateReadings(state, readings, tank, thresholds, open);
-  for (const t of res.transitions) if (t.type === 'open') open.add(t.kind); else open.delete(t.kind);
+  for (const t of res.transitions)
+    if (t.type === 'open') open.add(t.kind);
+    else open.delete(t.kind);
   return { ...res, open };
 }
 
@@ -60,7 +74,9 @@ describe('offline', () => {
     open.add('offline');
     const back = run([steady(40)], th, c.state, open);
     expect(evaluateClock(back.state, t0 + 41 * MIN, tank, th, open, null).transitions).toEqual([]);
-    expect(evaluateClock(back.state, t0 + 51 * MIN, tank, th, open, null).transitions).toMatchObject([{ type: 'resolve', kind: 'offline' }]);
+    expect(evaluateClock(back.state, t0 + 51 * MIN, tank, th, open, null).transitions).toMatchObject([
+      { type: 'resolve', kind: 'offline' },
+    ]);
   });
   it('says nothing about a tank that has never reported', () => {
     expect(evaluateClock(null, t0, tank, th, new Set(), null).transitions).toEqual([]);
@@ -76,7 +92,9 @@ describe('sensor faults', () => {
   });
   it('treats the plausible range as inclusive at both ends', () => {
     expect(run(Array.from({ length: 10 }, (_, m) => r(m, [1, 35, 50, 99]))).transitions).toEqual([]);
-    expect(run(Array.from({ length: 10 }, (_, m) => r(m, [0.9, 35, 50, 55]))).transitions).toMatchObject([{ kind: 'sensor_fault' }]);
+    expect(run(Array.from({ length: 10 }, (_, m) => r(m, [0.9, 35, 50, 55]))).transitions).toMatchObject([
+      { kind: 'sensor_fault' },
+    ]);
   });
   it('allows an inversion of exactly the limit, not more, and only after 30 minutes', () => {
     const at = (k: number) => Array.from({ length: 40 }, (_, m) => r(m, [20, 50 + k, 50, 55]));
@@ -106,8 +124,14 @@ describe('legionella', () => {
   // 60 °C: HSE HSG274 Part 2 (2014). Hold 60 min across 50% of the volume (common practice).
   const week = 7 * 24 * 60;
   it('counts time at temperature as the thermal core does', () => {
-    const series = Array.from({ length: 200 }, (_, m) => ({ ts: t0 + m * MIN, layersC: [20, m > 30 && m < 120 ? 60 : 59.9, 61, 62] }));
-    const ex = legionellaExposure(series.map((x) => ({ t: x.ts, layersC: x.layersC })), { thresholdC: 60, holdMin: 60 });
+    const series = Array.from({ length: 200 }, (_, m) => ({
+      ts: t0 + m * MIN,
+      layersC: [20, m > 30 && m < 120 ? 60 : 59.9, 61, 62],
+    }));
+    const ex = legionellaExposure(
+      series.map((x) => ({ t: x.ts, layersC: x.layersC })),
+      { thresholdC: 60, holdMin: 60 },
+    );
     expect(ex.layerHeld).toEqual([false, true, true, true]);
     const s = initialLegionella();
     for (const x of series.slice(0, 60)) stepLegionella(s, x, th);
@@ -184,7 +208,12 @@ describe('thresholds', () => {
   it('replays nothing twice: readings older than the state are skipped', () => {
     const first = run([0, 1, 2, 3, 4, 5].map((m) => r(m, [20, null, 50, 55])));
     expect(first.transitions).toHaveLength(1);
-    const again = run([0, 1, 2, 3, 4, 5].map((m) => r(m, [20, null, 50, 55])), th, first.state, new Set());
+    const again = run(
+      [0, 1, 2, 3, 4, 5].map((m) => r(m, [20, null, 50, 55])),
+      th,
+      first.state,
+      new Set(),
+    );
     expect(again.transitions).toEqual([]);
   });
 });

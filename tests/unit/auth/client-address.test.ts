@@ -5,7 +5,12 @@
 import { createServer, type IncomingHttpHeaders, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { parseTrustedProxies, resolveClientAddress, settleForwardedHeaders, trustPredicate } from '../../../src/lib/server/client-address';
+import {
+  parseTrustedProxies,
+  resolveClientAddress,
+  settleForwardedHeaders,
+  trustPredicate,
+} from '../../../src/lib/server/client-address';
 
 let server: Server;
 let url = '';
@@ -33,7 +38,11 @@ async function ask(trusted: string[], headers: Record<string, string>) {
 
 describe('client address', () => {
   it('with no trusted proxy, takes the connection and ignores a forged X-Forwarded-For', async () => {
-    const got = await ask([], { 'x-forwarded-for': '203.0.113.7', 'x-forwarded-proto': 'https', 'x-forwarded-host': 'evil.example.net' });
+    const got = await ask([], {
+      'x-forwarded-for': '203.0.113.7',
+      'x-forwarded-proto': 'https',
+      'x-forwarded-host': 'evil.example.net',
+    });
     expect(got.address).toBe('127.0.0.1');
     // What Astro reads afterwards: the settled address, and no forwarded protocol or host.
     expect(got.headers['x-forwarded-for']).toBe('127.0.0.1');
@@ -42,14 +51,19 @@ describe('client address', () => {
   });
 
   it('behind a trusted proxy, takes the address the proxy appended (the rightmost), not one the client wrote first', async () => {
-    const got = await ask(['loopback'], { 'x-forwarded-for': '198.51.100.1, 203.0.113.7', 'x-forwarded-proto': 'https' });
+    const got = await ask(['loopback'], {
+      'x-forwarded-for': '198.51.100.1, 203.0.113.7',
+      'x-forwarded-proto': 'https',
+    });
     expect(got.address).toBe('203.0.113.7');
     expect(got.headers['x-forwarded-for']).toBe('203.0.113.7');
     expect(got.headers['x-forwarded-proto']).toBe('https');
   });
 
   it('skips every trusted hop, by address or CIDR range', async () => {
-    const got = await ask(parseTrustedProxies('127.0.0.1, 10.0.0.0/8'), { 'x-forwarded-for': '198.51.100.9, 203.0.113.7, 10.1.2.3' });
+    const got = await ask(parseTrustedProxies('127.0.0.1, 10.0.0.0/8'), {
+      'x-forwarded-for': '198.51.100.9, 203.0.113.7, 10.1.2.3',
+    });
     expect(got.address).toBe('203.0.113.7');
   });
 

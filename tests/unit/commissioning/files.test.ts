@@ -6,7 +6,12 @@ import { MAX_IMAGE_EDGE_PX, MAX_UPLOAD_BYTES, prepareUpload, sniff } from '../..
 import { jpegPhoto, pngImage, truncatedJpeg } from '../../support/commissioning';
 
 async function refusal(p: Promise<unknown>): Promise<HttpError> {
-  try { await p; } catch (err) { if (err instanceof HttpError) return err; throw err; }
+  try {
+    await p;
+  } catch (err) {
+    if (err instanceof HttpError) return err;
+    throw err;
+  }
   throw new Error('The upload was accepted.');
 }
 
@@ -39,14 +44,26 @@ describe('upload checks', () => {
 
   it('downscales a large photo to the edge limit and stores it as JPEG', async () => {
     const p = await prepareUpload('cylinder.png', await pngImage(3000, 2000));
-    expect(p).toMatchObject({ kind: 'photo', contentType: 'image/jpeg', width: MAX_IMAGE_EDGE_PX, height: Math.round(2000 * MAX_IMAGE_EDGE_PX / 3000), downscaled: true, filename: 'cylinder.jpg' });
+    expect(p).toMatchObject({
+      kind: 'photo',
+      contentType: 'image/jpeg',
+      width: MAX_IMAGE_EDGE_PX,
+      height: Math.round((2000 * MAX_IMAGE_EDGE_PX) / 3000),
+      downscaled: true,
+      filename: 'cylinder.jpg',
+    });
     const meta = await sharp(p.body).metadata();
     expect([meta.format, meta.width]).toEqual(['jpeg', MAX_IMAGE_EDGE_PX]);
   });
 
   it('keeps a small photo’s size and a valid PDF as sent', async () => {
-    expect(await prepareUpload('small.jpg', await jpegPhoto(640, 480))).toMatchObject({ width: 640, height: 480, downscaled: false });
-    const doc = await PDFDocument.create(); doc.addPage();
+    expect(await prepareUpload('small.jpg', await jpegPhoto(640, 480))).toMatchObject({
+      width: 640,
+      height: 480,
+      downscaled: false,
+    });
+    const doc = await PDFDocument.create();
+    doc.addPage();
     const bytes = Buffer.from(await doc.save());
     const p = await prepareUpload('sheet.pdf', bytes);
     expect(p).toMatchObject({ kind: 'document', contentType: 'application/pdf' });

@@ -2,7 +2,15 @@
 // capabilities steer the commissioning steps, the exchanger check and the planner.
 import { describe, expect, it } from 'vitest';
 import { heatSourceEnum } from '../../../src/db/schema/homes';
-import { capabilities, hasHeatPump, heatPumpKinds, heatSourceDescriptions, heatSourceKinds, heatSourceLabels, isHeatSource } from '../../../src/lib/heat-sources';
+import {
+  capabilities,
+  hasHeatPump,
+  heatPumpKinds,
+  heatSourceDescriptions,
+  heatSourceKinds,
+  heatSourceLabels,
+  isHeatSource,
+} from '../../../src/lib/heat-sources';
 import { exchangerProblem, exchangers, heatSourceStepSchema } from '../../../src/lib/commissioning/steps';
 import { heatSourceValues } from '../../../src/lib/views/labels';
 import { PlanRefusal, planInput, type PlanFacts } from '../../../src/lib/tank-energy/plan';
@@ -31,7 +39,10 @@ describe('heat sources', () => {
     for (const heatSource of heatSourceKinds) {
       const r = heatSourceStepSchema.safeParse({ heatSource });
       expect(r.success, heatSource).toBe(!hasHeatPump(heatSource));
-      if (!r.success) expect(r.error.issues.map((i) => i.path[0])).toEqual(expect.arrayContaining(['hpOutputW', 'ntcR25Ohm', 'ntcBetaK']));
+      if (!r.success)
+        expect(r.error.issues.map((i) => i.path[0])).toEqual(
+          expect.arrayContaining(['hpOutputW', 'ntcR25Ohm', 'ntcBetaK']),
+        );
     }
   });
 
@@ -41,12 +52,19 @@ describe('heat sources', () => {
     expect(fits('hp_coil')).toEqual(['coil']);
     expect(fits('boiler_coil')).toEqual(['coil']);
     expect(fits('immersion_only')).toEqual([...exchangers]);
-    expect(exchangerProblem('none', 'boiler_coil')).toMatch(/Boiler through the cylinder’s coil needs a cylinder with an internal coil/);
+    expect(exchangerProblem('none', 'boiler_coil')).toMatch(
+      /Boiler through the cylinder’s coil needs a cylinder with an internal coil/,
+    );
   });
 
   it('refuses a charge plan for a boiler-fed cylinder, naming the field', () => {
     const facts = { tank: { heatSource: 'boiler_coil' } } as unknown as PlanFacts;
     expect(() => planInput(facts)).toThrow(PlanRefusal);
-    try { planInput(facts); } catch (e) { expect((e as PlanRefusal).field).toBe('heatSource'); expect((e as PlanRefusal).code).toBe('NotElectricallyHeated'); }
+    try {
+      planInput(facts);
+    } catch (e) {
+      expect((e as PlanRefusal).field).toBe('heatSource');
+      expect((e as PlanRefusal).code).toBe('NotElectricallyHeated');
+    }
   });
 });

@@ -7,7 +7,13 @@ describe('CSV of existing installs', () => {
     const r = parseInstalls(installsTemplate());
     expect(r.errors).toEqual([]);
     expect(r.rows).toHaveLength(1);
-    expect(r.rows[0].value.tank).toMatchObject({ serial: 'C210-EX-0001', volumeL: 210, sensorCount: 12, heatSource: 'hp_plate', targetC: 60 });
+    expect(r.rows[0].value.tank).toMatchObject({
+      serial: 'C210-EX-0001',
+      volumeL: 210,
+      sensorCount: 12,
+      heatSource: 'hp_plate',
+      targetC: 60,
+    });
     expect(r.rows[0].value.tank.commissionedAt?.toISOString()).toBe('2024-05-14T12:00:00.000Z');
   });
 
@@ -23,7 +29,13 @@ describe('CSV of existing installs', () => {
     ].join('\n');
     const r = parseInstalls(text);
     expect(r.total).toBe(6);
-    expect(r.errors.map((e) => [e.row, e.field])).toEqual([[3, 'volume_l'], [4, 'heat_source'], [6, 'serial'], [6, 'commissioned_on'], [7, 'heat_pump_output_w']]);
+    expect(r.errors.map((e) => [e.row, e.field])).toEqual([
+      [3, 'volume_l'],
+      [4, 'heat_source'],
+      [6, 'serial'],
+      [6, 'commissioned_on'],
+      [7, 'heat_pump_output_w'],
+    ]);
     expect(r.errors[0].message).toBe('volume_l must be a number.');
     expect(r.errors[1].message).toBe('heat_source must be one of hp_plate, hp_coil, immersion_only, boiler_coil.');
     expect(r.errors[3].message).toBe('commissioned_on is not a real date.');
@@ -37,7 +49,14 @@ describe('CSV of existing installs', () => {
   });
 
   it('refuses a file without the required columns, or not CSV at all', () => {
-    expect(parseInstalls('serial,model\nA1,C1\n').errors[0]).toMatchObject({ row: 1, field: '(header)', message: expect.stringMatching(/^The header lacks home_reference, address/) });
-    expect(parseInstalls(`${installsHeader}\n"unclosed,quote\n`).errors[0]).toMatchObject({ field: '(file)', message: expect.stringMatching(/not valid CSV/) });
+    expect(parseInstalls('serial,model\nA1,C1\n').errors[0]).toMatchObject({
+      row: 1,
+      field: '(header)',
+      message: expect.stringMatching(/^The header lacks home_reference, address/),
+    });
+    expect(parseInstalls(`${installsHeader}\n"unclosed,quote\n`).errors[0]).toMatchObject({
+      field: '(file)',
+      message: expect.stringMatching(/not valid CSV/),
+    });
   });
 });

@@ -11,7 +11,9 @@ describe('service due dates', () => {
     // Annual inspection of unvented cylinders (common practice).
     const commissioned = new Date('2025-03-10T09:00:00Z');
     expect(nextInspectionDue(commissioned, null).toISOString()).toBe('2026-03-10T09:00:00.000Z');
-    expect(nextInspectionDue(commissioned, new Date('2026-02-20T09:00:00Z')).toISOString()).toBe('2027-02-20T09:00:00.000Z');
+    expect(nextInspectionDue(commissioned, new Date('2026-02-20T09:00:00Z')).toISOString()).toBe(
+      '2027-02-20T09:00:00.000Z',
+    );
   });
 
   it('says overdue, due soon or not yet due', () => {

@@ -8,7 +8,10 @@ const T0 = Date.UTC(2025, 0, 6);
 const MIN = 60_000;
 
 function halfHourly(prices: [number, number][]): HalfHourlyTariff {
-  const lines = prices.map(([imp, exp], i) => `${new Date(T0 + i * 30 * MIN).toISOString()},${new Date(T0 + (i + 1) * 30 * MIN).toISOString()},${imp},${exp},p/kWh`);
+  const lines = prices.map(
+    ([imp, exp], i) =>
+      `${new Date(T0 + i * 30 * MIN).toISOString()},${new Date(T0 + (i + 1) * 30 * MIN).toISOString()},${imp},${exp},p/kWh`,
+  );
   const r = parseHalfHourlyCsv(['start,end,import,export,unit', ...lines].join('\n'));
   if (!r.ok) throw new Error(JSON.stringify(r.errors));
   return r.tariff;
@@ -31,9 +34,23 @@ describe('accountDay: a hand-worked example', () => {
     at(90, {}),
     at(120, {}),
   ];
-  const day = accountDay(readings, { volumeL: 200, uaWPerK: 2, ambientC: 20 }, halfHourly([[10, 5], [20, 5], [30, 5], [40, 5]]), {
-    startMs: T0, endMs: T0 + 120 * MIN, date: '2025-01-06', maxGapMs: 30 * MIN, hpTailMs: 0,
-  });
+  const day = accountDay(
+    readings,
+    { volumeL: 200, uaWPerK: 2, ambientC: 20 },
+    halfHourly([
+      [10, 5],
+      [20, 5],
+      [30, 5],
+      [40, 5],
+    ]),
+    {
+      startMs: T0,
+      endMs: T0 + 120 * MIN,
+      date: '2025-01-06',
+      maxGapMs: 30 * MIN,
+      hpTailMs: 0,
+    },
+  );
 
   // Standing loss: mean layer 50 °C, UA·ΔT = 2 W/K × 30 K = 60 W; × 0.5 h = 0.030 kWh per interval, 4 intervals.
   const lossKWh = 4 * 0.03;
@@ -79,16 +96,27 @@ describe('accountDay: a hand-worked example', () => {
 
 describe('accountDay against the tank model', () => {
   const spec: TankSpec = {
-    volumeL: 210, sensorCount: 12, heightM: 1.5, ambientC: 18, uaWPerK: 1.5,
-    heatSource: 'hp_plate', hpOutputW: 5000, immersionW: 3000, immersionHeightFrac: 0.6,
+    volumeL: 210,
+    sensorCount: 12,
+    heightM: 1.5,
+    ambientC: 18,
+    uaWPerK: 1.5,
+    heatSource: 'hp_plate',
+    hpOutputW: 5000,
+    immersionW: 3000,
+    immersionHeightFrac: 0.6,
   };
   // Sensors = nodes, so the readings are the model's own temperatures.
-  it('recovers the model\'s heat-pump heat, draw and loss within 3 % from one-minute readings', () => {
+  it("recovers the model's heat-pump heat, draw and loss within 3 % from one-minute readings", () => {
     expect(tankNodeCount(spec)).toBe(12);
     const COP = 3;
     const state = createTank(spec, 45);
     const readings: EnergyReading[] = [];
-    let hp = 0, imm = 0, drawn = 0, loss = 0, on = false;
+    let hp = 0,
+      imm = 0,
+      drawn = 0,
+      loss = 0,
+      on = false;
     for (let m = 0; m <= 1440; m++) {
       const layersC = sensorReadings(spec, state);
       const mid = layersC[4]!;
@@ -96,11 +124,25 @@ describe('accountDay against the tank model', () => {
       else if (mid >= 52) on = false;
       const drawLpm = (m >= 420 && m < 430) || (m >= 1260 && m < 1268) ? 8 : 0;
       const immersionOn = m >= 720 && m < 760;
-      if (m === 1440) { readings.push({ ts: T0 + m * MIN, layersC }); break; }
+      if (m === 1440) {
+        readings.push({ ts: T0 + m * MIN, layersC });
+        break;
+      }
       const r = stepTankInPlace(spec, state, { dtS: 60, coldC: 10, drawLpm, hpOn: on, immersionOn });
-      hp += r.hpHeatJ / 3.6e6; imm += r.immersionHeatJ / 3.6e6; drawn += r.drawnJ / 3.6e6; loss += r.lossJ / 3.6e6;
+      hp += r.hpHeatJ / 3.6e6;
+      imm += r.immersionHeatJ / 3.6e6;
+      drawn += r.drawnJ / 3.6e6;
+      loss += r.lossJ / 3.6e6;
       const immersionW = r.immersionHeatJ / 60;
-      readings.push({ ts: T0 + m * MIN, layersC, compressor: on, immersionW, powerW: r.hpHeatJ / 60 / COP + immersionW, drawLpm, solarSurplusW: immersionOn ? 1000 : 0 });
+      readings.push({
+        ts: T0 + m * MIN,
+        layersC,
+        compressor: on,
+        immersionW,
+        powerW: r.hpHeatJ / 60 / COP + immersionW,
+        drawLpm,
+        solarSurplusW: immersionOn ? 1000 : 0,
+      });
     }
     const flat = halfHourly(Array.from({ length: 48 }, () => [20, 5] as [number, number]));
     const day = accountDay(readings, spec, flat, { startMs: T0, endMs: T0 + 1440 * MIN, date: '2025-01-06' });
@@ -122,7 +164,12 @@ describe('accountDay against the tank model', () => {
 
 describe('accountDay edges', () => {
   const tank = { volumeL: 200, uaWPerK: 2, ambientC: 20 };
-  const flat = halfHourly([[10, 0], [10, 0], [10, 0], [10, 0]]);
+  const flat = halfHourly([
+    [10, 0],
+    [10, 0],
+    [10, 0],
+    [10, 0],
+  ]);
   const opts = { startMs: T0, endMs: T0 + 120 * MIN, date: '2025-01-06' };
 
   it('does not integrate across a gap in the readings, and reports it', () => {
@@ -156,7 +203,9 @@ describe('accountDay edges', () => {
     } catch (e) {
       expect((e as EnergyInputError).field).toBe('readings[1].layersC');
     }
-    expect(() => accountDay([a, { ts: T0 + 2 * MIN, layersC: [50, 50], drawLpm: Number.NaN }], tank, flat, opts)).toThrowError(/readings\[1\]\.drawLpm/);
+    expect(() =>
+      accountDay([a, { ts: T0 + 2 * MIN, layersC: [50, 50], drawLpm: Number.NaN }], tank, flat, opts),
+    ).toThrowError(/readings\[1\]\.drawLpm/);
   });
 });
 
@@ -166,10 +215,17 @@ describe('rollUpMonths', () => {
     const flat = halfHourly(Array.from({ length: 4 }, () => [10, 0] as [number, number]));
     const mk = (date: string, powerW: number, drawLpm: number) =>
       accountDay(
-        [{ ts: T0, layersC: [60, 60], compressor: true, powerW, drawLpm }, { ts: T0 + 30 * MIN, layersC: [60, 60] }],
-        tank, flat, { startMs: T0, endMs: T0 + 120 * MIN, date, maxGapMs: 30 * MIN },
+        [
+          { ts: T0, layersC: [60, 60], compressor: true, powerW, drawLpm },
+          { ts: T0 + 30 * MIN, layersC: [60, 60] },
+        ],
+        tank,
+        flat,
+        { startMs: T0, endMs: T0 + 120 * MIN, date, maxGapMs: 30 * MIN },
       );
-    const d1 = mk('2025-01-30', 1000, 1), d2 = mk('2025-01-31', 2000, 1), d3 = mk('2025-02-01', 1000, 2);
+    const d1 = mk('2025-01-30', 1000, 1),
+      d2 = mk('2025-01-31', 2000, 1),
+      d3 = mk('2025-02-01', 1000, 2);
     const [jan, feb] = rollUpMonths([d3, d1, d2]);
     expect(jan!.month).toBe('2025-01');
     expect(jan!.days).toBe(2);

@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { demandPrior, demandSeries, HOURS_PER_WEEK, kWhPerLitreAt40, learnDemand, localHourOfWeek, occupantScale } from '../../../src/lib/energy/index.js';
+import {
+  demandPrior,
+  demandSeries,
+  HOURS_PER_WEEK,
+  kWhPerLitreAt40,
+  learnDemand,
+  localHourOfWeek,
+  occupantScale,
+} from '../../../src/lib/energy/index.js';
 import type { EnergyReading } from '../../../src/lib/energy/index.js';
 import { TAPPING_QREF_KWH } from '../../../src/lib/thermal/index.js';
 
@@ -30,7 +38,11 @@ describe('learnDemand', () => {
     const out: EnergyReading[] = [];
     for (let m = 0; m < weeks * 7 * 1440; m++) {
       const minuteOfDay = m % 1440;
-      out.push({ ts: MON + m * 60_000, layersC: [20, 60], drawLpm: minuteOfDay >= 1080 && minuteOfDay < 1086 ? 10 : 0 });
+      out.push({
+        ts: MON + m * 60_000,
+        layersC: [20, 60],
+        drawLpm: minuteOfDay >= 1080 && minuteOfDay < 1086 ? 10 : 0,
+      });
     }
     return out;
   }

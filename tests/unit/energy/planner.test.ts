@@ -1,16 +1,37 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
-  buildPlanModel, commandSchedule, demandPrior, demandSeries, EnergyInputError, kWhPerLitreAt40, planCharge, solveDp, v40Curve,
+  buildPlanModel,
+  commandSchedule,
+  demandPrior,
+  demandSeries,
+  EnergyInputError,
+  kWhPerLitreAt40,
+  planCharge,
+  solveDp,
+  v40Curve,
 } from '../../../src/lib/energy/index.js';
 import type { ChargePlan, ChargePlanInput, PlanAction, PlanModel } from '../../../src/lib/energy/index.js';
-import { createTank, estimatedCop, mixedWaterLitres, stepTankInPlace, tankNodeCount } from '../../../src/lib/thermal/index.js';
+import {
+  createTank,
+  estimatedCop,
+  mixedWaterLitres,
+  stepTankInPlace,
+  tankNodeCount,
+} from '../../../src/lib/thermal/index.js';
 import type { TankSpec } from '../../../src/lib/thermal/index.js';
 
 const MON = Date.UTC(2025, 0, 6); // Monday 00:00 GMT
 const spec: TankSpec = {
-  volumeL: 200, sensorCount: 12, heightM: 1.4, ambientC: 18, uaWPerK: 1.5,
-  heatSource: 'hp_plate', hpOutputW: 5000, immersionW: 3000, immersionHeightFrac: 0.6,
+  volumeL: 200,
+  sensorCount: 12,
+  heightM: 1.4,
+  ambientC: 18,
+  uaWPerK: 1.5,
+  heatSource: 'hp_plate',
+  hpOutputW: 5000,
+  immersionW: 3000,
+  immersionHeightFrac: 0.6,
 };
 // Ideal-COP quality grade 0.4 for an air-source heat pump (common practice), water at 55 °C, air at 5 °C.
 const COP = estimatedCop({ sinkC: 55, sourceC: 5 });
@@ -18,12 +39,24 @@ const COP = estimatedCop({ sinkC: 55, sourceC: 5 });
 const FLOOR_M_L = 65;
 
 /** Exhaustive search over every action sequence of the same model, with the start rule written out afresh. */
-function bruteForce(model: PlanModel, floors: number[], credit: number, penalty: number, running: boolean, stepsSinceStart: number, k: number) {
-  let bestS = Infinity, bestC = Infinity;
+function bruteForce(
+  model: PlanModel,
+  floors: number[],
+  credit: number,
+  penalty: number,
+  running: boolean,
+  stepsSinceStart: number,
+  k: number,
+) {
+  let bestS = Infinity,
+    bestC = Infinity;
   const go = (t: number, j: number, on: boolean, ago: number, s: number, c: number): void => {
     if (t === model.steps) {
       const total = c - credit * Math.max(0, model.energyAt(t, j));
-      if (s < bestS - 1e-9 || (s <= bestS + 1e-9 && total < bestC - 1e-9)) { bestS = s; bestC = total; }
+      if (s < bestS - 1e-9 || (s <= bestS + 1e-9 && total < bestC - 1e-9)) {
+        bestS = s;
+        bestC = total;
+      }
       return;
     }
     for (const a of model.actions) {
@@ -31,7 +64,14 @@ function bruteForce(model: PlanModel, floors: number[], credit: number, penalty:
       const start = hp && !on;
       if (start && ago < k) continue; // two starts at least k steps apart
       const tr = model.transition(t, j, a);
-      go(t + 1, tr.next, hp, start ? 1 : ago + 1, s + Math.max(0, floors[t]! - tr.lowV40), c + tr.costPence + (start ? penalty : 0));
+      go(
+        t + 1,
+        tr.next,
+        hp,
+        start ? 1 : ago + 1,
+        s + Math.max(0, floors[t]! - tr.lowV40),
+        c + tr.costPence + (start ? penalty : 0),
+      );
     }
   };
   go(0, model.j0, running, stepsSinceStart, 0, 0);
@@ -59,13 +99,27 @@ describe('charge planner: dynamic programme', () => {
           const k = Math.ceil(60 / c.stepMin);
           const cop = new Array(c.steps).fill(COP);
           const model = buildPlanModel({
-            spec: small, state: createTank(small, c.t0), coldC: 10, stepMin: c.stepMin,
-            importPence: c.prices.slice(0, c.steps), demandLitres40: c.demand.slice(0, c.steps), cop,
-            hpOutputW: small.hpOutputW, immersionW: small.immersionW, hpTopC: 55, gridKWh: 0.05, curve: v40Curve(small, 10, 55),
+            spec: small,
+            state: createTank(small, c.t0),
+            coldC: 10,
+            stepMin: c.stepMin,
+            importPence: c.prices.slice(0, c.steps),
+            demandLitres40: c.demand.slice(0, c.steps),
+            cop,
+            hpOutputW: small.hpOutputW,
+            immersionW: small.immersionW,
+            hpTopC: 55,
+            gridKWh: 0.05,
+            curve: v40Curve(small, 10, 55),
           });
           const floors = new Array(c.steps).fill(c.floor);
           const since = Math.min(k, c.running ? Math.max(1, c.since) : c.since);
-          const dp = solveDp(model, { floorsL40: floors, terminalCreditPence: 2, startPenaltyPence: c.penalty, memory: { running: c.running, stepsSinceStart: since, spacingSteps: k } });
+          const dp = solveDp(model, {
+            floorsL40: floors,
+            terminalCreditPence: 2,
+            startPenaltyPence: c.penalty,
+            memory: { running: c.running, stepsSinceStart: since, spacingSteps: k },
+          });
           const bf = bruteForce(model, floors, 2, c.penalty, c.running, since, k);
           expect(dp.shortfallL40).toBeCloseTo(bf.shortfall, 6);
           expect(dp.objectivePence).toBeCloseTo(bf.objective, 6);
@@ -100,9 +154,20 @@ function resimulate(input: ChargePlanInput, plan: ChargePlan): number[] {
     for (let u = 0; u < 6; u++) {
       const lift = state.nodesC[n - 1]! - 10;
       const drawLpm = owed > 0 ? (lift > 0.5 ? Math.min(12, owed / (4180 * lift) / 5) : 12) : 0;
-      const r = stepTankInPlace(input.spec, state, { dtS: 300, coldC: 10, drawLpm, hpOn: s.heatPump, immersionOn: s.immersion, hpOutputW: input.spec.hpOutputW, hpFlowC: 55 });
+      const r = stepTankInPlace(input.spec, state, {
+        dtS: 300,
+        coldC: 10,
+        drawLpm,
+        hpOn: s.heatPump,
+        immersionOn: s.immersion,
+        hpOutputW: input.spec.hpOutputW,
+        hpFlowC: 55,
+      });
       owed -= r.drawnJ;
-      low = Math.min(low, mixedWaterLitres({ layersC: state.nodesC, volumeL: input.spec.volumeL, coldC: 10, deliveryC: 40 }));
+      low = Math.min(
+        low,
+        mixedWaterLitres({ layersC: state.nodesC, volumeL: input.spec.volumeL, coldC: 10, deliveryC: 40 }),
+      );
     }
     lows.push(low);
   });
@@ -112,7 +177,7 @@ function resimulate(input: ChargePlanInput, plan: ChargePlan): number[] {
 function realisticPrices(steps: number, startMs: number): number[] {
   // Inputs only: a cheap overnight window 00:30–04:30 and an evening peak 16:00–19:00 (GMT in January).
   return Array.from({ length: steps }, (_, i) => {
-    const h = ((startMs / 3_600_000 + i / 2) % 24 + 24) % 24;
+    const h = (((startMs / 3_600_000 + i / 2) % 24) + 24) % 24;
     return h >= 0.5 && h < 4.5 ? 7.5 : h >= 16 && h < 19 ? 38 : 26;
   });
 }
@@ -126,7 +191,13 @@ function homeInput(over: Partial<ChargePlanInput> & { occupants?: number; t0?: n
     state: over.state ?? createTank(s, over.t0 ?? 50),
     startMs,
     importPence: over.importPence ?? realisticPrices(steps, startMs),
-    demandLitres40: over.demandLitres40 ?? demandSeries({ timeZone: 'UTC', litres40ByHour: demandPrior(over.occupants ?? 3), weeksObserved: [], prior: [] }, startMs, steps),
+    demandLitres40:
+      over.demandLitres40 ??
+      demandSeries(
+        { timeZone: 'UTC', litres40ByHour: demandPrior(over.occupants ?? 3), weeksObserved: [], prior: [] },
+        startMs,
+        steps,
+      ),
     comfortFloorL40: over.comfortFloorL40 ?? FLOOR_M_L,
     cop: over.cop ?? COP,
     ...(over.compressor ? { compressor: over.compressor } : {}),
@@ -149,7 +220,13 @@ describe('charge planner: plans checked through the tank model', () => {
         }),
         (c) => {
           const s: TankSpec = { ...spec, volumeL: c.volumeL, hpOutputW: c.hpOutputW };
-          const input = homeInput({ spec: s, t0: c.t0, occupants: c.occupants, comfortFloorL40: c.floor, importPence: c.prices });
+          const input = homeInput({
+            spec: s,
+            t0: c.t0,
+            occupants: c.occupants,
+            comfortFloorL40: c.floor,
+            importPence: c.prices,
+          });
           const plan = planCharge(input);
           expect(plan.floorMet).toBe(true);
           const lows = resimulate(input, plan);
@@ -178,17 +255,24 @@ describe('charge planner: plans checked through the tank model', () => {
     expect(plan.savingsPence).toBeGreaterThan(0);
     // Command windows cover exactly the planned steps.
     const hpSteps = plan.steps.filter((s) => s.heatPump).length;
-    const hpMinutes = plan.schedule.filter((w) => w.source === 'heat_pump').reduce((a, w) => a + (Date.parse(w.end) - Date.parse(w.start)) / 60_000, 0);
+    const hpMinutes = plan.schedule
+      .filter((w) => w.source === 'heat_pump')
+      .reduce((a, w) => a + (Date.parse(w.end) - Date.parse(w.start)) / 60_000, 0);
     expect(hpMinutes).toBe(hpSteps * 30);
   });
 
   it('honours at most one compressor start an hour at 15-minute steps (property)', () => {
     fc.assert(
-      fc.property(fc.array(fc.integer({ min: 1, max: 40 }), { minLength: 48, maxLength: 48 }), fc.integer({ min: 40, max: 55 }), (prices, t0) => {
-        const plan = planCharge(homeInput({ stepMin: 15, importPence: prices, t0, occupants: 4 }));
-        const starts = plan.steps.filter((s) => s.heatPumpStart).map((s) => s.startMs);
-        for (let i = 1; i < starts.length; i++) expect(starts[i]! - starts[i - 1]!).toBeGreaterThanOrEqual(60 * 60_000);
-      }),
+      fc.property(
+        fc.array(fc.integer({ min: 1, max: 40 }), { minLength: 48, maxLength: 48 }),
+        fc.integer({ min: 40, max: 55 }),
+        (prices, t0) => {
+          const plan = planCharge(homeInput({ stepMin: 15, importPence: prices, t0, occupants: 4 }));
+          const starts = plan.steps.filter((s) => s.heatPumpStart).map((s) => s.startMs);
+          for (let i = 1; i < starts.length; i++)
+            expect(starts[i]! - starts[i - 1]!).toBeGreaterThanOrEqual(60 * 60_000);
+        },
+      ),
       { numRuns: 10 },
     );
   });

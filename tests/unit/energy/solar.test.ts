@@ -2,7 +2,14 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { solarDiversion } from '../../../src/lib/energy/index.js';
 
-const base = { immersionW: 3000, volumeL: 200, immersionHeightFrac: 0.5, layersC: [15, 20, 40, 50], divertingW: 0, exportW: 0 };
+const base = {
+  immersionW: 3000,
+  volumeL: 200,
+  immersionHeightFrac: 0.5,
+  layersC: [15, 20, 40, 50],
+  divertingW: 0,
+  exportW: 0,
+};
 
 describe('solarDiversion', () => {
   it('diverts the surplus less the margin, up to the element rating', () => {
@@ -29,10 +36,16 @@ describe('solarDiversion', () => {
   });
 
   it('never diverts more than the surplus or the rating (property)', () => {
-    fc.assert(fc.property(fc.double({ min: 0, max: 10_000, noNaN: true }), fc.double({ min: 0, max: 4000, noNaN: true }), (exportW, divertingW) => {
-      const r = solarDiversion({ ...base, exportW, divertingW });
-      expect(r.divertW).toBeGreaterThanOrEqual(0);
-      expect(r.divertW).toBeLessThanOrEqual(Math.min(3000, exportW + divertingW));
-    }));
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0, max: 10_000, noNaN: true }),
+        fc.double({ min: 0, max: 4000, noNaN: true }),
+        (exportW, divertingW) => {
+          const r = solarDiversion({ ...base, exportW, divertingW });
+          expect(r.divertW).toBeGreaterThanOrEqual(0);
+          expect(r.divertW).toBeLessThanOrEqual(Math.min(3000, exportW + divertingW));
+        },
+      ),
+    );
   });
 });

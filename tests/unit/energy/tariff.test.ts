@@ -13,7 +13,13 @@ function ok(input: unknown): Tariff {
 describe('parseTariff', () => {
   it('keeps a flat tariff in p/kWh as entered', () => {
     const t = ok(flatInput);
-    expect(t).toMatchObject({ kind: 'flat', importPence: 24.5, exportPence: 15, validFromMs: Date.UTC(2025, 0, 1), validToMs: null });
+    expect(t).toMatchObject({
+      kind: 'flat',
+      importPence: 24.5,
+      exportPence: 15,
+      validFromMs: Date.UTC(2025, 0, 1),
+      validToMs: null,
+    });
   });
 
   it('converts pounds per kWh to pence (100 p = £1, common practice)', () => {
@@ -47,13 +53,32 @@ describe('parseTariff', () => {
   });
 
   it('refuses an unknown time zone for a day/night tariff', () => {
-    const r = parseTariff({ kind: 'day_night', unit: 'p/kWh', validFrom: '2025-01-01T00:00:00Z', timeZone: 'Wendmoor/Ashby', nightStart: '00:30', nightEnd: '07:30', dayImport: 28, nightImport: 9 });
+    const r = parseTariff({
+      kind: 'day_night',
+      unit: 'p/kWh',
+      validFrom: '2025-01-01T00:00:00Z',
+      timeZone: 'Wendmoor/Ashby',
+      nightStart: '00:30',
+      nightEnd: '07:30',
+      dayImport: 28,
+      nightImport: 9,
+    });
     expect(!r.ok && r.errors[0]!.field).toBe('timeZone');
   });
 });
 
 describe('priceAt', () => {
-  const dayNight = ok({ kind: 'day_night', unit: 'p/kWh', validFrom: '2025-01-01T00:00:00Z', timeZone: 'Europe/London', nightStart: '00:30', nightEnd: '07:30', dayImport: 28, nightImport: 9, export: 4 });
+  const dayNight = ok({
+    kind: 'day_night',
+    unit: 'p/kWh',
+    validFrom: '2025-01-01T00:00:00Z',
+    timeZone: 'Europe/London',
+    nightStart: '00:30',
+    nightEnd: '07:30',
+    dayImport: 28,
+    nightImport: 9,
+    export: 4,
+  });
 
   it('follows the local clock of a day/night tariff in winter (UTC = GMT) and summer (BST = UTC+1; UK clock rules)', () => {
     expect(priceAt(dayNight, Date.UTC(2025, 0, 15, 0, 29))!.importPence).toBe(28);
@@ -67,7 +92,15 @@ describe('priceAt', () => {
   });
 
   it('handles a night window that spans midnight', () => {
-    const t = ok({ kind: 'day_night', unit: 'p/kWh', validFrom: '2025-01-01T00:00:00Z', nightStart: '23:00', nightEnd: '06:00', dayImport: 30, nightImport: 10 });
+    const t = ok({
+      kind: 'day_night',
+      unit: 'p/kWh',
+      validFrom: '2025-01-01T00:00:00Z',
+      nightStart: '23:00',
+      nightEnd: '06:00',
+      dayImport: 30,
+      nightImport: 10,
+    });
     expect(priceAt(t, Date.UTC(2025, 0, 15, 23, 0))!.importPence).toBe(10);
     expect(priceAt(t, Date.UTC(2025, 0, 15, 5, 59))!.importPence).toBe(10);
     expect(priceAt(t, Date.UTC(2025, 0, 15, 12, 0))!.importPence).toBe(30);
@@ -84,7 +117,12 @@ describe('priceAt', () => {
 
   it('prices by the first layer with a tariff in force: a home’s own for its period, the default around it', () => {
     const companyDefault = ok({ ...flatInput, import: 30 });
-    const homeOwn = ok({ ...flatInput, import: 12, validFrom: '2025-03-01T00:00:00Z', validTo: '2025-04-01T00:00:00Z' });
+    const homeOwn = ok({
+      ...flatInput,
+      import: 12,
+      validFrom: '2025-03-01T00:00:00Z',
+      validTo: '2025-04-01T00:00:00Z',
+    });
     const layered = { layers: [[homeOwn], [companyDefault]] };
     expect(priceAt(layered, Date.UTC(2025, 1, 28, 23, 59))!.importPence).toBe(30);
     expect(priceAt(layered, Date.UTC(2025, 2, 1))!.importPence).toBe(12);
@@ -92,7 +130,9 @@ describe('priceAt', () => {
     expect(priceAt(layered, Date.UTC(2025, 3, 1))!.importPence).toBe(30);
     // An older home tariff still overrides a newer default while it is in force.
     const newerDefault = ok({ ...flatInput, import: 40, validFrom: '2025-03-15T00:00:00Z' });
-    expect(priceAt({ layers: [[homeOwn], [companyDefault, newerDefault]] }, Date.UTC(2025, 2, 20))!.importPence).toBe(12);
+    expect(priceAt({ layers: [[homeOwn], [companyDefault, newerDefault]] }, Date.UTC(2025, 2, 20))!.importPence).toBe(
+      12,
+    );
     expect(priceAt({ layers: [[], []] }, Date.UTC(2025, 2, 20))).toBeNull();
   });
 

@@ -25,8 +25,21 @@ describe('simulated solar diversion', () => {
     // A diverter only passes on what would otherwise be exported: never more than the surplus.
     for (const r of diverted) expect(r.immersionW!).toBeLessThanOrEqual(r.solarSurplusW!);
     // So all of the element's heat is accounted as solar, none as grid.
-    const rows: EnergyReading[] = readings.map((r) => ({ ts: r.ts, layersC: r.layersC as number[], compressor: r.compressor, immersionW: r.immersionW, powerW: r.powerW, drawLpm: r.drawLpm, solarSurplusW: r.solarSurplusW }));
-    const day = accountDay(rows, { volumeL: tank.spec.volumeL, uaWPerK: tank.spec.uaWPerK, ambientC: tank.spec.ambientC }, [], { startMs: MIDDAY, endMs: MIDDAY + 60 * MIN, date: '2026-07-14' });
+    const rows: EnergyReading[] = readings.map((r) => ({
+      ts: r.ts,
+      layersC: r.layersC as number[],
+      compressor: r.compressor,
+      immersionW: r.immersionW,
+      powerW: r.powerW,
+      drawLpm: r.drawLpm,
+      solarSurplusW: r.solarSurplusW,
+    }));
+    const day = accountDay(
+      rows,
+      { volumeL: tank.spec.volumeL, uaWPerK: tank.spec.uaWPerK, ambientC: tank.spec.ambientC },
+      [],
+      { startMs: MIDDAY, endMs: MIDDAY + 60 * MIN, date: '2026-07-14' },
+    );
     expect(day.immersionSolarHeatKWh).toBeGreaterThan(0.5);
     expect(day.immersionGridHeatKWh).toBe(0);
   });

@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { clientIdAllowed, mayPublish, maySubscribe } from '../../../src/lib/telemetry/acl';
-import { SERVICE_USERNAME, demoDeviceToken, generateDeviceToken, hashDeviceToken, tokenMatches } from '../../../src/lib/telemetry/device-token';
+import {
+  SERVICE_USERNAME,
+  demoDeviceToken,
+  generateDeviceToken,
+  hashDeviceToken,
+  tokenMatches,
+} from '../../../src/lib/telemetry/device-token';
 import { SERIAL_PATTERN, topicFor } from '../../../src/lib/telemetry/wire';
 
 const dev = { kind: 'device' as const, serial: 'KVC210-100001' };
@@ -17,7 +23,7 @@ describe('broker authorisation', () => {
     expect(maySubscribe(dev, 'heatlayer/v1/#')).toBe(false);
   });
 
-  it('keeps a tank from taking another client\'s session id', () => {
+  it("keeps a tank from taking another client's session id", () => {
     expect(clientIdAllowed(dev, dev.serial)).toBe(true);
     expect(clientIdAllowed(dev, `${dev.serial}-gw`)).toBe(true);
     expect(clientIdAllowed(dev, 'heatlayer-ingest')).toBe(false);
@@ -39,7 +45,7 @@ describe('device tokens', () => {
     expect(tokenMatches(a, null)).toBe(false);
   });
 
-  it('derive the demo fleet\'s tokens from the key and the serial alone', () => {
+  it("derive the demo fleet's tokens from the key and the serial alone", () => {
     expect(demoDeviceToken('k1', 'S1')).toBe(demoDeviceToken('k1', 'S1'));
     expect(demoDeviceToken('k1', 'S1')).not.toBe(demoDeviceToken('k2', 'S1'));
     expect(demoDeviceToken('k1', 'S1')).not.toBe(demoDeviceToken('k1', 'S2'));

@@ -4,10 +4,26 @@ import mqttPacket from 'mqtt-packet';
 import { PacketSizeGuard } from '../../../src/lib/telemetry/packet-size';
 import { limits, topicFor } from '../../../src/lib/telemetry/wire';
 
-const publish = (payloadBytes: number, messageId = 1) => mqttPacket.generate({
-  cmd: 'publish', topic: topicFor('HL-TEST-0001', 'telemetry'), payload: Buffer.alloc(payloadBytes, 0x20), qos: 1, messageId, retain: false, dup: false,
+const publish = (payloadBytes: number, messageId = 1) =>
+  mqttPacket.generate({
+    cmd: 'publish',
+    topic: topicFor('HL-TEST-0001', 'telemetry'),
+    payload: Buffer.alloc(payloadBytes, 0x20),
+    qos: 1,
+    messageId,
+    retain: false,
+    dup: false,
+  });
+const connect = mqttPacket.generate({
+  cmd: 'connect',
+  protocolId: 'MQTT',
+  protocolVersion: 4,
+  clientId: 'HL-TEST-0001',
+  clean: false,
+  keepalive: 60,
+  username: 'HL-TEST-0001',
+  password: Buffer.from('hldt_x'),
 });
-const connect = mqttPacket.generate({ cmd: 'connect', protocolId: 'MQTT', protocolVersion: 4, clientId: 'HL-TEST-0001', clean: false, keepalive: 60, username: 'HL-TEST-0001', password: Buffer.from('hldt_x') });
 
 /** Feeds `bytes` in chunks of `size`; the first non-null answer, and how many bytes it took. */
 function feed(guard: PacketSizeGuard, bytes: Buffer, size: number): { result: number | null; at: number } {
@@ -20,11 +36,18 @@ function feed(guard: PacketSizeGuard, bytes: Buffer, size: number): { result: nu
 
 describe('PacketSizeGuard', () => {
   it('lets a session of ordinary packets through, whatever the chunking', () => {
-    const stream = Buffer.concat([connect, publish(200, 1), mqttPacket.generate({ cmd: 'pingreq' }), publish(limits.maxPayloadBytes, 2), publish(0, 3)]);
-    for (const size of [1, 3, 7, 1500, 65_536, stream.length]) expect(feed(new PacketSizeGuard(limits.maxPacketBytes), stream, size).result).toBeNull();
+    const stream = Buffer.concat([
+      connect,
+      publish(200, 1),
+      mqttPacket.generate({ cmd: 'pingreq' }),
+      publish(limits.maxPayloadBytes, 2),
+      publish(0, 3),
+    ]);
+    for (const size of [1, 3, 7, 1500, 65_536, stream.length])
+      expect(feed(new PacketSizeGuard(limits.maxPacketBytes), stream, size).result).toBeNull();
   });
 
-  it('takes a publish of the contract\'s full payload (1 MiB) and reports one byte over the packet limit', () => {
+  it("takes a publish of the contract's full payload (1 MiB) and reports one byte over the packet limit", () => {
     // A 1 MiB payload plus its topic, packet id and fixed header stays inside the packet limit.
     expect(publish(limits.maxPayloadBytes).length).toBeLessThanOrEqual(limits.maxPacketBytes);
     const exact = publish(limits.maxPayloadBytes);
@@ -44,6 +67,8 @@ describe('PacketSizeGuard', () => {
   });
 
   it('reports a remaining length longer than four bytes as malformed', () => {
-    expect(new PacketSizeGuard(limits.maxPacketBytes).push(Buffer.from([0x30, 0xff, 0xff, 0xff, 0xff, 0x01]))).toBe(Number.POSITIVE_INFINITY);
+    expect(new PacketSizeGuard(limits.maxPacketBytes).push(Buffer.from([0x30, 0xff, 0xff, 0xff, 0xff, 0x01]))).toBe(
+      Number.POSITIVE_INFINITY,
+    );
   });
 });

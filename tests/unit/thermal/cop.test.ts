@@ -20,7 +20,9 @@ describe('coefficients of performance', () => {
   });
 
   it('refuses impossible inputs', () => {
-    expect(() => carnotCop({ sinkC: 7, sourceC: 55 })).toThrow(/sinkC is 7 °C: the sink \(water\) must be warmer than the source/);
+    expect(() => carnotCop({ sinkC: 7, sourceC: 55 })).toThrow(
+      /sinkC is 7 °C: the sink \(water\) must be warmer than the source/,
+    );
     expect(() => dhwCop({ heatDeliveredKWh: 3, electricityKWh: 0 })).toThrow(/electricityKWh is 0/);
     expect(() => dhwCop({ heatDeliveredKWh: Number.NaN, electricityKWh: 1 })).toThrow(/heatDeliveredKWh is NaN/);
   });

@@ -7,9 +7,21 @@ const at = (m: number, on: boolean) => ({ t: t0 + m * MIN, on });
 
 describe('compressorCycles', () => {
   it('finds starts and runs', () => {
-    const r = compressorCycles([at(0, false), at(10, true), at(50, false), at(70, true), at(80, false), at(200, true), at(230, true)]);
+    const r = compressorCycles([
+      at(0, false),
+      at(10, true),
+      at(50, false),
+      at(70, true),
+      at(80, false),
+      at(200, true),
+      at(230, true),
+    ]);
     expect(r.starts).toEqual([t0 + 10 * MIN, t0 + 70 * MIN, t0 + 200 * MIN]);
-    expect(r.runs.map((x) => [x.minutes, x.complete])).toEqual([[40, true], [10, true], [30, false]]);
+    expect(r.runs.map((x) => [x.minutes, x.complete])).toEqual([
+      [40, true],
+      [10, true],
+      [30, false],
+    ]);
   });
 
   it('does not count a run already going at the first sample as a start', () => {

@@ -35,15 +35,21 @@ describe('storedEnergyKWh', () => {
 
   it('is never negative and never falls when a layer warms (property)', () => {
     fc.assert(
-      fc.property(layerArb, fc.nat(), fc.double({ min: 0, max: 20, noNaN: true }), fc.double({ min: 0, max: 40, noNaN: true }), (t, k, dT, refC) => {
-        const base = { layersC: t, volumeL: 180, refC };
-        const e0 = storedEnergyKWh(base);
-        const i = k % t.length;
-        const warmer = t.slice();
-        warmer[i] = Math.min(100, warmer[i]! + dT);
-        expect(e0).toBeGreaterThanOrEqual(0);
-        expect(storedEnergyKWh({ ...base, layersC: warmer })).toBeGreaterThanOrEqual(e0);
-      }),
+      fc.property(
+        layerArb,
+        fc.nat(),
+        fc.double({ min: 0, max: 20, noNaN: true }),
+        fc.double({ min: 0, max: 40, noNaN: true }),
+        (t, k, dT, refC) => {
+          const base = { layersC: t, volumeL: 180, refC };
+          const e0 = storedEnergyKWh(base);
+          const i = k % t.length;
+          const warmer = t.slice();
+          warmer[i] = Math.min(100, warmer[i]! + dT);
+          expect(e0).toBeGreaterThanOrEqual(0);
+          expect(storedEnergyKWh({ ...base, layersC: warmer })).toBeGreaterThanOrEqual(e0);
+        },
+      ),
     );
   });
 });
@@ -105,16 +111,22 @@ describe('bad layer input', () => {
     expect(() => storedEnergyKWh({ layersC: [50, 50, 50, Number.NaN], volumeL: 200, refC: 10 })).toThrow(
       'layersC[3] is NaN: every layer temperature must be a finite number in °C.',
     );
-    expect(() => stateOfCharge({ layersC: [50, Number.POSITIVE_INFINITY], coldC: 10, targetC: 60 })).toThrow(/layersC\[1\] is Infinity/);
+    expect(() => stateOfCharge({ layersC: [50, Number.POSITIVE_INFINITY], coldC: 10, targetC: 60 })).toThrow(
+      /layersC\[1\] is Infinity/,
+    );
   });
 
   it('refuses a missing input object with a clear message', () => {
-    expect(() => storedEnergyKWh(undefined as never)).toThrow('input is missing: it must be an object { layersC, volumeL, refC }.');
+    expect(() => storedEnergyKWh(undefined as never)).toThrow(
+      'input is missing: it must be an object { layersC, volumeL, refC }.',
+    );
   });
 
   it('refuses empty layers, negative volume, a target below cold and out-of-range layers', () => {
     expect(() => storedEnergyKWh({ layersC: [], volumeL: 200, refC: 10 })).toThrow(/layersC is empty/);
-    expect(() => storedEnergyKWh({ layersC: [50], volumeL: -5, refC: 10 })).toThrow(/volumeL is -5: it must be a positive number in litres/);
+    expect(() => storedEnergyKWh({ layersC: [50], volumeL: -5, refC: 10 })).toThrow(
+      /volumeL is -5: it must be a positive number in litres/,
+    );
     expect(() => stateOfCharge({ layersC: [50], coldC: 60, targetC: 50 })).toThrow(ThermalInputError);
     let caught: unknown;
     try {

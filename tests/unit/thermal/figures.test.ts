@@ -1,26 +1,59 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
-  columnMeanC, createTank, sensorReadings, stepTankInPlace, tankFigures, ThermalInputError,
-  EN16147_COLD_C, EN16147_DELIVERY_C,
+  columnMeanC,
+  createTank,
+  sensorReadings,
+  stepTankInPlace,
+  tankFigures,
+  ThermalInputError,
+  EN16147_COLD_C,
+  EN16147_DELIVERY_C,
 } from '../../../src/lib/thermal/index.js';
 import type { TankGeometry, TankSpec } from '../../../src/lib/thermal/index.js';
 
-const geometry = (n: number, volumeL = 210, heightM = 1.4): TankGeometry => ({ volumeL, heightM, sensorCount: n, targetC: 55 });
+const geometry = (n: number, volumeL = 210, heightM = 1.4): TankGeometry => ({
+  volumeL,
+  heightM,
+  sensorCount: n,
+  targetC: 55,
+});
 
 /**
  * A simulated profile from the thermal core's tank model: a cylinder heated uniformly to `hotC`,
  * then `drawnL` litres drawn from the top at 10 L/min with cold water entering at 10 °C (EN 16147's
  * cold water), then `reheatMin` minutes of the heat pump: a thermocline somewhere in the column.
  */
-function simulatedProfile(p: { n: number; volumeL: number; hotC: number; drawnL: number; reheatMin: number }): number[] {
+function simulatedProfile(p: {
+  n: number;
+  volumeL: number;
+  hotC: number;
+  drawnL: number;
+  reheatMin: number;
+}): number[] {
   const spec: TankSpec = {
-    volumeL: p.volumeL, sensorCount: p.n, heightM: 1.4, ambientC: 18, uaWPerK: 1.5,
-    heatSource: 'hp_plate', hpOutputW: 5000, immersionW: 3000, immersionHeightFrac: 0.6,
+    volumeL: p.volumeL,
+    sensorCount: p.n,
+    heightM: 1.4,
+    ambientC: 18,
+    uaWPerK: 1.5,
+    heatSource: 'hp_plate',
+    hpOutputW: 5000,
+    immersionW: 3000,
+    immersionHeightFrac: 0.6,
   };
   const state = createTank(spec, p.hotC);
-  for (let drawn = 0; drawn < p.drawnL; drawn += 10) stepTankInPlace(spec, state, { dtS: 60, coldC: 10, drawLpm: 10, hpOn: false, immersionOn: false });
-  for (let m = 0; m < p.reheatMin; m++) stepTankInPlace(spec, state, { dtS: 60, coldC: 10, drawLpm: 0, hpOn: true, immersionOn: false, hpFlowC: p.hotC + 3 });
+  for (let drawn = 0; drawn < p.drawnL; drawn += 10)
+    stepTankInPlace(spec, state, { dtS: 60, coldC: 10, drawLpm: 10, hpOn: false, immersionOn: false });
+  for (let m = 0; m < p.reheatMin; m++)
+    stepTankInPlace(spec, state, {
+      dtS: 60,
+      coldC: 10,
+      drawLpm: 0,
+      hpOn: true,
+      immersionOn: false,
+      hpFlowC: p.hotC + 3,
+    });
   return sensorReadings(spec, state);
 }
 
@@ -67,7 +100,10 @@ describe('tankFigures', () => {
 
   it('leaves out an open (out of range) sensor and a stuck one named by the check over time', () => {
     const f = tankFigures({ layersC: [15, -40, 30, 45, 55, 58] }, geometry(6), { stuck: [3] });
-    expect(f.quality.faults).toEqual([{ sensor: 2, fault: 'out_of_range' }, { sensor: 4, fault: 'stuck' }]);
+    expect(f.quality.faults).toEqual([
+      { sensor: 2, fault: 'out_of_range' },
+      { sensor: 4, fault: 'stuck' },
+    ]);
     expect(f.quality.status).toBe('estimated');
     expect(f.layersC![1]).toBeCloseTo(22.5, 9);
     expect(f.layersC![3]).toBeCloseTo(42.5, 9);
@@ -77,13 +113,22 @@ describe('tankFigures', () => {
     const top = tankFigures({ layersC: [15, 30, 45, null] }, geometry(4));
     expect(top.quality.status).toBe('withheld');
     expect(top.quality.reason).toMatch(/top sensor \(4\)/);
-    expect([top.soc, top.v40L, top.storedKWh, top.toFullKWh, top.mix, top.layersC]).toEqual([null, null, null, null, null, null]);
+    expect([top.soc, top.v40L, top.storedKWh, top.toFullKWh, top.mix, top.layersC]).toEqual([
+      null,
+      null,
+      null,
+      null,
+      null,
+      null,
+    ]);
     // A reading shorter than the sensor count lacks its top sensors.
     expect(tankFigures({ layersC: [15, 30, 45] }, geometry(4)).quality.status).toBe('withheld');
     const pair = tankFigures({ layersC: [15, null, 120, 50, 55] }, geometry(5));
     expect(pair.quality.status).toBe('withheld');
     expect(pair.quality.leftOut).toEqual([2, 3]);
-    expect(pair.quality.reason).toMatch(/sensors 2 and 3 are left out side by side \(no reading, reading out of range\)/);
+    expect(pair.quality.reason).toMatch(
+      /sensors 2 and 3 are left out side by side \(no reading, reading out of range\)/,
+    );
   });
 
   it('refuses an impossible geometry by naming the field', () => {
@@ -100,29 +145,37 @@ describe('tankFigures', () => {
    * or by moving that one layer across 40 °C (a thermocline between sensors); the layers above
    * are measured and the ones below would stop the count in either case.
    */
-  it('keeps V40 within one layer\'s share of the full-column value with one sensor left out', () => {
-    fc.assert(fc.property(
-      fc.record({
-        n: fc.integer({ min: 8, max: 16 }), volumeL: fc.integer({ min: 150, max: 300 }), hotC: fc.integer({ min: 45, max: 65 }),
-        drawnFrac: fc.double({ min: 0, max: 0.9, noNaN: true }), reheatMin: fc.integer({ min: 0, max: 20 }), drop: fc.double({ min: 0, max: 1, noNaN: true, maxExcluded: true }),
-      }),
-      (p) => {
-        const layers = simulatedProfile({ ...p, drawnL: p.drawnFrac * p.volumeL });
-        const g = { ...geometry(p.n, p.volumeL) };
-        const full = tankFigures({ layersC: layers }, g);
-        expect(full.quality.status).toBe('measured');
-        const drop = Math.floor(p.drop * (p.n - 1)); // any sensor but the top
-        const gap: (number | null)[] = [...layers];
-        gap[drop] = null;
-        const est = tankFigures({ layersC: gap }, g);
-        expect(est.quality.status).toBe('estimated');
-        const tMax = Math.max(...layers);
-        const tolerance = (p.volumeL / p.n) * Math.max(0, tMax - EN16147_COLD_C) / (EN16147_DELIVERY_C - EN16147_COLD_C);
-        expect(Math.abs(est.v40L! - full.v40L!)).toBeLessThanOrEqual(tolerance + 1e-9);
-        // State of charge moves by at most that layer's volume share (common practice: a mean over layers).
-        expect(Math.abs(est.soc! - full.soc!)).toBeLessThanOrEqual(1 / p.n + 1e-9);
-      },
-    ), { numRuns: 200 });
+  it("keeps V40 within one layer's share of the full-column value with one sensor left out", () => {
+    fc.assert(
+      fc.property(
+        fc.record({
+          n: fc.integer({ min: 8, max: 16 }),
+          volumeL: fc.integer({ min: 150, max: 300 }),
+          hotC: fc.integer({ min: 45, max: 65 }),
+          drawnFrac: fc.double({ min: 0, max: 0.9, noNaN: true }),
+          reheatMin: fc.integer({ min: 0, max: 20 }),
+          drop: fc.double({ min: 0, max: 1, noNaN: true, maxExcluded: true }),
+        }),
+        (p) => {
+          const layers = simulatedProfile({ ...p, drawnL: p.drawnFrac * p.volumeL });
+          const g = { ...geometry(p.n, p.volumeL) };
+          const full = tankFigures({ layersC: layers }, g);
+          expect(full.quality.status).toBe('measured');
+          const drop = Math.floor(p.drop * (p.n - 1)); // any sensor but the top
+          const gap: (number | null)[] = [...layers];
+          gap[drop] = null;
+          const est = tankFigures({ layersC: gap }, g);
+          expect(est.quality.status).toBe('estimated');
+          const tMax = Math.max(...layers);
+          const tolerance =
+            ((p.volumeL / p.n) * Math.max(0, tMax - EN16147_COLD_C)) / (EN16147_DELIVERY_C - EN16147_COLD_C);
+          expect(Math.abs(est.v40L! - full.v40L!)).toBeLessThanOrEqual(tolerance + 1e-9);
+          // State of charge moves by at most that layer's volume share (common practice: a mean over layers).
+          expect(Math.abs(est.soc! - full.soc!)).toBeLessThanOrEqual(1 / p.n + 1e-9);
+        },
+      ),
+      { numRuns: 200 },
+    );
   });
 });
 

@@ -27,10 +27,15 @@ describe('Beta-model NTC', () => {
 
   it('round-trips temperature → resistance → temperature (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -20, max: 120, noNaN: true }), fc.double({ min: 1000, max: 100000, noNaN: true }), fc.double({ min: 2500, max: 4500, noNaN: true }), (t, r25, b) => {
-        const s = { r25Ohm: r25, betaK: b };
-        expect(ntcTemperature(ntcResistance(t, s), s)).toBeCloseTo(t, 8);
-      }),
+      fc.property(
+        fc.double({ min: -20, max: 120, noNaN: true }),
+        fc.double({ min: 1000, max: 100000, noNaN: true }),
+        fc.double({ min: 2500, max: 4500, noNaN: true }),
+        (t, r25, b) => {
+          const s = { r25Ohm: r25, betaK: b };
+          expect(ntcTemperature(ntcResistance(t, s), s)).toBeCloseTo(t, 8);
+        },
+      ),
     );
   });
 
@@ -47,7 +52,8 @@ describe('Steinhart–Hart', () => {
     const k = steinhartHartCoefficients(points);
     for (const p of points) expect(steinhartHartTemperature(p.ohm, k)).toBeCloseTo(p.tempC, 9);
     // Between the points it follows the Beta curve to well under 0.1 K (common practice for a 0–80 °C span).
-    for (const t of [10, 25, 55, 70]) expect(Math.abs(steinhartHartTemperature(ntcResistance(t, sensor), k) - t)).toBeLessThan(0.1);
+    for (const t of [10, 25, 55, 70])
+      expect(Math.abs(steinhartHartTemperature(ntcResistance(t, sensor), k) - t)).toBeLessThan(0.1);
     // For a Beta curve the cubic term is small next to the linear one.
     expect(Math.abs(k.c)).toBeLessThan(Math.abs(k.b) * 1e-2);
   });
@@ -73,6 +79,8 @@ describe('thermistorSettings', () => {
   });
 
   it('refuses a call temperature at or above the satisfied one', () => {
-    expect(() => thermistorSettings({ sensor, callC: 50, satisfiedC: 45 })).toThrow(/callC is 50 °C: the call-for-heat temperature must be below/);
+    expect(() => thermistorSettings({ sensor, callC: 50, satisfiedC: 45 })).toThrow(
+      /callC is 50 °C: the call-for-heat temperature must be below/,
+    );
   });
 });

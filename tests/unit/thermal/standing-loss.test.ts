@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { standingLoss, ThermalInputError, waterCp, waterDensity } from '../../../src/lib/thermal/index.js';
 
-const HOUR = 3_600_000;
+const _HOUR = 3_600_000;
 const T0 = Date.UTC(2025, 0, 10, 22);
 
 /** Readings every 15 min following Newton's law of cooling for the given UA (W/K). */
@@ -31,14 +31,18 @@ describe('standingLoss', () => {
   });
 
   it('rejects a period that is too short, too noisy, heated or unordered', () => {
-    expect(() => standingLoss(coolingCurve(1.8, 2), { volumeL: 200, ambientC: 18 })).toThrow(/span 2.00 h: a cooling period of at least 4 h/);
+    expect(() => standingLoss(coolingCurve(1.8, 2), { volumeL: 200, ambientC: 18 })).toThrow(
+      /span 2.00 h: a cooling period of at least 4 h/,
+    );
     const jumpy = coolingCurve(1.8, 10, (i) => (i === 20 ? -3 : 0));
     expect(() => standingLoss(jumpy, { volumeL: 200, ambientC: 18 })).toThrow(/too noisy/);
     const heated = coolingCurve(1.8, 10).map((s, i) => ({ ...s, meanC: 40 + i * 0.2 }));
     expect(() => standingLoss(heated, { volumeL: 200, ambientC: 18 })).toThrow(/do not cool/);
     const swapped = coolingCurve(1.8, 10);
     [swapped[3], swapped[4]] = [swapped[4]!, swapped[3]!];
-    expect(() => standingLoss(swapped, { volumeL: 200, ambientC: 18 })).toThrow(/samples\[4\].t is not after samples\[3\].t/);
+    expect(() => standingLoss(swapped, { volumeL: 200, ambientC: 18 })).toThrow(
+      /samples\[4\].t is not after samples\[3\].t/,
+    );
     expect(() => standingLoss(coolingCurve(1.8, 10), { volumeL: 200, ambientC: 57 })).toThrow(ThermalInputError);
     expect(() => standingLoss([], { volumeL: 200, ambientC: 18 })).toThrow(/at least 3 readings/);
   });

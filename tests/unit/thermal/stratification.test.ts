@@ -21,22 +21,35 @@ describe('mixNumber (Davidson, Adams & Miller 1994)', () => {
     fc.assert(
       // Temperatures in whole centi-degrees, as readings are stored: a profile flat but for a
       // difference of 1e-8 K has a MIX number that rounding alone decides, and no sensor reports one.
-      fc.property(fc.array(fc.integer({ min: 0, max: 9000 }).map((c) => c / 100), { minLength: 2, maxLength: 16 }), fc.double({ min: 0, max: 10, noNaN: true }), (t, shift) => {
-        const a = mixNumber({ layersC: t });
-        expect(a).toBeGreaterThanOrEqual(0);
-        expect(a).toBeLessThanOrEqual(1);
-        expect(mixNumber({ layersC: t.map((x) => x + shift) })).toBeCloseTo(a, 6);
-        expect(mixNumber({ layersC: t, heightsM: t.map(() => 0.2) })).toBeCloseTo(a, 9);
-      }),
+      fc.property(
+        fc.array(
+          fc.integer({ min: 0, max: 9000 }).map((c) => c / 100),
+          { minLength: 2, maxLength: 16 },
+        ),
+        fc.double({ min: 0, max: 10, noNaN: true }),
+        (t, shift) => {
+          const a = mixNumber({ layersC: t });
+          expect(a).toBeGreaterThanOrEqual(0);
+          expect(a).toBeLessThanOrEqual(1);
+          expect(mixNumber({ layersC: t.map((x) => x + shift) })).toBeCloseTo(a, 6);
+          expect(mixNumber({ layersC: t, heightsM: t.map(() => 0.2) })).toBeCloseTo(a, 9);
+        },
+      ),
     );
   });
 
   it('is 0 for any two-zone profile with a sharp interface (property)', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 11 }), fc.integer({ min: 1, max: 11 }), fc.double({ min: 5, max: 40, noNaN: true }), fc.double({ min: 1, max: 50, noNaN: true }), (cold, hot, tc, dt) => {
-        const t = [...Array<number>(cold).fill(tc), ...Array<number>(hot).fill(tc + dt)];
-        expect(mixNumber({ layersC: t })).toBeCloseTo(0, 9);
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 11 }),
+        fc.integer({ min: 1, max: 11 }),
+        fc.double({ min: 5, max: 40, noNaN: true }),
+        fc.double({ min: 1, max: 50, noNaN: true }),
+        (cold, hot, tc, dt) => {
+          const t = [...Array<number>(cold).fill(tc), ...Array<number>(hot).fill(tc + dt)];
+          expect(mixNumber({ layersC: t })).toBeCloseTo(0, 9);
+        },
+      ),
     );
   });
 
@@ -49,7 +62,9 @@ describe('mixNumber (Davidson, Adams & Miller 1994)', () => {
   });
 
   it('refuses heights that do not match the layers', () => {
-    expect(() => mixNumber({ layersC: [10, 60], heightsM: [0.5] })).toThrow(/heightsM must be an array of 2 layer thicknesses/);
+    expect(() => mixNumber({ layersC: [10, 60], heightsM: [0.5] })).toThrow(
+      /heightsM must be an array of 2 layer thicknesses/,
+    );
     expect(() => mixNumber({ layersC: [10, 60], heightsM: [0.5, -1] })).toThrow(ThermalInputError);
   });
 });

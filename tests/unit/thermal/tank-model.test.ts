@@ -14,8 +14,15 @@ import {
 import type { StepInputs, TankSpec, TankState } from '../../../src/lib/thermal/index.js';
 
 const base: TankSpec = {
-  volumeL: 210, sensorCount: 12, heightM: 1.5, ambientC: 18, uaWPerK: 1.5,
-  heatSource: 'hp_plate', hpOutputW: 6000, immersionW: 3000, immersionHeightFrac: 0.6,
+  volumeL: 210,
+  sensorCount: 12,
+  heightM: 1.5,
+  ambientC: 18,
+  uaWPerK: 1.5,
+  heatSource: 'hp_plate',
+  hpOutputW: 6000,
+  immersionW: 3000,
+  immersionHeightFrac: 0.6,
 };
 const idle: StepInputs = { dtS: 60, coldC: 10, drawLpm: 0, hpOn: false, immersionOn: false };
 
@@ -31,7 +38,12 @@ function isStable(t: readonly number[]): boolean {
  */
 function simulateDay(spec: TankSpec, state: TankState, dtS: number) {
   const draws = tappingProfile('M').draws;
-  let heatIn = 0, drawn = 0, loss = 0, hpOn = false, d = 0, owedJ = 0;
+  let heatIn = 0,
+    drawn = 0,
+    loss = 0,
+    hpOn = false,
+    d = 0,
+    owedJ = 0;
   for (let t = 0; t < 86400; t += dtS) {
     const minute = t / 60;
     while (d < draws.length && draws[d]!.minuteOfDay <= minute) owedJ += draws[d++]!.energyKWh * 3.6e6;
@@ -41,7 +53,9 @@ function simulateDay(spec: TankSpec, state: TankState, dtS: number) {
     if (s[s.length - 1]! >= 54) hpOn = false;
     const r = stepTankInPlace(spec, state, { dtS, coldC: 10, drawLpm: owedJ > 0 ? 6 : 0, hpOn, immersionOn: false });
     owedJ = Math.max(0, owedJ - r.drawnJ);
-    heatIn += r.heatInJ; drawn += r.drawnJ; loss += r.lossJ;
+    heatIn += r.heatInJ;
+    drawn += r.drawnJ;
+    loss += r.lossJ;
   }
   return { heatIn, drawn, loss };
 }
@@ -64,7 +78,12 @@ describe('tank model: energy balance', () => {
       heightM: fc.double({ min: 0.6, max: 2.2, noNaN: true }),
       ambientC: fc.double({ min: 0, max: 30, noNaN: true }),
       uaWPerK: fc.double({ min: 0, max: 5, noNaN: true }),
-      heatSource: fc.constantFrom('hp_plate' as const, 'hp_coil' as const, 'immersion_only' as const, 'boiler_coil' as const),
+      heatSource: fc.constantFrom(
+        'hp_plate' as const,
+        'hp_coil' as const,
+        'immersion_only' as const,
+        'boiler_coil' as const,
+      ),
       hpOutputW: fc.double({ min: 0, max: 12000, noNaN: true }),
       immersionW: fc.double({ min: 0, max: 3000, noNaN: true }),
       immersionHeightFrac: fc.double({ min: 0, max: 1, noNaN: true }),
@@ -79,19 +98,24 @@ describe('tank model: energy balance', () => {
       hpFlowC: fc.option(fc.double({ min: 30, max: 75, noNaN: true }), { nil: undefined }),
     });
     fc.assert(
-      fc.property(specArb, fc.double({ min: 5, max: 70, noNaN: true }), fc.array(stepArb, { minLength: 1, maxLength: 60 }), (spec, t0, steps) => {
-        const state = createTank(spec, t0);
-        let e = tankEnergyJ(spec, state);
-        for (const step of steps) {
-          const r = stepTankInPlace(spec, state, step);
-          const e1 = tankEnergyJ(spec, state);
-          const scale = Math.abs(e1) + r.heatInJ + Math.abs(r.drawnJ) + Math.abs(r.lossJ) + 1;
-          expect(Math.abs(e1 - e - (r.heatInJ - r.drawnJ - r.lossJ))).toBeLessThan(1e-9 * scale);
-          expect(isStable(state.nodesC)).toBe(true);
-          for (const x of state.nodesC) expect(Number.isFinite(x)).toBe(true);
-          e = e1;
-        }
-      }),
+      fc.property(
+        specArb,
+        fc.double({ min: 5, max: 70, noNaN: true }),
+        fc.array(stepArb, { minLength: 1, maxLength: 60 }),
+        (spec, t0, steps) => {
+          const state = createTank(spec, t0);
+          let e = tankEnergyJ(spec, state);
+          for (const step of steps) {
+            const r = stepTankInPlace(spec, state, step);
+            const e1 = tankEnergyJ(spec, state);
+            const scale = Math.abs(e1) + r.heatInJ + Math.abs(r.drawnJ) + Math.abs(r.lossJ) + 1;
+            expect(Math.abs(e1 - e - (r.heatInJ - r.drawnJ - r.lossJ))).toBeLessThan(1e-9 * scale);
+            expect(isStable(state.nodesC)).toBe(true);
+            for (const x of state.nodesC) expect(Number.isFinite(x)).toBe(true);
+            e = e1;
+          }
+        },
+      ),
       { numRuns: 150 },
     );
   });
@@ -128,7 +152,10 @@ describe('tank model: physics', () => {
     // After long enough, the tank reaches the flow temperature and the heat pump can add no more.
     let s = r.state;
     let last = r;
-    for (let i = 0; i < 300; i++) { last = stepTank(base, s, { ...idle, hpOn: true, hpFlowC: 55 }); s = last.state; }
+    for (let i = 0; i < 300; i++) {
+      last = stepTank(base, s, { ...idle, hpOn: true, hpFlowC: 55 });
+      s = last.state;
+    }
     expect(Math.max(...s.nodesC)).toBeLessThanOrEqual(55 + 1e-9);
     expect(last.hpHeatJ).toBeLessThan(6000 * 60 * 0.05);
   });
@@ -166,7 +193,9 @@ describe('tank model: physics', () => {
     expect(share.immersionHeatJ).toBeCloseTo(1200 * 600, 6);
     const over = stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: 9000, dtS: 600 });
     expect(over.immersionHeatJ).toBeCloseTo(3000 * 600, 6);
-    expect(() => stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: -1 })).toThrow(/immersionPowerW/);
+    expect(() => stepTank(spec, createTank(spec, 40), { ...idle, immersionOn: true, immersionPowerW: -1 })).toThrow(
+      /immersionPowerW/,
+    );
   });
 
   it('draws hot from the top and refills cold at the bottom', () => {
@@ -194,7 +223,7 @@ describe('tank model: sensors and input', () => {
     const readings = sensorReadings(spec, { nodesC: nodes });
     expect(readings).toHaveLength(8);
     // Sensor j sits at (j + 0.5)/8 of the height: midway between node centres 2j and 2j+1 (linear interpolation).
-    readings.forEach((r, j) => expect(r).toBeCloseTo(10 + (2 * j + 0.5) * 3, 9));
+    for (const [j, r] of readings.entries()) expect(r).toBeCloseTo(10 + (2 * j + 0.5) * 3, 9);
     // A tank created from sensor readings reproduces them at the inner sensors (ends are held flat).
     const again = sensorReadings(spec, createTank(spec, readings));
     for (let j = 1; j < 7; j++) expect(again[j]!).toBeCloseTo(readings[j]!, 9);
@@ -206,15 +235,21 @@ describe('tank model: sensors and input', () => {
   });
 
   it('refuses bad specs, states and steps with the field named', () => {
-    expect(() => createTank({ ...base, volumeL: -1 }, 40)).toThrow(/spec.volumeL is -1: it must be a positive number in litres/);
+    expect(() => createTank({ ...base, volumeL: -1 }, 40)).toThrow(
+      /spec.volumeL is -1: it must be a positive number in litres/,
+    );
     expect(() => createTank({ ...base, heatSource: 'solar' as never }, 40)).toThrow(/spec.heatSource/);
     expect(() => createTank(base, [1, 2, 3])).toThrow(ThermalInputError);
     const state = createTank(base, 40);
     expect(() => stepTank(base, state, { ...idle, dtS: Number.NaN })).toThrow(/inputs.dtS is NaN/);
     expect(() => stepTank(base, state, { ...idle, drawLpm: -2 })).toThrow(/inputs.drawLpm is -2/);
     expect(() => stepTank(base, { nodesC: [40, Number.NaN] }, idle)).toThrow(/state.nodesC/);
-    expect(() => stepTank(base, state, { ...idle, hpOn: 'yes' as never })).toThrow('inputs.hpOn must be true or false.');
+    expect(() => stepTank(base, state, { ...idle, hpOn: 'yes' as never })).toThrow(
+      'inputs.hpOn must be true or false.',
+    );
     const broken = { nodesC: state.nodesC.map((t, i) => (i === 4 ? Number.NaN : t)) };
-    expect(() => stepTank(base, broken, idle)).toThrow('state.nodesC[4] is NaN: every node temperature must be a finite number in °C.');
+    expect(() => stepTank(base, broken, idle)).toThrow(
+      'state.nodesC[4] is NaN: every node temperature must be a finite number in °C.',
+    );
   });
 });

@@ -16,7 +16,8 @@ describe('tappingProfile', () => {
       const p = tappingProfile(size);
       const sum = p.draws.reduce((a, d) => a + d.energyKWh, 0);
       expect(sum).toBeCloseTo(p.qrefKWh, 9);
-      for (let i = 1; i < p.draws.length; i++) expect(p.draws[i]!.minuteOfDay).toBeGreaterThan(p.draws[i - 1]!.minuteOfDay);
+      for (let i = 1; i < p.draws.length; i++)
+        expect(p.draws[i]!.minuteOfDay).toBeGreaterThan(p.draws[i - 1]!.minuteOfDay);
     });
   }
 
@@ -24,7 +25,10 @@ describe('tappingProfile', () => {
     // 814/2013 Annex III, profile M (from memory): 23 draws, two 1.4 kWh showers at 07:05 and 21:30, dishwashing 0.315 and 0.735 kWh.
     const m = tappingProfile('M');
     expect(m.draws).toHaveLength(23);
-    expect(m.draws.filter((d) => d.tap === 'shower').map((d) => [d.time, d.energyKWh])).toEqual([['07:05', 1.4], ['21:30', 1.4]]);
+    expect(m.draws.filter((d) => d.tap === 'shower').map((d) => [d.time, d.energyKWh])).toEqual([
+      ['07:05', 1.4],
+      ['21:30', 1.4],
+    ]);
     expect(m.draws.filter((d) => d.tap === 'dishwashing').map((d) => d.energyKWh)).toEqual([0.315, 0.735]);
     // Small draws Tm 25 °C; shower and household cleaning Tm 40 °C; floor cleaning Tp 40 °C; dishwashing Tp 55 °C (814/2013 Annex III).
     const byTap = new Map(m.draws.map((d) => [d.tap, d]));
@@ -38,7 +42,10 @@ describe('tappingProfile', () => {
   it('has two baths of 3.605 kWh in the L cycle', () => {
     // 814/2013 Annex III, profile L (from memory): baths at 08:05 and 21:00, Tp 40 °C.
     const baths = tappingProfile('L').draws.filter((d) => d.tap === 'bath');
-    expect(baths.map((d) => [d.time, d.energyKWh, d.peakC])).toEqual([['08:05', 3.605, 40], ['21:00', 3.605, 40]]);
+    expect(baths.map((d) => [d.time, d.energyKWh, d.peakC])).toEqual([
+      ['08:05', 3.605, 40],
+      ['21:00', 3.605, 40],
+    ]);
   });
 
   it('returns a fresh copy on every call', () => {
@@ -48,6 +55,8 @@ describe('tappingProfile', () => {
   });
 
   it('refuses an unknown size', () => {
-    expect(() => tappingProfile('XXS' as TappingProfileSize)).toThrow(/size is XXS: it must be one of XS, S, M, L, XL, XXL/);
+    expect(() => tappingProfile('XXS' as TappingProfileSize)).toThrow(
+      /size is XXS: it must be one of XS, S, M, L, XL, XXL/,
+    );
   });
 });

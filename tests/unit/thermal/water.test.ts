@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { if97Region1, waterCp, waterDensity, waterEnthalpy, ThermalInputError } from '../../../src/lib/thermal/index.js';
+import {
+  if97Region1,
+  waterCp,
+  waterDensity,
+  waterEnthalpy,
+  ThermalInputError,
+} from '../../../src/lib/thermal/index.js';
 
 // IAPWS R7-97(2012), IF97 table 5: verification values for region 1 (v m³/kg, h kJ/kg, cp kJ/(kg·K), w m/s).
 const TABLE_5 = [

@@ -23,14 +23,19 @@ describe('column figures', () => {
     // Evenly spaced sensors: the middle one is half-way, so its layer is the mean of its neighbours (linear by height, common practice).
     const f = columnFigures([50, null, 56], tank)!;
     expect(f.layersC).toEqual([50, 53, 56]);
-    expect(f.quality).toMatchObject({ status: 'estimated', leftOut: [2], reason: 'Estimated, sensor 2 left out (no reading).' });
+    expect(f.quality).toMatchObject({
+      status: 'estimated',
+      leftOut: [2],
+      reason: 'Estimated, sensor 2 left out (no reading).',
+    });
     const top = columnFigures([50, 53, null], tank)!;
     expect([top.v40L, top.soc, top.quality.status]).toEqual([null, null, 'withheld']);
     expect(columnFigures([], tank)).toBeNull();
     expect(layersFromCc([5000, null, 5525])).toEqual([50, null, 55.25]);
   });
   it('turns sensor positions into the layer each sensor stands for', () => {
-    layerThicknesses([0.1, 0.5, 0.9], 1)!.forEach((h, i) => expect(h).toBeCloseTo([0.3, 0.4, 0.3][i]!, 12));
+    for (const [i, h] of layerThicknesses([0.1, 0.5, 0.9], 1)!.entries())
+      expect(h).toBeCloseTo([0.3, 0.4, 0.3][i]!, 12);
     expect(layerThicknesses(null, 1)).toBeUndefined();
   });
 });
@@ -58,12 +63,44 @@ describe('time to full', () => {
     expect(columnFigures(Array(10).fill(55), tank)!.toFullKWh).toBeCloseTo(0, 9);
   });
   it('divides the missing heat by the running heat source output', () => {
-    const r = refillEstimate({ toFullKWh: 10, hpOutputW: 5000, immersionRatingW: 3000, compressorOn: true, immersionW: 0, now: 0 });
+    const r = refillEstimate({
+      toFullKWh: 10,
+      hpOutputW: 5000,
+      immersionRatingW: 3000,
+      compressorOn: true,
+      immersionW: 0,
+      now: 0,
+    });
     expect(r).toEqual({ state: 'heating', hours: 2, source: 'heat_pump', readyAt: 2 * 3_600_000 });
-    const i = refillEstimate({ toFullKWh: 6, hpOutputW: 0, immersionRatingW: 3000, compressorOn: false, immersionW: 3000, now: 0 });
+    const i = refillEstimate({
+      toFullKWh: 6,
+      hpOutputW: 0,
+      immersionRatingW: 3000,
+      compressorOn: false,
+      immersionW: 3000,
+      now: 0,
+    });
     expect(i.source).toBe('immersion');
     expect(i.hours).toBe(2);
-    expect(refillEstimate({ toFullKWh: 0.05, hpOutputW: 5000, immersionRatingW: 3000, compressorOn: false, immersionW: 0, now: 0 }).state).toBe('full');
-    expect(refillEstimate({ toFullKWh: null, hpOutputW: 5000, immersionRatingW: 3000, compressorOn: false, immersionW: 0, now: 0 }).state).toBe('unknown');
+    expect(
+      refillEstimate({
+        toFullKWh: 0.05,
+        hpOutputW: 5000,
+        immersionRatingW: 3000,
+        compressorOn: false,
+        immersionW: 0,
+        now: 0,
+      }).state,
+    ).toBe('full');
+    expect(
+      refillEstimate({
+        toFullKWh: null,
+        hpOutputW: 5000,
+        immersionRatingW: 3000,
+        compressorOn: false,
+        immersionW: 0,
+        now: 0,
+      }).state,
+    ).toBe('unknown');
   });
 });

@@ -13,19 +13,48 @@ const tank = { id: 't1', volumeL: 200, heightM: 1, targetC: 55, sensorCount: 3, 
 describe('series for the charts', () => {
   it('turns readings into columns with state of charge and V40 per point, estimated where a sensor is left out, null where withheld', () => {
     const rows = [
-      rawToRow({ ts: new Date(0), layersCc: [1000, 4000, 5500], compressor: true, immersionW: 0, drawDlpm: 60, flowCc: 6000 }),
-      rawToRow({ ts: new Date(60_000), layersCc: [1000, null, 5500], compressor: false, immersionW: 3000, drawDlpm: null, flowCc: null }),
-      rawToRow({ ts: new Date(120_000), layersCc: [1000, 4000, null], compressor: false, immersionW: 0, drawDlpm: null, flowCc: null }),
+      rawToRow({
+        ts: new Date(0),
+        layersCc: [1000, 4000, 5500],
+        compressor: true,
+        immersionW: 0,
+        drawDlpm: 60,
+        flowCc: 6000,
+      }),
+      rawToRow({
+        ts: new Date(60_000),
+        layersCc: [1000, null, 5500],
+        compressor: false,
+        immersionW: 3000,
+        drawDlpm: null,
+        flowCc: null,
+      }),
+      rawToRow({
+        ts: new Date(120_000),
+        layersCc: [1000, 4000, null],
+        compressor: false,
+        immersionW: 0,
+        drawDlpm: null,
+        flowCc: null,
+      }),
     ];
     const s = toSeries(rows, tank, { from: new Date(0), to: new Date(180_000), resolution: 'raw' });
-    expect(s.layers).toEqual([[10, 10, 10], [40, null, 40], [55, 55, null]]);
+    expect(s.layers).toEqual([
+      [10, 10, 10],
+      [40, null, 40],
+      [55, 55, null],
+    ]);
     // V40 (EN 16147): top third 55 °C → 66.67 L·45/30 = 100 L; the 40 °C layer adds 66.67 L.
     expect(s.v40L[0]).toBeCloseTo(166.7, 1);
     // Sensor 2 left out and estimated half-way by height, (10 + 55)/2 = 32.5 °C, below 40 °C: the top third only (common practice: linear by height).
     expect(s.v40L[1]).toBeCloseTo(100, 1);
     // The top sensor out: withheld, never a guess.
     expect([s.v40L[2], s.soc[2]]).toEqual([null, null]);
-    expect(s.quality).toEqual({ status: 'estimated', leftOut: [2], reason: 'Estimated, sensor 2 left out (in 1 of 2 readings used).' });
+    expect(s.quality).toEqual({
+      status: 'estimated',
+      leftOut: [2],
+      reason: 'Estimated, sensor 2 left out (in 1 of 2 readings used).',
+    });
     expect(s.compressor).toEqual([1, 0, 0]);
     expect(s.immersion).toEqual([0, 1, 0]);
     expect(s.drawLpm).toEqual([6, null, null]);
@@ -35,27 +64,67 @@ describe('series for the charts', () => {
     expect(nearestIndex([0, 10, 20], 14)).toBe(1);
     expect(nearestIndex([0, 10, 20], 16)).toBe(2);
     expect(nearestIndex([], 1)).toBe(-1);
-    expect(cellSpans([0, 10, 100], 20)).toEqual([{ from: -10, to: 5 }, { from: 5, to: 20 }, { from: 90, to: 110 }]);
+    expect(cellSpans([0, 10, 100], 20)).toEqual([
+      { from: -10, to: 5 },
+      { from: 5, to: 20 },
+      { from: 90, to: 110 },
+    ]);
   });
   it('writes the CSV with a header and one row per point', () => {
-    const rows = [rawToRow({ ts: new Date(0), layersCc: [1000, 4000, 5500], compressor: true, immersionW: 0, drawDlpm: 60, flowCc: 6000 })];
-    const csv = readingsCsv(toSeries(rows, tank, { from: new Date(0), to: new Date(60_000), resolution: 'raw' }), 'KVC210-1');
+    const rows = [
+      rawToRow({
+        ts: new Date(0),
+        layersCc: [1000, 4000, 5500],
+        compressor: true,
+        immersionW: 0,
+        drawDlpm: 60,
+        flowCc: 6000,
+      }),
+    ];
+    const csv = readingsCsv(
+      toSeries(rows, tank, { from: new Date(0), to: new Date(60_000), resolution: 'raw' }),
+      'KVC210-1',
+    );
     const lines = csv.trim().split('\r\n');
-    expect(lines[1]).toBe('time_utc,layer_1_c,layer_2_c,layer_3_c,state_of_charge,v40_l,compressor_on,immersion_on,draw_l_per_min,flow_c');
+    expect(lines[1]).toBe(
+      'time_utc,layer_1_c,layer_2_c,layer_3_c,state_of_charge,v40_l,compressor_on,immersion_on,draw_l_per_min,flow_c',
+    );
     expect(lines[2]).toMatch(/^1970-01-01T00:00:00.000Z,10.00,40.00,55.00,0.\d{4},166.7,1.000,0.000,6.0,60.00$/);
   });
 });
 
 describe('timeline', () => {
   const at = (m: number) => new Date(Date.UTC(2026, 2, 1, 0, m));
-  const run = (m: number) => ({ kind: 'compressor_run' as const, startedAt: at(m), endedAt: at(m + 20), energyWh: 500, litres: 0, complete: true });
+  const run = (m: number) => ({
+    kind: 'compressor_run' as const,
+    startedAt: at(m),
+    endedAt: at(m + 20),
+    energyWh: 500,
+    litres: 0,
+    complete: true,
+  });
   it('marks a compressor start less than 60 min after the previous one, including one before the range', () => {
     const items = markShortCycles([run(30), run(120), run(150)], 60, at(0));
     expect(items.map((i) => i.shortCycle)).toEqual([true, false, true]);
     expect(markShortCycles([run(30)], 60, null)[0]!.shortCycle).toBe(false);
   });
   it('clips bars to the range and ends an open run now', () => {
-    const bars = timelineBars([{ kind: 'immersion_run', startedAt: at(0).toISOString(), endedAt: null, energyWh: 0, litres: null, complete: false, shortCycle: false }], at(10).getTime(), at(100).getTime(), at(50).getTime());
+    const bars = timelineBars(
+      [
+        {
+          kind: 'immersion_run',
+          startedAt: at(0).toISOString(),
+          endedAt: null,
+          energyWh: 0,
+          litres: null,
+          complete: false,
+          shortCycle: false,
+        },
+      ],
+      at(10).getTime(),
+      at(100).getTime(),
+      at(50).getTime(),
+    );
     expect(bars[0]).toMatchObject({ from: at(10).getTime(), to: at(50).getTime() });
   });
 });
@@ -83,7 +152,14 @@ describe('standing loss and legionella from a week of readings', () => {
     expect(a.legionella!.heldFraction).toBe(0);
   });
   it('says why when there is no quiet period', () => {
-    const rows: SeriesRow[] = [0, 1, 2].map((m) => ({ t: m * 60_000, layersC: [50, 50, 50], compressor: 1, immersion: 0, drawLpm: 0, flowC: null }));
+    const rows: SeriesRow[] = [0, 1, 2].map((m) => ({
+      t: m * 60_000,
+      layersC: [50, 50, 50],
+      compressor: 1,
+      immersion: 0,
+      drawLpm: 0,
+      flowC: null,
+    }));
     const a = analyseTank(rows, { ...tank, declaredLossW: null }, { from: new Date(0), to: new Date(180_000) });
     expect(a.standingLoss).toBeNull();
     expect(a.standingLossNote).toMatch(/No quiet stretch/);
@@ -103,7 +179,9 @@ describe('query strings', () => {
     expect(rangeQuerySchema.parse({ from: '2026-03-30T00:00:00Z', to }).resolution).toBe('raw');
     expect(rangeQuerySchema.parse({ from: '2026-03-24T00:00:00Z', to }).resolution).toBe('15m');
     expect(rangeQuerySchema.parse({ from: '2026-03-01T00:00:00Z', to }).resolution).toBe('1h');
-    expect(rangeQuerySchema.safeParse({ from: '2026-03-01T00:00:00Z', to, resolution: 'raw' }).error!.issues[0]!.path).toEqual(['resolution']);
+    expect(
+      rangeQuerySchema.safeParse({ from: '2026-03-01T00:00:00Z', to, resolution: 'raw' }).error!.issues[0]!.path,
+    ).toEqual(['resolution']);
     expect(rangeQuerySchema.safeParse({ from: to, to: '2026-03-01T00:00:00Z' }).error!.issues[0]!.path).toEqual(['to']);
     expect(rangeQuerySchema.safeParse({ from: 'yesterday' }).error!.issues[0]!.path).toEqual(['from']);
   });

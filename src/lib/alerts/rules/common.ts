@@ -15,8 +15,11 @@ export const unknown: Finding = { active: null };
 
 /** A reading as evidence: time, layers, and what was heating. */
 export const sample = (r: Reading): NonNullable<AlertEvidence['readings']>[number] => ({
-  ts: r.ts, layersC: [...r.layersC], ...(r.compressor !== undefined ? { compressor: r.compressor } : {}), ...(r.immersionW !== undefined ? { immersionW: r.immersionW } : {}),
+  ts: r.ts,
+  layersC: [...r.layersC],
+  ...(r.compressor !== undefined ? { compressor: r.compressor } : {}),
+  ...(r.immersionW !== undefined ? { immersionW: r.immersionW } : {}),
 });
 
 export const round1 = (x: number) => Math.round(x * 10) / 10;
-export const fmtTime = (ms: number) => new Date(ms).toISOString().slice(0, 16).replace('T', ' ') + ' UTC';
+export const fmtTime = (ms: number) => `${new Date(ms).toISOString().slice(0, 16).replace('T', ' ')} UTC`;

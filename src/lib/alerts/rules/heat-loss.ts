@@ -16,8 +16,18 @@ const MIN_PERIOD_MS = 4 * HOUR;
 const MAX_PERIOD_MS = 10 * HOUR;
 const FITS_TO_DECIDE = 2;
 
-export interface HeatLossFit { start: number; end: number; lossW: number; declaredW: number }
-export interface HeatLossState { idleSince: number | null; prevTs: number | null; samples: { t: number; meanC: number }[]; fits: HeatLossFit[] }
+export interface HeatLossFit {
+  start: number;
+  end: number;
+  lossW: number;
+  declaredW: number;
+}
+export interface HeatLossState {
+  idleSince: number | null;
+  prevTs: number | null;
+  samples: { t: number; meanC: number }[];
+  fits: HeatLossFit[];
+}
 
 export const initialHeatLoss = (): HeatLossState => ({ idleSince: null, prevTs: null, samples: [], fits: [] });
 
@@ -42,14 +52,22 @@ function closePeriod(s: HeatLossState, volumeL: number, declaredW: number | null
  * `tankFigures`' layers, a doubted sensor estimated by height; null when the figures are withheld:
  * the period breaks there, since a cooling curve cannot span a column nobody can read).
  */
-export function stepHeatLoss(s: HeatLossState, r: Reading, meanC: number | null, volumeL: number, declaredW: number | null, th: Thresholds): void {
+export function stepHeatLoss(
+  s: HeatLossState,
+  r: Reading,
+  meanC: number | null,
+  volumeL: number,
+  declaredW: number | null,
+  th: Thresholds,
+): void {
   const idle = meanC !== null && r.compressor !== true && !((r.immersionW ?? 0) > 0) && (r.drawLpm ?? 0) < MIN_DRAW_LPM;
   const gap = s.prevTs !== null && r.ts - s.prevTs > MAX_GAP_MS;
   if (!idle || gap) closePeriod(s, volumeL, declaredW, th);
   if (idle) {
     s.idleSince ??= r.ts;
     const lastT = s.samples[s.samples.length - 1]?.t ?? -Infinity;
-    if (meanC !== null && r.ts - s.idleSince >= SETTLE_MS && r.ts - lastT >= SAMPLE_EVERY_MS) s.samples.push({ t: r.ts, meanC });
+    if (meanC !== null && r.ts - s.idleSince >= SETTLE_MS && r.ts - lastT >= SAMPLE_EVERY_MS)
+      s.samples.push({ t: r.ts, meanC });
     if (s.samples.length > 0 && r.ts - s.samples[0]!.t >= MAX_PERIOD_MS) closePeriod(s, volumeL, declaredW, th);
   }
   s.prevTs = r.ts;
@@ -68,7 +86,12 @@ export function heatLossFinding(s: HeatLossState, th: Thresholds): Finding {
     evidence: {
       summary: `Cooling curves give a standing loss of ${recent.map((x) => `${Math.round(x.lossW)} W`).join(' and ')} at 45 K, more than ${th.heatLossMarginPct}% above the declared ${Math.round(f.declaredW)} W (latest period ${fmtTime(f.start)} to ${fmtTime(f.end)}).`,
       facts: { lossW: f.lossW, declaredW: f.declaredW, marginPct: th.heatLossMarginPct, ambientC: th.heatLossAmbientC },
-      events: recent.map((x) => ({ kind: 'cooling_period', start: x.start, end: x.end, detail: `${Math.round(x.lossW)} W at 45 K` })),
+      events: recent.map((x) => ({
+        kind: 'cooling_period',
+        start: x.start,
+        end: x.end,
+        detail: `${Math.round(x.lossW)} W at 45 K`,
+      })),
       at: f.start,
     },
   };

@@ -14,18 +14,39 @@ const MIN_HEAT_KWH = 3;
 /** The share must fall this many points below the limit to clear: no flapping at the edge. */
 const CLEAR_BAND_PCT = 5;
 
-type Row = { ts: number; layersC: number[]; compressor?: boolean; immersionW?: number; powerW?: number; drawLpm?: number; solarSurplusW?: number };
-export interface ImmersionState { days: { day: number; hpKWh: number; immKWh: number; coveredMin: number }[]; prev: Row | null }
+type Row = {
+  ts: number;
+  layersC: number[];
+  compressor?: boolean;
+  immersionW?: number;
+  powerW?: number;
+  drawLpm?: number;
+  solarSurplusW?: number;
+};
+export interface ImmersionState {
+  days: { day: number; hpKWh: number; immKWh: number; coveredMin: number }[];
+  prev: Row | null;
+}
 
 export const initialImmersion = (): ImmersionState => ({ days: [], prev: null });
 
-export interface AccountingSpec { volumeL: number; uaWPerK: number; ambientC: number }
+export interface AccountingSpec {
+  volumeL: number;
+  uaWPerK: number;
+  ambientC: number;
+}
 
 /**
  * Adds a batch to the daily energy sums. `columns[i]`: reading i's layers from the tank's figures
  * (a doubted sensor estimated by height; null when withheld, so the reading is skipped).
  */
-export function accountBatch(s: ImmersionState, readings: readonly Reading[], columns: readonly (readonly number[] | null)[], tank: AccountingSpec, th: Thresholds): void {
+export function accountBatch(
+  s: ImmersionState,
+  readings: readonly Reading[],
+  columns: readonly (readonly number[] | null)[],
+  tank: AccountingSpec,
+  th: Thresholds,
+): void {
   const rows: Row[] = [];
   if (s.prev && readings.length > 0 && readings[0]!.ts - s.prev.ts <= MAX_GAP_MS) rows.push(s.prev);
   for (const [i, r] of readings.entries()) {
@@ -47,7 +68,11 @@ export function accountBatch(s: ImmersionState, readings: readonly Reading[], co
       let j = i;
       while (j + 1 < rows.length && Math.floor(rows[j]!.ts / DAY) === day) j++;
       const slice = rows.slice(i, j + 1);
-      const e = accountDay(slice, tank, [], { startMs: slice[0]!.ts, endMs: Math.min(slice[slice.length - 1]!.ts, (day + 1) * DAY), date: new Date(day * DAY).toISOString().slice(0, 10) });
+      const e = accountDay(slice, tank, [], {
+        startMs: slice[0]!.ts,
+        endMs: Math.min(slice[slice.length - 1]!.ts, (day + 1) * DAY),
+        date: new Date(day * DAY).toISOString().slice(0, 10),
+      });
       let d = s.days.find((x) => x.day === day);
       if (!d) s.days.push((d = { day, hpKWh: 0, immKWh: 0, coveredMin: 0 }));
       d.hpKWh += Math.max(0, e.heatPumpHeatKWh);
@@ -75,11 +100,20 @@ export function immersionFinding(s: ImmersionState, at: number, th: Thresholds):
     active: true,
     evidence: {
       summary: `The immersion heater gave ${Math.round(sharePct)}% of the heat over the last ${round1(covered / 1440)} days (${round1(imm)} kWh against ${round1(hp)} kWh from the heat pump); the limit is ${th.immersionMaxShare}%.`,
-      facts: { immersionSharePct: round1(sharePct), immersionKWh: round1(imm), heatPumpKWh: round1(hp), coveredDays: round1(covered / 1440), limitPct: th.immersionMaxShare },
-      events: days.map((d) => ({ kind: 'day', start: d.day * DAY, end: (d.day + 1) * DAY, detail: `immersion ${round1(d.immKWh)} kWh, heat pump ${round1(d.hpKWh)} kWh` })),
+      facts: {
+        immersionSharePct: round1(sharePct),
+        immersionKWh: round1(imm),
+        heatPumpKWh: round1(hp),
+        coveredDays: round1(covered / 1440),
+        limitPct: th.immersionMaxShare,
+      },
+      events: days.map((d) => ({
+        kind: 'day',
+        start: d.day * DAY,
+        end: (d.day + 1) * DAY,
+        detail: `immersion ${round1(d.immKWh)} kWh, heat pump ${round1(d.hpKWh)} kWh`,
+      })),
       at: Math.max(from, (days[0]?.day ?? 0) * DAY),
     },
   };
 }
-
-

@@ -20,7 +20,14 @@ export interface LegionellaState {
   hottestTopC: number | null;
 }
 
-export const initialLegionella = (): LegionellaState => ({ observedSince: null, prevTs: null, stretchStart: [], lastHeldAt: null, bestShare: 0, hottestTopC: null });
+export const initialLegionella = (): LegionellaState => ({
+  observedSince: null,
+  prevTs: null,
+  stretchStart: [],
+  lastHeldAt: null,
+  bestShare: 0,
+  hottestTopC: null,
+});
 
 /** Share of the volume (equal layers) whose stretch has lasted `holdMin` at `at`. */
 function heldShare(s: LegionellaState, at: number, holdMin: number): number {
@@ -38,7 +45,8 @@ export function stepLegionella(s: LegionellaState, r: Reading, th: Thresholds): 
   for (let i = 0; i < n; i++) {
     const v = r.layersC[i];
     // A missing sensor is no evidence of temperature.
-    if (v === null || v === undefined || v < th.legionellaC || broken) s.stretchStart[i] = v !== null && v !== undefined && v >= th.legionellaC ? r.ts : null;
+    if (v === null || v === undefined || v < th.legionellaC || broken)
+      s.stretchStart[i] = v !== null && v !== undefined && v >= th.legionellaC ? r.ts : null;
     else s.stretchStart[i] ??= r.ts;
   }
   const share = heldShare(s, r.ts, th.legionellaHoldMin);
@@ -60,8 +68,12 @@ export function legionellaFinding(s: LegionellaState, at: number, th: Thresholds
   const reference = s.lastHeldAt ?? s.observedSince;
   if (at - reference <= windowMs) return s.lastHeldAt === null ? unknown : clear;
   const facts = {
-    thresholdC: th.legionellaC, holdMin: th.legionellaHoldMin, sharePct: th.legionellaShare, windowDays: th.legionellaWindowDays,
-    lastHeldAt: s.lastHeldAt === null ? null : new Date(s.lastHeldAt).toISOString(), bestSharePct: Math.round(s.bestShare * 100),
+    thresholdC: th.legionellaC,
+    holdMin: th.legionellaHoldMin,
+    sharePct: th.legionellaShare,
+    windowDays: th.legionellaWindowDays,
+    lastHeldAt: s.lastHeldAt === null ? null : new Date(s.lastHeldAt).toISOString(),
+    bestSharePct: Math.round(s.bestShare * 100),
     hottestTopC: s.hottestTopC === null ? null : round1(s.hottestTopC),
   };
   return {
@@ -69,7 +81,8 @@ export function legionellaFinding(s: LegionellaState, at: number, th: Thresholds
     since: reference + windowMs,
     evidence: {
       summary: `The water has not been held at ${th.legionellaC} °C or above across ${th.legionellaShare}% of the cylinder for ${th.legionellaHoldMin} min ${s.lastHeldAt === null ? `in the ${th.legionellaWindowDays} days it has been watched` : `since ${fmtTime(s.lastHeldAt)}`}; the hottest top reading since was ${facts.hottestTopC ?? '–'} °C.`,
-      facts, at: reference,
+      facts,
+      at: reference,
     },
   };
 }

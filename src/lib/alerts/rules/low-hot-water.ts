@@ -21,23 +21,39 @@ export interface LowHotWaterState {
   last: ReturnType<typeof sample> | null;
 }
 
-export const initialLowHotWater = (): LowHotWaterState => ({ litres: new Array(HOURS_PER_WEEK).fill(0), hours: new Array(HOURS_PER_WEEK).fill(0), prev: null, v40L: null, expected: null, last: null });
+export const initialLowHotWater = (): LowHotWaterState => ({
+  litres: new Array(HOURS_PER_WEEK).fill(0),
+  hours: new Array(HOURS_PER_WEEK).fill(0),
+  prev: null,
+  v40L: null,
+  expected: null,
+  last: null,
+});
 
 /**
  * Adds a batch's draws to the demand sums (the energy core learns; we keep its sums). `columns[i]`:
  * reading i's layers from the tank's figures (null when withheld: the reading is skipped).
  */
-export function learnFromBatch(s: LowHotWaterState, readings: readonly Reading[], columns: readonly (readonly number[] | null)[], occupants: number): void {
+export function learnFromBatch(
+  s: LowHotWaterState,
+  readings: readonly Reading[],
+  columns: readonly (readonly number[] | null)[],
+  occupants: number,
+): void {
   const series: { ts: number; layersC: number[]; drawLpm?: number }[] = [];
   if (s.prev && readings.length > 0 && readings[0]!.ts - s.prev.ts <= MAX_GAP_MS) series.push(s.prev);
   for (const [i, r] of readings.entries()) {
     const layers = columns[i];
-    if (layers) series.push({ ts: r.ts, layersC: [...layers], ...(r.drawLpm !== undefined ? { drawLpm: r.drawLpm } : {}) });
+    if (layers)
+      series.push({ ts: r.ts, layersC: [...layers], ...(r.drawLpm !== undefined ? { drawLpm: r.drawLpm } : {}) });
   }
   if (series.length >= 2) {
     const m = learnDemand(series, { occupants, priorWeeks: 0, timeZone: TIME_ZONE });
     for (let h = 0; h < HOURS_PER_WEEK; h++) {
-      if (m.weeksObserved[h]! > 0) { s.litres[h]! += m.litres40ByHour[h]! * m.weeksObserved[h]!; s.hours[h]! += m.weeksObserved[h]!; }
+      if (m.weeksObserved[h]! > 0) {
+        s.litres[h]! += m.litres40ByHour[h]! * m.weeksObserved[h]!;
+        s.hours[h]! += m.weeksObserved[h]!;
+      }
     }
   }
   if (series.length > 0) s.prev = series[series.length - 1]!;
@@ -48,7 +64,12 @@ const priors = new Map<number, number[]>();
 export function demandModel(s: LowHotWaterState, occupants: number): DemandModel {
   let prior = priors.get(occupants);
   if (!prior) priors.set(occupants, (prior = demandPrior(occupants)));
-  return { timeZone: TIME_ZONE, prior, weeksObserved: [...s.hours], litres40ByHour: prior.map((p, h) => (PRIOR_WEEKS * p + s.litres[h]!) / (PRIOR_WEEKS + s.hours[h]!)) };
+  return {
+    timeZone: TIME_ZONE,
+    prior,
+    weeksObserved: [...s.hours],
+    litres40ByHour: prior.map((p, h) => (PRIOR_WEEKS * p + s.litres[h]!) / (PRIOR_WEEKS + s.hours[h]!)),
+  };
 }
 
 /** V40 now: the tank's figure (a doubted sensor estimated; withheld figures, null, give no finding). */
@@ -57,7 +78,13 @@ export function stepLowHotWater(s: LowHotWaterState, r: Reading, v40L: number | 
   s.last = sample(r);
 }
 
-export function lowHotWaterFinding(s: LowHotWaterState, at: number, th: Thresholds, occupants: number, trusted: boolean): Finding {
+export function lowHotWaterFinding(
+  s: LowHotWaterState,
+  at: number,
+  th: Thresholds,
+  occupants: number,
+  trusted: boolean,
+): Finding {
   if (!trusted || s.v40L === null) return { active: null };
   // Usual demand changes by the hour: work it out at most every quarter of an hour.
   if (!s.expected || at - s.expected.at >= 15 * MIN || at < s.expected.at) {
@@ -71,7 +98,8 @@ export function lowHotWaterFinding(s: LowHotWaterState, at: number, th: Threshol
     evidence: {
       summary: `About ${Math.round(s.v40L)} L of hot water at 40 °C is stored, but the home usually uses about ${Math.round(expected)} L in the next ${th.lowHotWaterLookaheadH} h.`,
       facts: { v40L: round1(s.v40L), usualDemandL: round1(expected), lookaheadH: th.lowHotWaterLookaheadH },
-      readings: s.last ? [s.last] : [], at,
+      readings: s.last ? [s.last] : [],
+      at,
     },
   };
 }

@@ -12,7 +12,11 @@ export function offlineFinding(lastTs: number | null, now: number, th: Threshold
     since: lastTs + th.offlineAfterMin * MIN,
     evidence: {
       summary: `No reading since ${fmtTime(lastTs)} (${Math.floor(silentMin)} min; the limit is ${th.offlineAfterMin} min).`,
-      facts: { lastReadingAt: new Date(lastTs).toISOString(), silentMin: Math.floor(silentMin), offlineAfterMin: th.offlineAfterMin },
+      facts: {
+        lastReadingAt: new Date(lastTs).toISOString(),
+        silentMin: Math.floor(silentMin),
+        offlineAfterMin: th.offlineAfterMin,
+      },
       at: lastTs,
     },
   };

@@ -23,7 +23,15 @@ export interface SensorState {
 }
 
 export function initialSensor(n: number): SensorState {
-  return { prevTs: null, badSince: new Array(n).fill(null), inversionSince: new Array(Math.max(0, n - 1)).fill(null), window: null, stuck: new Array(n).fill(null), stuckDetail: new Array(n).fill(null), last: null };
+  return {
+    prevTs: null,
+    badSince: new Array(n).fill(null),
+    inversionSince: new Array(Math.max(0, n - 1)).fill(null),
+    window: null,
+    stuck: new Array(n).fill(null),
+    stuckDetail: new Array(n).fill(null),
+    last: null,
+  };
 }
 
 export function stepSensor(s: SensorState, r: Reading, th: Thresholds): void {
@@ -48,7 +56,10 @@ export function stepSensor(s: SensorState, r: Reading, th: Thresholds): void {
   }
   // Stuck: the thermal core's check (the figures use it too), with this company's limits.
   stepStuck(s, r.ts, L, {
-    windowMin: th.sensorStuckWindowMin, toleranceK: th.sensorStuckToleranceK, neighbourMoveK: th.sensorNeighbourMoveK, maxGapMs: MAX_GAP_MS,
+    windowMin: th.sensorStuckWindowMin,
+    toleranceK: th.sensorStuckToleranceK,
+    neighbourMoveK: th.sensorNeighbourMoveK,
+    maxGapMs: MAX_GAP_MS,
   });
   s.prevTs = r.ts;
   s.last = sample(r);
@@ -56,7 +67,9 @@ export function stepSensor(s: SensorState, r: Reading, th: Thresholds): void {
 
 /** Which problems show right now, without waiting for persistence (other rules stop trusting the column at once). */
 export function sensorSuspect(s: SensorState): boolean {
-  return s.badSince.some((x) => x !== null) || s.inversionSince.some((x) => x !== null) || s.stuck.some((x) => x === true);
+  return (
+    s.badSince.some((x) => x !== null) || s.inversionSince.some((x) => x !== null) || s.stuck.some((x) => x === true)
+  );
 }
 
 export function sensorFinding(s: SensorState, at: number, th: Thresholds): Finding {
@@ -66,7 +79,11 @@ export function sensorFinding(s: SensorState, at: number, th: Thresholds): Findi
   s.badSince.forEach((from, i) => {
     if (from === null || at - from < th.sensorRangeMin * MIN) return;
     const v = s.last?.layersC[i];
-    problems.push(v === null || v === undefined ? `sensor ${i + 1} (from the bottom) gives no reading since ${fmtTime(from)}` : `sensor ${i + 1} reads ${v.toFixed(1)} °C, outside ${th.sensorMinC}–${th.sensorMaxC} °C`);
+    problems.push(
+      v === null || v === undefined
+        ? `sensor ${i + 1} (from the bottom) gives no reading since ${fmtTime(from)}`
+        : `sensor ${i + 1} reads ${v.toFixed(1)} °C, outside ${th.sensorMinC}–${th.sensorMaxC} °C`,
+    );
     facts[`sensor${i + 1}`] = v === undefined ? null : v;
     since = Math.min(since, from + th.sensorRangeMin * MIN);
   });
@@ -75,14 +92,18 @@ export function sensorFinding(s: SensorState, at: number, th: Thresholds): Findi
     const below = s.last?.layersC[i];
     const above = s.last?.layersC[i + 1];
     const dk = below != null && above != null ? below - above : null;
-    problems.push(`sensor ${i + 1} reads ${dk === null ? 'more' : `${dk.toFixed(1)} K`} warmer than sensor ${i + 2} above it for ${Math.round((at - from) / MIN)} min (swapped or misplaced sensors?)`);
+    problems.push(
+      `sensor ${i + 1} reads ${dk === null ? 'more' : `${dk.toFixed(1)} K`} warmer than sensor ${i + 2} above it for ${Math.round((at - from) / MIN)} min (swapped or misplaced sensors?)`,
+    );
     facts[`inversion${i + 1}_${i + 2}K`] = dk === null ? null : round1(dk);
     since = Math.min(since, from + th.sensorInversionMin * MIN);
   });
   s.stuck.forEach((stuck, i) => {
     const d = s.stuckDetail[i];
     if (!stuck || !d) return;
-    problems.push(`sensor ${i + 1} has not changed (by ${d.rangeK} K) in ${th.sensorStuckWindowMin} min while a neighbour moved ${d.neighbourK} K`);
+    problems.push(
+      `sensor ${i + 1} has not changed (by ${d.rangeK} K) in ${th.sensorStuckWindowMin} min while a neighbour moved ${d.neighbourK} K`,
+    );
     facts[`stuck${i + 1}`] = s.last?.layersC[i] ?? null;
     since = Math.min(since, d.at);
   });
@@ -92,6 +113,11 @@ export function sensorFinding(s: SensorState, at: number, th: Thresholds): Findi
   return {
     active: true,
     since: Number.isFinite(since) ? since : at,
-    evidence: { summary: sentence.charAt(0).toUpperCase() + sentence.slice(1) + '.', facts, readings: s.last ? [s.last] : [], at },
+    evidence: {
+      summary: `${sentence.charAt(0).toUpperCase() + sentence.slice(1)}.`,
+      facts,
+      readings: s.last ? [s.last] : [],
+      at,
+    },
   };
 }
