@@ -1,5 +1,5 @@
 // Request schemas of the alert endpoints, shared by the islands and the endpoints. Pure: no I/O.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { alertKinds, alertSeverities, alertStates } from './types';
 

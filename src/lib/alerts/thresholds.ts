@@ -1,7 +1,7 @@
 // The thresholds every rule reads, with their defaults and where each default comes from. A
 // company admin may change any of them (src/pages/admin/alert-settings.astro); what a company
 // stores is only what it changed, merged over these defaults. Pure: no I/O.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { alertKinds, alertSeverities, type AlertKind, type AlertSeverity } from './types';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { recordAudit } from '../../db/queries/audit';
 import { findAccountByEmail } from '../../db/queries/accounts';
 import { hashPassword, verifyPassword } from '../server/password';

@@ -1,7 +1,7 @@
 // What may change on a signed commissioning record. Each change is an amendment kept beside the
 // signed original (who, when, from what, to what, why); a change that the tank itself runs on
 // (its target, for instance) is applied to the tank as well.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { controlsStepSchema, LEGIONELLA_STORE_C } from './steps';
 

@@ -1,6 +1,6 @@
 // The commissioning wizard's steps and what each must hold. Pure: shared by the wizard (to show
 // field errors before saving) and the endpoints (which trust nothing the browser sends).
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { SERIAL_PATTERN } from '../telemetry/wire';
 import { capabilities, hasHeatPump, heatSourceDescriptions, heatSourceKinds, type HeatSource } from '../heat-sources';

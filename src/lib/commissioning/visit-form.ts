@@ -1,5 +1,5 @@
 // What a service visit must hold. Shared by the visit form and POST /api/visits.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { visitKinds } from './visit-kinds';
 

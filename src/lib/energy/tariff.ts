@@ -1,7 +1,7 @@
 // Electricity tariffs (import and export prices) and the price in force at an instant.
 // Inside the energy core every price is in pence per kWh (p/kWh) and money in pence; tariffs
 // entered in pounds per kWh (£/kWh) are converted once, at the edge, by the schemas below.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { EnergyInputError } from './errors.js';
 import { isTimeZone, localMinuteOfDay } from './local-time.js';

@@ -1,6 +1,6 @@
 // What staff may set on a home: its cold-inlet temperature, which every figure of its tanks counts
 // from (state of charge, V40, stored heat). Without one the figures use EN 16147's 10 °C.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 
 /**
  * Cold mains water arrives at roughly 4–20 °C through the year in temperate climates (from memory);

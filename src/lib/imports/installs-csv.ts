@@ -1,7 +1,7 @@
 // Existing installs from a CSV file: one row per home and its cylinder. Parsing and per-row
 // checks are pure; checks against what is already stored are in installs.server.ts.
 import { parse } from 'csv-parse/sync';
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import type { ImportRow } from '../../db/queries/commissioning';
 import { hasHeatPump, heatSourceKinds } from '../heat-sources';
 import { SERIAL_PATTERN } from '../telemetry/wire';

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import type { z } from '@/lib/zod';
 import { HttpError } from './authz';
 import { textProblem } from './text';
 

@@ -1,5 +1,5 @@
 import type { APIContext, APIRoute } from 'astro';
-import { ZodError } from 'zod';
+import { ZodError } from '@/lib/zod';
 import { HttpError } from './authz';
 import { problem, type FieldError } from './http';
 import { textProblem } from './text';

@@ -1,5 +1,5 @@
 // Request shapes of the energy, tariff and planning endpoints (zod), shared by islands and endpoints.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import type { DayEnergy, MonthEnergy, PlanStep } from '../energy';
 import type { Fence, outlierRule } from './fleet-outliers';
 

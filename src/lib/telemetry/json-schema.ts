@@ -1,6 +1,6 @@
 // The wire contract as JSON Schema (draft 2020-12), generated from the zod schemas so that
 // docs/wire-contract.schema.json cannot drift from what the code accepts (a unit test compares them).
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { batchSchema, commandMessageSchema, commandReplySchema, commandRequestSchema, readingSchema } from './wire';
 
 export function wireJsonSchema(): Record<string, unknown> {

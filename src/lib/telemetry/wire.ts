@@ -3,7 +3,7 @@
 // simulator and docs/wire-contract.schema.json (generated from these schemas). Pure: no I/O.
 //
 // Device-facing errors are turned into the contract's own field list below (`zodFieldErrors`).
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 
 export const WIRE_VERSION = 'v1';
 const PREFIX = `heatlayer/${WIRE_VERSION}/tanks`;

@@ -1,6 +1,6 @@
 // Query strings the views API accepts (zod, validated at the edge) and the JSON it answers.
 // Server-only: islands import the types with `import type`, so zod stays out of their bundles.
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } from './attention';
 import { heatSourceValues } from './labels';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { listAudit } from '../../db/queries/audit';
 import { requireViewer } from '../../lib/server/authz';
 import { endpoint } from '../../lib/server/endpoint';

@@ -71,6 +71,15 @@ describe('import boundaries', () => {
     ).toMatch(/holds SQL only/);
   });
 
+  it("src imports zod only through '@/lib/zod' (configured for the Content-Security-Policy)", () => {
+    expect(lint('src/lib/energy/probe.ts', "import { z } from 'zod';\nexport const probe = z;\n")).toMatch(
+      /Import z from '@\/lib\/zod'/,
+    );
+    expect(lint('src/lib/energy/probe.ts', "import { z } from '@/lib/zod';\nexport const probe = z;\n")).not.toMatch(
+      /Import z from/,
+    );
+  });
+
   it('the simulator may not import the database', () => {
     expect(lint('simulator/probe.ts', "import { db } from '../src/db';\nexport const probe = db;\n")).toMatch(
       /talks MQTT and HTTP only/,

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { listAmendments, listUploads } from '../../../../db/queries/commissioning';
 import { loadCommissioning, saveStep } from '../../../../lib/commissioning/flow.server';
 import { stepIds } from '../../../../lib/commissioning/steps';

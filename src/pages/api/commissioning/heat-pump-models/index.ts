@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { createHeatPumpModel, listHeatPumpModels } from '../../../../db/queries/commissioning';
 import { HttpError, requireViewer } from '../../../../lib/server/authz';
