@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import { useEffect, useMemo, useState } from 'react';
+import { Suspense, useEffect, useMemo, useState } from 'react';
 import { withQuery } from '../lib/query/provider';
 import { eventsQuery, exportUrl, readingsQuery, tankQuery } from '../lib/query/tanks.queries';
 import { temperatureColour } from '../lib/ui/temperature-scale';
@@ -7,8 +7,8 @@ import { severityLabels } from '../lib/alerts/types';
 import { fmtAgo, fmtC, fmtL, fmtPct, fmtTime } from '../lib/views/format';
 import { heatSourceLabels } from '../lib/views/labels';
 import { aroundEvidence, rangeBounds, rangeSearch, type RangeChoice } from '../lib/views/range';
-import { Heatmap } from './charts/Heatmap';
-import { LineChart, type LineSeries } from './charts/LineChart';
+import { LazyHeatmap as Heatmap, LazyLineChart as LineChart } from './charts/lazy';
+import type { LineSeries } from './charts/LineChart';
 import { TemperatureLegend } from './charts/TemperatureLegend';
 import { Timeline } from './charts/Timeline';
 import { tokens } from './charts/tokens';
@@ -144,7 +144,7 @@ function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
         {readings.isPending ? <Loading label="Loading readings…" /> : readings.isError && !readings.data ? <ErrorNotice what="the readings" error={readings.error} onRetry={() => readings.refetch()} /> : readings.data && readings.data.t.length === 0 ? (
           <Empty>No readings in this range.</Empty>
         ) : readings.data ? (
-          <>
+          <Suspense fallback={<Loading label="Drawing the charts…" />}>
             <p className="text-xs text-ink-muted">{readings.data.t.length.toLocaleString('en-GB')} points, {resolutionLabel[readings.data.resolution]}{readings.isFetching ? ' · updating…' : ''}</p>
             <div className="grid gap-4 lg:grid-cols-[3fr_1fr]">
               <div className="min-w-0">
@@ -173,7 +173,7 @@ function TankView({ tankId, initialRange = null, rangeProblem = null }: Props) {
               <QualityNote q={readings.data.quality} className="mb-2" />
               <LineChart t={readings.data.t} from={bounds.from} to={bounds.to} series={chargeSeries} yLabel="%" y2Label="L" yRange={[0, 100]} height={180} />
             </div>
-          </>
+          </Suspense>
         ) : null}
         <div>
           <h3 className="mb-2 text-sm font-semibold">Runs, draws and commands</h3>

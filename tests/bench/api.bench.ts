@@ -173,9 +173,18 @@ async function main() {
       ensureBuild();
       console.log('');
       console.log('Page scripts, gzipped (React islands and their imports, counted once a page):');
+      // Budgets (common practice for pages used on phones over mobile data): the householder's page
+      // and the tank page; React 19's renderer alone is about 65 kB of them.
+      const budgetsKb: Record<string, number> = { '/home': 80, '/tanks/[id]': 120 };
       for (const p of pageScriptSizes(buildDir()).filter((x) => x.files > 0)) {
+        const kb = p.gzipBytes / 1024;
+        const budget = budgetsKb[p.page];
+        const verdict =
+          budget === undefined
+            ? ''
+            : `  budget ${budget} kB: ${kb <= budget ? 'within' : `over by ${(kb - budget).toFixed(1)} kB`} (ratio ${(kb / budget).toFixed(2)})`;
         console.log(
-          `  ${p.page.padEnd(26)} ${(p.gzipBytes / 1024).toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}`,
+          `  ${p.page.padEnd(26)} ${kb.toFixed(1).padStart(6)} kB in ${String(p.files).padStart(2)} files (${(p.bytes / 1024).toFixed(0)} kB raw)  ${p.islands.join(', ')}${verdict}`,
         );
       }
     },

@@ -1,9 +1,9 @@
 import { useMutation } from '@tanstack/react-query';
-import { useState } from 'react';
+import { Suspense, useState } from 'react';
 import { fetchPlan, sendPlan } from '../../lib/query/energy.queries';
 import type { PlanResponse } from '../../lib/tank-energy/contracts';
 import { fmtMoney, planColumns } from '../../lib/tank-energy/present';
-import { LineChart } from '../charts/LineChart';
+import { LazyLineChart as LineChart } from '../charts/lazy';
 import { tokens } from '../charts/tokens';
 import { ErrorNotice } from '../ui/States';
 
@@ -48,6 +48,7 @@ export function ChargePlanPanel({ tankId, simple = false }: { tankId: string; si
             <p className="text-sm">{simple ? 'It would heat' : 'Windows sent as a schedule'}: {plan.windows.map((w) => `${w.from}–${w.to}`).join(', ')}.</p>
           )}
           {!simple && (
+            <Suspense fallback={<p className="text-sm text-ink-muted">Drawing the plan…</p>}>
             <LineChart t={c.t} from={plan.startMs} to={end} yLabel="litres at 40 °C" y2Label="p/kWh" height={240} series={[
               { label: 'Price (p/kWh)', values: c.price, colour: tokens.ochre.DEFAULT, scale: 'y2' },
               { label: 'Expected V40, plan', values: c.v40, colour: tokens.tide.DEFAULT, width: 2 },
@@ -55,6 +56,7 @@ export function ChargePlanPanel({ tankId, simple = false }: { tankId: string; si
               { label: 'Comfort floor', values: c.floor, colour: tokens.brick.DEFAULT, dash: [2, 3] },
               { label: 'Heating', values: c.heating, colour: tokens.kiln.DEFAULT, width: 6 },
             ]} />
+            </Suspense>
           )}
           {!simple && <p className="text-xs text-ink-muted">From {clock(plan.startMs)}; tariff: {plan.tariffSource === 'home' ? 'this home’s own' : 'the company default'}.</p>}
           <div className="flex flex-wrap items-center gap-3">

@@ -1,5 +1,5 @@
 // Shaping energy and plan answers for the views: money in plain words, chart columns. Pure.
-import { kWhPerLitreAt40 } from '../energy/browser';
+import { kWhPerLitreAt40 } from '../energy/units';
 import type { PlanResponse } from './contracts';
 
 /** Below this much solar heat a week there is nothing worth telling a householder, kWh (a few minutes of an element). */
