@@ -8,6 +8,8 @@ import * as schema from './schema';
  * needs COPY) import it; everything else calls named query functions.
  */
 export type Db = NodePgDatabase<typeof schema>;
+/** A transaction's handle, for functions that take part in their caller's transaction. */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
 let pool: pg.Pool | undefined;
 let database: Db | undefined;

@@ -1,4 +1,5 @@
 import type { Role } from '../db/schema/companies';
+import { staffRoles } from '@/db/schema/companies';
 
 export interface NavItem { href: string; label: string; roles: readonly Role[] }
 
@@ -6,10 +7,10 @@ export interface NavItem { href: string; label: string; roles: readonly Role[] }
 export const navItems: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
   { href: '/fleet/energy', label: 'Energy', roles: ['admin', 'operator'] },
-  { href: '/alerts', label: 'Alerts', roles: ['admin', 'operator', 'engineer'] },
-  { href: '/tanks', label: 'Cylinders', roles: ['admin', 'operator', 'engineer'] },
-  { href: '/commissioning', label: 'Commissioning', roles: ['admin', 'operator', 'engineer'] },
-  { href: '/service', label: 'Service', roles: ['admin', 'operator', 'engineer'] },
+  { href: '/alerts', label: 'Alerts', roles: staffRoles },
+  { href: '/tanks', label: 'Cylinders', roles: staffRoles },
+  { href: '/commissioning', label: 'Commissioning', roles: staffRoles },
+  { href: '/service', label: 'Service', roles: staffRoles },
   { href: '/home', label: 'My hot water', roles: ['householder'] },
   { href: '/admin', label: 'Company', roles: ['admin'] },
 ];

@@ -3,11 +3,10 @@
 // alerts a transition opens or resolves, and the state carried forward. The rules themselves run
 // in src/lib/alerts (evaluate.server.ts); nothing here computes.
 import { sql } from 'drizzle-orm';
-import type { db } from '..';
+import type { Tx } from '..';
 import type { HeatSource } from '../../lib/heat-sources';
 import type { AlertEvidence, AlertKind, AlertSeverity } from '../../lib/alerts/types';
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
 export type AlertTankRow = {
   id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: HeatSource; declared_loss_w: number | null; occupants: number | null;

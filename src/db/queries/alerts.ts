@@ -6,7 +6,7 @@ import type { Scope } from '../../lib/server/authz';
 import { resolveThresholds, type ThresholdOverrides, type Thresholds } from '../../lib/alerts/thresholds';
 import type { AlertEvidence, AlertKind, AlertSeverity, AlertState } from '../../lib/alerts/types';
 import type { NotificationChannel } from '../schema/alerts';
-import { isUuid } from './scope';
+import { isUuid, scopeWhere } from './scope';
 
 
 // ---------------------------------------------------------------- thresholds (cached briefly: the worker reads them per batch)
@@ -74,11 +74,8 @@ type AlertRowSql = {
   home_id: string | null; reference: string | null; town: string | null; address_line: string | null; total: string;
 };
 
-function scopeSql(scope: Scope): SQL {
-  if (scope.homeIds === null) return sql`a.company_id = ${scope.companyId}`;
-  if (scope.homeIds.length === 0) return sql`false`;
-  return sql`a.company_id = ${scope.companyId} and t.home_id = any(string_to_array(${scope.homeIds.join(',')}, ',')::uuid[])`;
-}
+/** The tenancy filter for alerts `a` of tanks `t`; the alert's own company column lets its index serve the list. */
+const alertInScope = (scope: Scope): SQL => sql`a.company_id = ${scope.companyId} and ${scopeWhere(scope)}`;
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
@@ -107,7 +104,7 @@ async function selectAlerts(where: SQL, order: SQL, limit: number, offset: numbe
 }
 
 export async function listAlerts(scope: Scope, f: AlertFilters): Promise<{ items: AlertListItem[]; total: number; page: number; pageSize: number }> {
-  const where: SQL[] = [scopeSql(scope)];
+  const where: SQL[] = [alertInScope(scope)];
   if (f.kind) where.push(sql`a.kind = ${f.kind}`);
   if (f.severity) where.push(sql`a.severity = ${f.severity}`);
   if (f.state === 'active' || f.state === undefined) where.push(sql`a.state <> 'resolved'`);
@@ -123,7 +120,7 @@ export async function listAlerts(scope: Scope, f: AlertFilters): Promise<{ items
 
 export async function getAlert(scope: Scope, id: string): Promise<AlertListItem | null> {
   if (!isUuid(id)) return null;
-  const [r] = await selectAlerts(sql`${scopeSql(scope)} and a.id = ${id}`, sql`a.id`, 1, 0);
+  const [r] = await selectAlerts(sql`${alertInScope(scope)} and a.id = ${id}`, sql`a.id`, 1, 0);
   return r ? toItem(r) : null;
 }
 
@@ -133,7 +130,7 @@ export async function acknowledgeAlerts(scope: Scope, ids: readonly string[], us
   if (valid.length === 0) return [];
   const res = await db().execute<{ id: string }>(sql`
     update alerts a set state = 'acknowledged', acknowledged_at = now(), acknowledged_by = ${userId}, note = coalesce(${note}, a.note), updated_at = now()
-    from tanks t where t.id = a.tank_id and ${scopeSql(scope)} and a.state = 'open' and a.id = any(string_to_array(${valid.join(',')}, ',')::uuid[])
+    from tanks t where t.id = a.tank_id and ${alertInScope(scope)} and a.state = 'open' and a.id = any(string_to_array(${valid.join(',')}, ',')::uuid[])
     returning a.id`);
   return res.rows.map((r) => r.id);
 }
@@ -143,7 +140,7 @@ export async function resolveAlert(scope: Scope, id: string, userId: string, not
   if (!isUuid(id)) return false;
   const res = await db().execute<{ id: string }>(sql`
     update alerts a set state = 'resolved', resolved_at = now(), resolved_by = ${userId}, note = coalesce(${note}, a.note), updated_at = now()
-    from tanks t where t.id = a.tank_id and ${scopeSql(scope)} and a.state <> 'resolved' and a.id = ${id} returning a.id`);
+    from tanks t where t.id = a.tank_id and ${alertInScope(scope)} and a.state <> 'resolved' and a.id = ${id} returning a.id`);
   return res.rows.length > 0;
 }
 
@@ -156,7 +153,7 @@ export async function assignAlert(scope: Scope, id: string, assigneeId: string |
   }
   const res = await db().execute<{ id: string }>(sql`
     update alerts a set assignee_id = ${assigneeId}, updated_at = now() from tanks t
-    where t.id = a.tank_id and ${scopeSql(scope)} and a.id = ${id} returning a.id`);
+    where t.id = a.tank_id and ${alertInScope(scope)} and a.id = ${id} returning a.id`);
   return res.rows.length > 0;
 }
 

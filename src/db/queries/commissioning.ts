@@ -11,7 +11,7 @@ import {
 import type { Scope } from '../../lib/server/authz';
 import type { CommissioningAnswers, StepId } from '../../lib/commissioning/steps';
 import { recordAudit } from './audit';
-import { isUuid } from './scope';
+import { inScope, isUuid } from './scope';
 
 // ---- heat-pump models (kept by admins) ----
 
@@ -85,9 +85,8 @@ export async function getCommissioning(companyId: string, id: string): Promise<C
 /** The signed record of a tank the scope may see (householders: their own homes'), or null. */
 export async function getCommissioningForTank(scope: Scope, tankId: string): Promise<Commissioning | null> {
   if (!isUuid(tankId)) return null;
-  const conds = [eq(commissionings.companyId, scope.companyId), eq(commissionings.tankId, tankId)];
-  if (scope.homeIds !== null) conds.push(scope.homeIds.length ? inArray(commissionings.homeId, [...scope.homeIds]) : sql`false`);
-  const [row] = await db().select().from(commissionings).where(and(...conds));
+  const [row] = await db().select().from(commissionings)
+    .where(and(inScope(scope, commissionings.companyId, commissionings.homeId), eq(commissionings.tankId, tankId)));
   return row ?? null;
 }
 
@@ -254,17 +253,13 @@ export async function insertUpload(values: NewUpload): Promise<Upload> {
 /** An upload the scope may see: the company's, and for householders only their own homes' tanks. */
 export async function findUploadInScope(scope: Scope, id: string): Promise<Upload | null> {
   if (!isUuid(id)) return null;
-  const rows = await db().select({ u: uploads, homeId: tanks.homeId, commissioningHomeId: commissionings.homeId }).from(uploads)
+  // An upload belongs to the home of its tank, or of its commissioning before the tank exists.
+  const home = sql`coalesce(${tanks.homeId}, ${commissionings.homeId})`;
+  const rows = await db().select({ u: uploads }).from(uploads)
     .leftJoin(tanks, eq(tanks.id, uploads.tankId))
     .leftJoin(commissionings, eq(commissionings.id, uploads.commissioningId))
-    .where(and(eq(uploads.id, id), eq(uploads.companyId, scope.companyId)));
-  const r = rows[0];
-  if (!r) return null;
-  if (scope.homeIds !== null) {
-    const home = r.homeId ?? r.commissioningHomeId;
-    if (!home || !scope.homeIds.includes(home)) return null;
-  }
-  return r.u;
+    .where(and(eq(uploads.id, id), inScope(scope, uploads.companyId, home)));
+  return rows[0]?.u ?? null;
 }
 
 export async function listUploads(companyId: string, by: { commissioningId?: string; tankId?: string; visitId?: string }): Promise<Upload[]> {

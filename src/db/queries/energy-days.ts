@@ -1,7 +1,7 @@
 // Named queries of the stored daily energy figures: the energy-day job's queue and writes, and the
 // fleet's figures read from them (never from raw readings).
 import { sql } from 'drizzle-orm';
-import { db } from '..';
+import { db, type Tx } from '..';
 import type { DayEnergy } from '../../lib/energy';
 import type { StoredTariff } from '../../lib/tank-energy/tariff-layers';
 import type { EnergyTankFacts } from '../../lib/tank-energy/inputs';
@@ -9,7 +9,6 @@ import { heatPumpKinds } from '../../lib/heat-sources';
 
 const heatPumpSql = sql.join(heatPumpKinds.map((k) => sql`${k}::heat_source`), sql`, `);
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
 /**
  * Runs `work` in one transaction on up to `limit` queued hours that started before `beforeMs`,

@@ -1,5 +1,5 @@
 import { and, eq } from 'drizzle-orm';
-import { db } from '..';
+import { db, type Tx } from '..';
 import { homes, tankLatestState, tanks, type TankLatestState } from '../schema';
 import type { FiguresQuality } from '../../lib/thermal';
 import type { Scope } from '../../lib/server/authz';
@@ -19,7 +19,6 @@ export async function getHomeInScope(scope: Scope, homeId: string): Promise<Home
 
 export const homeLabel = (h: Pick<HomeSummary, 'reference' | 'addressLine' | 'town'>): string => `${h.addressLine}, ${h.town} (${h.reference})`;
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
 /** A home's own settings: its cold-inlet temperature, °C (null: none set). */
 export async function homeSettings(scope: Scope, homeId: string): Promise<(HomeSummary & { coldInletC: number | null }) | null> {

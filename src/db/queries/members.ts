@@ -1,12 +1,12 @@
 import { and, eq, sql } from 'drizzle-orm';
-import { db } from '..';
+import { db, type Tx } from '..';
 import { memberships, type Role } from '../schema';
 import { recordAudit } from './audit';
 import { endAllUserSessions } from './sessions';
 
 export type MemberChange = { ok: true; from: Role } | { ok: false; reason: 'not_found' | 'last_admin' };
 
-async function adminCount(tx: Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0], companyId: string): Promise<number> {
+async function adminCount(tx: Tx, companyId: string): Promise<number> {
   const [{ n }] = await tx.select({ n: sql<number>`count(*)::int` }).from(memberships)
     .where(and(eq(memberships.companyId, companyId), eq(memberships.role, 'admin')));
   return n;

@@ -1,4 +1,4 @@
-import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { type AnyColumn, and, eq, inArray, type SQL, type SQLWrapper, sql } from 'drizzle-orm';
 import { homes, tanks } from '../schema';
 import type { Scope } from '../../lib/server/authz';
 
@@ -6,18 +6,17 @@ import type { Scope } from '../../lib/server/authz';
  * The tenancy filters, written once: every query that reads or writes company data adds one of
  * these to its WHERE clause, so a record outside the viewer's scope is simply not found.
  */
-export function homeInScope(scope: Scope): SQL {
-  return and(eq(homes.companyId, scope.companyId), homeIdsFilter(scope, homes.id))!;
+export function inScope(scope: Scope, company: AnyColumn, home: AnyColumn | SQLWrapper): SQL {
+  return and(eq(company, scope.companyId), homeIdsFilter(scope, home))!;
 }
 
-export function tankInScope(scope: Scope): SQL {
-  return and(eq(tanks.companyId, scope.companyId), homeIdsFilter(scope, tanks.homeId))!;
-}
+export const homeInScope = (scope: Scope): SQL => inScope(scope, homes.companyId, homes.id);
+export const tankInScope = (scope: Scope): SQL => inScope(scope, tanks.companyId, tanks.homeId);
 
-function homeIdsFilter(scope: Scope, column: typeof homes.id | typeof tanks.homeId): SQL | undefined {
+function homeIdsFilter(scope: Scope, home: AnyColumn | SQLWrapper): SQL | undefined {
   if (scope.homeIds === null) return undefined;
   // A householder linked to no home sees nothing (inArray with an empty list is not valid SQL).
-  return scope.homeIds.length > 0 ? inArray(column, [...scope.homeIds]) : sql`false`;
+  return scope.homeIds.length > 0 ? inArray(home, [...scope.homeIds]) : sql`false`;
 }
 
 /** The same filter in raw SQL, for queries that name the tanks table `t`. */

@@ -1,10 +1,11 @@
 // Named queries of the telemetry pipeline (device lookup, dead letters, latest state, events,
 // readings for charts). The batch writer, which needs COPY and one transaction per batch, lives
 // in src/lib/telemetry/writer.server.ts.
-import { and, asc, desc, eq, gte, inArray, lt, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, lt, sql } from 'drizzle-orm';
 import { db } from '..';
 import { deadLetters, tankLatestState, tanks, telemetryEvents, readings, rollups15m, rollups1h } from '../schema';
 import type { Scope } from '../../lib/server/authz';
+import { isUuid, tankInScope } from './scope';
 
 /** What the ingest side needs to know about a tank. */
 export interface IngestTank {
@@ -38,14 +39,9 @@ export async function findDeviceTokenHash(serial: string): Promise<string | null
 
 /** A tank the viewer may see, or null (outside the company, or a householder's other homes). */
 export async function findTankInScope(scope: Scope, tankId: string): Promise<{ id: string; serial: string; companyId: string; homeId: string | null; targetC: number } | null> {
-  if (!/^[0-9a-f-]{36}$/i.test(tankId)) return null;
-  const conds = [eq(tanks.id, tankId), eq(tanks.companyId, scope.companyId)];
-  if (scope.homeIds !== null) {
-    if (scope.homeIds.length === 0) return null;
-    conds.push(inArray(tanks.homeId, [...scope.homeIds]));
-  }
+  if (!isUuid(tankId)) return null;
   const [row] = await db().select({ id: tanks.id, serial: tanks.serial, companyId: tanks.companyId, homeId: tanks.homeId, targetC: tanks.targetC })
-    .from(tanks).where(and(...conds)).limit(1);
+    .from(tanks).where(and(eq(tanks.id, tankId), tankInScope(scope))).limit(1);
   return row ?? null;
 }
 

@@ -13,6 +13,8 @@ export type Company = typeof companies.$inferSelect;
 
 export const roles = ['admin', 'operator', 'engineer', 'householder'] as const;
 export type Role = (typeof roles)[number];
+/** Everyone of a service company who is not a householder: they see the whole fleet of their company. */
+export const staffRoles = ['admin', 'operator', 'engineer'] as const satisfies readonly Role[];
 export const roleEnum = pgEnum('role', roles);
 
 /** One role per person per company. */

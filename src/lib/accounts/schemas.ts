@@ -1,6 +1,6 @@
-import { z } from 'zod';
+import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
-import { roles } from '../../db/schema/companies';
+import { staffRoles } from '../../db/schema/companies';
 
 /**
  * What people type, validated the same way by the forms and the endpoints. Passwords: at
@@ -16,7 +16,7 @@ export const passwordField = z.string(messages('Choose a password.'))
   .min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
   .max(256, 'Keep the password under 256 characters.');
 
-export const staffRoles = roles.filter((r) => r !== 'householder') as ['admin', 'operator', 'engineer'];
+export { staffRoles };
 export const staffRoleField = z.enum(staffRoles, { error: 'Choose one of the staff roles.' });
 
 export const staffInvitationSchema = z.object({ email: emailField, name: nameField.optional(), role: staffRoleField });

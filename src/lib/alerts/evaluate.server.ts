@@ -1,7 +1,7 @@
 // Evaluating a tank's new readings and the clock inside one transaction per tank: rule state,
 // alert rows and the point evaluated commit together, so each reading is judged once. The rows
 // come from src/db/queries/alert-evaluation.ts; the rules are the engine's.
-import { db } from '../../db';
+import { db, type Tx } from '../../db';
 import { thresholdsFor } from '../../db/queries/alerts';
 import {
   lockAlertTank,
@@ -18,8 +18,6 @@ import type { Reading } from '../telemetry/wire';
 import { evaluateClock, evaluateReadings, type EngineState, type TankFacts, type Transition } from './engine';
 import type { Thresholds } from './thresholds';
 import type { AlertKind } from './types';
-
-type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
 const DAY = 86_400_000;
 /** A tank the rules have never seen is evaluated from this far back at most (the longest rule window and a day). */

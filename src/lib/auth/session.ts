@@ -1,6 +1,7 @@
 import type { AstroCookies } from 'astro';
 import { decode, encode } from '@auth/core/jwt';
 import { createUserSession } from '../../db/queries/sessions';
+import { isUuid } from '../../db/queries/scope';
 import { env } from '../server/env';
 
 /**
@@ -29,7 +30,6 @@ export interface Session {
   sessionId: string;
 }
 
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /** Starts a server-side session for a person signing in; its id goes into the token as `sid`. */
 export function startSession(userId: string): Promise<string> {
@@ -46,7 +46,7 @@ export async function getSession(cookies: AstroCookies, secure: boolean): Promis
   if (!value) return null;
   try {
     const token = await decode({ token: value, secret: authSecret(), salt: name });
-    if (!token?.sub || typeof token.sid !== 'string' || !uuidPattern.test(token.sid)) return null;
+    if (!token?.sub || typeof token.sid !== 'string' || !isUuid(token.sid)) return null;
     return { userId: token.sub, sessionId: token.sid };
   } catch {
     return null;

@@ -6,7 +6,7 @@ import { listCapturedMail, mailDir, type CapturedMail } from './capture';
  * then no message has left the machine and showing them to the company's admin is safe.
  */
 export function capturedMailboxInUse(): boolean {
-  return !process.env.SMTP_URL;
+  return env().MAIL_CAPTURED;
 }
 
 /** Captured messages sent for one company, newest first. */

@@ -1,4 +1,5 @@
 import type { Role } from '../../db/schema/companies';
+import { staffRoles } from '@/db/schema/companies';
 
 /**
  * Who may use each route, by Astro route pattern and HTTP method. Deny by default: a page or
@@ -13,7 +14,7 @@ import type { Role } from '../../db/schema/companies';
 export type AccessRule = 'public' | 'device' | 'signedIn' | readonly Role[];
 export type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 
-const staff = ['admin', 'operator', 'engineer'] as const;
+const staff = staffRoles;
 const desk = ['admin', 'operator'] as const;
 const everyone = ['admin', 'operator', 'engineer', 'householder'] as const;
 

@@ -29,6 +29,16 @@ export interface Scope {
   homeIds: readonly string[] | null;
 }
 
+/**
+ * The tank `find` returns for this id within the scope, or the one 404 every tank route answers:
+ * a tank of another company, or of another householder's home, is simply not there.
+ */
+export async function requireTank<T>(find: (scope: Scope, id: string) => Promise<T | null>, scope: Scope, id: string | undefined): Promise<T> {
+  const tank = id ? await find(scope, id) : null;
+  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank among the ones you can see.');
+  return tank;
+}
+
 export function scopeOf(viewer: Viewer): Scope {
   return { companyId: viewer.companyId, homeIds: viewer.role === 'householder' ? (viewer.homeIds ?? []) : null };
 }

@@ -6,7 +6,7 @@ import {
 import { fleetEnergyFigures, queueDaysForTariff } from '../../db/queries/energy-days';
 import { getLatestState } from '../../db/queries/telemetry';
 import type { TariffRow } from '../../db/schema';
-import { HttpError, type Scope } from '../server/authz';
+import { HttpError, requireTank, type Scope } from '../server/authz';
 import type { Viewer } from '../server/viewer';
 import { sendCommand } from '../telemetry/commands.server';
 import { accountDays, readingWindow } from './account';
@@ -22,15 +22,8 @@ import { json } from '../server/http';
 /** Days of history the planner learns demand from. */
 const DEMAND_HISTORY_DAYS = 14;
 
-/** The tank, or 404 (outside the viewer's scope or no such id): checked before the body is read. */
-export async function tankOr404(scope: Scope, id: string | undefined): Promise<EnergyTank> {
-  const tank = await findEnergyTank(scope, id ?? '');
-  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
-  return tank;
-}
-
 export async function tankEnergy(scope: Scope, tankId: string | undefined, q: EnergyQuery): Promise<EnergyResponse> {
-  const tank = await tankOr404(scope, tankId);
+  const tank = await requireTank(findEnergyTank, scope, tankId);
   const { source, tariffs } = await tariffsForHome(tank.companyId, tank.homeId);
   const w = readingWindow(q.from, q.to, HOME_TIME_ZONE);
   const rows = await listEnergyReadings(tank.id, new Date(w.startMs), new Date(w.endMs));
@@ -52,7 +45,7 @@ export async function tankEnergy(scope: Scope, tankId: string | undefined, q: En
 
 /** A plan for the tank from now, or a refusal naming what is missing. */
 export async function tankPlan(scope: Scope, tankId: string | undefined, body: PlanBody, nowMs = Date.now()): Promise<{ tank: EnergyTank; plan: PlanResponse }> {
-  const tank = await tankOr404(scope, tankId);
+  const tank = await requireTank(findEnergyTank, scope, tankId);
   const latest = await getLatestState(tank.id);
   const layers = latest?.layersCc;
   if (!layers || layers.length === 0) {

@@ -5,18 +5,12 @@ import { listAlerts, thresholdsFor } from '../../db/queries/alerts';
 import { getTank, type TankRecord } from '../../db/queries/tanks';
 import { readingsInRange } from '../../db/queries/readings';
 import type { Thresholds } from '../alerts/thresholds';
-import { HttpError, type Scope } from '../server/authz';
+import { requireTank, type Scope } from '../server/authz';
 import { erpClass } from '../thermal';
 import { analyseTank } from './analysis';
 import { attentionLabels, attentionPriority, statusOf } from './attention';
 import type { AttentionItem, TankAnalysis, TankDetail } from './contracts';
 import { columnFigures, sensorPositions } from './layers';
-
-export async function tankOr404(scope: Scope, id: string): Promise<TankRecord> {
-  const tank = await getTank(scope, id);
-  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank among the ones you can see.');
-  return tank;
-}
 
 /** The 7-day analysis reads a week of raw readings; it changes slowly, so it is kept for a few minutes. */
 const ANALYSIS_TTL_MS = 5 * 60_000;
@@ -48,7 +42,7 @@ async function openAlertsOf(scope: Scope, tankId: string): Promise<AttentionItem
 }
 
 export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> {
-  const tank = await tankOr404(scope, id);
+  const tank = await requireTank(getTank, scope, id);
   const th = await thresholdsFor(scope.companyId);
   const [attention, analysis] = await Promise.all([openAlertsOf(scope, tank.id), analysisFor(tank, th)]);
   const layersC = tank.latest?.layersC ?? [];

@@ -72,7 +72,7 @@ describe('the simulator follows a sent charge plan over a day', () => {
     await db?.end();
   });
 
-  it('heats in the planned windows, outside them only for the controller’s rules, and keeps V40 above the floor', async () => {
+  it('heats in the planned windows, outside them only for the controller’s rules, and heats the store back whenever V40 falls below the floor', async () => {
     const engineer = await signInAs(baseUrl(), 'engineer');
     // A full tank may need nothing for a day at the first floor; then ask for more in reserve.
     let sent: { plan: { windows: { from: string; to: string }[]; comfortFloorL40: number; floorMet: boolean }; command: { id: string } } | null = null;
@@ -100,6 +100,9 @@ describe('the simulator follows a sent charge plan over a day', () => {
     // One simulated day, minute by minute, from where the tank is now.
     let hpInWindows = 0;
     let minV40 = Infinity;
+    // Minutes outside the windows the tank stood below the floor and was still not heating a minute later.
+    let unanswered = 0;
+    let belowFloor = false;
     const outside: { at: number; why: HeatReason | null }[] = [];
     // Each time the comfort floor starts calling for heat, the litres the tank held just before.
     const comfortOnsets: number[] = [];
@@ -120,11 +123,13 @@ describe('the simulator follows a sent charge plan over a day', () => {
           expect(['schedule', 'pasteurisation']).toContain(sim.lastHeat.heatPump);
         } else outside.push({ at: now, why: sim.lastHeat.heatPump });
       }
+      if (belowFloor && !planned && !r.compressor && !sim.lastHeat.immersion) unanswered++;
       if (sim.comfortCalling && !calling) comfortOnsets.push(v40);
       calling = sim.comfortCalling;
       if (sim.lastHeat.immersion) immersionWhy.add(sim.lastHeat.immersion);
       v40 = v40Of(r.layersC);
       minV40 = Math.min(minV40, v40);
+      belowFloor = v40 < floor - 5; // 5 L: sensor noise
     }
 
     expect(hpInWindows).toBeGreaterThan(0);
@@ -137,6 +142,9 @@ describe('the simulator follows a sent charge plan over a day', () => {
     for (const v of comfortOnsets) expect(v).toBeLessThan(floor + COMFORT_START_MARGIN_L + 5); // 5 L: sensor noise
     // The element of a heat-pump cylinder never runs to a schedule: only for the house's peak hours, the floor or pasteurisation.
     for (const why of immersionWhy) expect(['space_heating', 'comfort', 'pasteurisation']).toContain(why);
-    expect(minV40).toBeGreaterThanOrEqual(floor);
+    // A large draw may take the store below the floor for a while (a bath is over 100 L at 40 °C,
+    // EST 2008 "Measurement of domestic hot water consumption", from memory); the controller must
+    // then be heating it back by the next minute outside the windows (inside them the schedule heats).
+    expect(unanswered, `lowest V40 ${minV40.toFixed(0)} L against the floor ${floor} L`).toBe(0);
   }, 120_000);
 });

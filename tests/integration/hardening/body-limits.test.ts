@@ -21,6 +21,7 @@ const jsonRoutes: { pattern: string; method: string; who: Who; path: () => Promi
   { pattern: '/api/commissioning/[id]', method: 'PATCH', who: 'engineer', path: async () => `/api/commissioning/${await draft(p.companyId)}` },
   { pattern: '/api/commissioning/[id]/amendments', method: 'POST', who: 'engineer', path: async () => `/api/commissioning/${await draft(p.companyId)}/amendments` },
   { pattern: '/api/commissioning/heat-pump-models', method: 'POST', who: 'admin', path: async () => '/api/commissioning/heat-pump-models' },
+  { pattern: '/api/homes/[id]', method: 'PATCH', who: 'admin', path: async () => `/api/homes/${p.homeId}` },
   { pattern: '/api/homes/[id]/invitations', method: 'POST', who: 'engineer', path: async () => `/api/homes/${p.homeId}/invitations` },
   { pattern: '/api/invitations', method: 'POST', who: 'admin', path: async () => '/api/invitations' },
   { pattern: '/api/invitations/accept', method: 'POST', who: null, path: async () => '/api/invitations/accept' },

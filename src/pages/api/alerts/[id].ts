@@ -5,12 +5,13 @@ import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
 import { jsonBody } from '../../../lib/server/body';
 import { endpoint } from '../../../lib/server/endpoint';
 import { json } from '../../../lib/server/http';
+import { staffRoles } from '@/db/schema/companies';
 
 const notFound = () => new HttpError(404, 'AlertNotFound', 'No such alert in your company.');
 
 /** GET /api/alerts/{id}: one alert with its evidence and the e-mails sent about it. */
 export const GET = endpoint(async ({ locals, params }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
+  const viewer = requireViewer(locals, staffRoles);
   const alert = await getAlert(scopeOf(viewer), params.id ?? '');
   if (!alert) throw notFound();
   return json({ ...alert, notifications: await notificationsOf(alert.id) });
@@ -18,7 +19,7 @@ export const GET = endpoint(async ({ locals, params }) => {
 
 /** PATCH /api/alerts/{id} { action: 'resolve', note? } | { action: 'assign', assigneeId }. */
 export const PATCH = endpoint(async ({ locals, params, request }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
+  const viewer = requireViewer(locals, staffRoles);
   const scope = scopeOf(viewer);
   const body = await jsonBody(request, alertActionSchema);
   const id = params.id ?? '';

@@ -1,18 +1,19 @@
 import { randomUUID } from 'node:crypto';
 import { getCommissioning, insertUpload } from '../../../db/queries/commissioning';
 import { findTankInScope } from '../../../db/queries/telemetry';
-import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
+import { HttpError, requireTank, requireViewer, scopeOf } from '../../../lib/server/authz';
 import { endpoint } from '../../../lib/server/endpoint';
 import { json } from '../../../lib/server/http';
 import { MAX_UPLOAD_BYTES, prepareUpload, tooLarge } from '../../../lib/storage/files.server';
 import { putObject } from '../../../lib/storage/objects.server';
+import { staffRoles } from '@/db/schema/companies';
 
 /**
  * Uploads one photo or document (multipart form: `file`, and `commissioningId` or `tankId`).
  * Checked by content, photos downscaled, stored through the S3 API under the company's prefix.
  */
 export const POST = endpoint(async ({ locals, request }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
+  const viewer = requireViewer(locals, staffRoles);
   // Refuse an oversized body before reading it (room for the form's own fields).
   const declared = Number(request.headers.get('content-length') ?? 'NaN');
   if (Number.isFinite(declared) && declared > MAX_UPLOAD_BYTES + 64 * 1024) throw tooLarge('The file', declared);
@@ -33,8 +34,8 @@ export const POST = endpoint(async ({ locals, request }) => {
     if (!c) throw new HttpError(404, 'NotFound', 'There is no such commissioning record.');
     if (c.status === 'signed') throw new HttpError(409, 'RecordLocked', 'This commissioning record is signed and locked. Add the photo to the tank’s service history instead.');
     tankId = c.tankId;
-  } else if (!(await findTankInScope(scopeOf(viewer), tankId!))) {
-    throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
+  } else {
+    await requireTank(findTankInScope, scopeOf(viewer), tankId!);
   }
 
   const prepared = await prepareUpload(file.name, Buffer.from(await file.arrayBuffer()));

@@ -3,10 +3,11 @@ import { findTankInScope } from '../../../db/queries/telemetry';
 import { createVisit, listInspectionsDue } from '../../../db/queries/visits';
 import { DUE_SOON_DAYS, dueState } from '../../../lib/commissioning/service-due';
 import { visitSchema } from '../../../lib/commissioning/visit-form';
-import { HttpError, requireViewer, scopeOf } from '../../../lib/server/authz';
+import { HttpError, requireTank, requireViewer, scopeOf } from '../../../lib/server/authz';
 import { jsonBody } from '../../../lib/server/body';
 import { endpoint } from '../../../lib/server/endpoint';
 import { json } from '../../../lib/server/http';
+import { staffRoles } from '@/db/schema/companies';
 
 /** Annual inspections overdue or due within the next days (default 30), most overdue first. */
 export const GET = endpoint(async ({ locals, url }) => {
@@ -19,10 +20,9 @@ export const GET = endpoint(async ({ locals, url }) => {
 
 /** Records a service visit: findings, parts, readings, resolved alerts and photos already uploaded. */
 export const POST = endpoint(async ({ locals, request }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
+  const viewer = requireViewer(locals, staffRoles);
   const input = await jsonBody(request, visitSchema);
-  const tank = await findTankInScope(scopeOf(viewer), input.tankId);
-  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
+  const tank = await requireTank(findTankInScope, scopeOf(viewer), input.tankId);
   // The tank's own layers at the time, kept with the engineer's readings.
   const t = await latestTelemetry(tank.id);
   const readings = { ...input.readings, ...(t ? { telemetryLayersC: t.layersC, telemetryAt: t.ts.toISOString() } : {}) };

@@ -1,22 +1,15 @@
 import { listCommands } from '../../../../db/queries/commands';
 import { findTankInScope } from '../../../../db/queries/telemetry';
-import { HttpError, requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { HttpError, requireTank, requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { jsonBody } from '../../../../lib/server/body';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
 import { sendCommand } from '../../../../lib/telemetry/commands.server';
 import { commandRequestSchema } from '../../../../lib/telemetry/wire';
 
-async function tankFor(locals: App.Locals, id: string | undefined) {
-  const viewer = requireViewer(locals);
-  const tank = await findTankInScope(scopeOf(viewer), id ?? '');
-  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
-  return { viewer, tank };
-}
-
 /** GET /api/tanks/{id}/commands: the tank's recent commands and how far each got. */
 export const GET = endpoint(async ({ locals, params }) => {
-  const { tank } = await tankFor(locals, params.id);
+  const tank = await requireTank(findTankInScope, scopeOf(requireViewer(locals)), params.id);
   return json({ commands: await listCommands(tank.id) });
 });
 
@@ -26,7 +19,8 @@ export const GET = endpoint(async ({ locals, params }) => {
  * and schedule their own tank; the storage target is for staff (it matters for legionella control).
  */
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const { viewer, tank } = await tankFor(locals, params.id);
+  const viewer = requireViewer(locals);
+  const tank = await requireTank(findTankInScope, scopeOf(viewer), params.id);
   const command = await jsonBody(request, commandRequestSchema);
   if (command.kind === 'set_target' && viewer.role === 'householder') {
     throw new HttpError(403, 'NotAllowedForRole', 'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.');

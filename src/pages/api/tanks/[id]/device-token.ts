@@ -1,5 +1,5 @@
 import { findTankInScope } from '../../../../db/queries/telemetry';
-import { HttpError, requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { requireTank, requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
 import { rotateDeviceToken } from '../../../../lib/telemetry/commands.server';
@@ -11,8 +11,7 @@ import { topicFor } from '../../../../lib/telemetry/wire';
  */
 export const POST = endpoint(async ({ locals, params }) => {
   const viewer = requireViewer(locals, ['admin']);
-  const tank = await findTankInScope(scopeOf(viewer), params.id ?? '');
-  if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank.');
+  const tank = await requireTank(findTankInScope, scopeOf(viewer), params.id);
   const { token, issuedAt } = await rotateDeviceToken({ tank, actorUserId: viewer.userId });
   return json({
     serial: tank.serial,

@@ -1,16 +1,17 @@
 import { thresholdsFor } from '../../../../db/queries/alerts';
 import { commandsInRange, eventsInRange } from '../../../../db/queries/readings';
-import { requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { requireTank, requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/http';
 import { eventsQuerySchema, searchParams, type EventsResponse, type TimelineEvent } from '../../../../lib/views/contracts';
 import { markShortCycles } from '../../../../lib/views/timeline';
-import { tankOr404 } from '../../../../lib/views/tank-detail.server';
+import { getTank } from '../../../../db/queries/tanks';
+import { staffRoles } from '@/db/schema/companies';
 
 /** GET /api/tanks/{id}/events?from&to: compressor and immersion runs, draws and commands, oldest first. */
 export const GET = endpoint(async ({ locals, params, url }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
-  const tank = await tankOr404(scopeOf(viewer), params.id ?? '');
+  const viewer = requireViewer(locals, staffRoles);
+  const tank = await requireTank(getTank, scopeOf(viewer), params.id);
   const { from, to } = eventsQuerySchema.parse(searchParams(url));
   const [{ rows, startBefore }, commands, th] = await Promise.all([eventsInRange(tank.id, from, to), commandsInRange(tank.id, from, to), thresholdsFor(viewer.companyId)]);
   // Starts marked with the gap the short-cycling alert uses (the company's setting).

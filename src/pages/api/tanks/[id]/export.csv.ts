@@ -1,17 +1,18 @@
 import contentDisposition from 'content-disposition';
 import { readingsInRange } from '../../../../db/queries/readings';
-import { requireViewer, scopeOf } from '../../../../lib/server/authz';
+import { requireTank, requireViewer, scopeOf } from '../../../../lib/server/authz';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { rangeQuerySchema, searchParams } from '../../../../lib/views/contracts';
 import { readingsCsv } from '../../../../lib/views/csv';
 import { sensorPositions } from '../../../../lib/views/layers';
 import { toSeries } from '../../../../lib/views/series';
-import { tankOr404 } from '../../../../lib/views/tank-detail.server';
+import { getTank } from '../../../../db/queries/tanks';
+import { staffRoles } from '@/db/schema/companies';
 
 /** GET /api/tanks/{id}/export.csv?from&to&resolution: the same range as the readings API, as CSV. */
 export const GET = endpoint(async ({ locals, params, url }) => {
-  const viewer = requireViewer(locals, ['admin', 'operator', 'engineer']);
-  const tank = await tankOr404(scopeOf(viewer), params.id ?? '');
+  const viewer = requireViewer(locals, staffRoles);
+  const tank = await requireTank(getTank, scopeOf(viewer), params.id);
   const range = rangeQuerySchema.parse(searchParams(url));
   const rows = await readingsInRange(tank.id, range.from, range.to, range.resolution);
   const series = toSeries(rows, { ...tank, positionsM: sensorPositions(tank.sensorCount, tank.heightM, tank.sensorHeightsM) }, range);
