@@ -1,9 +1,9 @@
 // Named queries of the telemetry pipeline (device lookup, dead letters, latest state, events,
 // readings for charts). The batch writer, which needs COPY and one transaction per batch, lives
 // in src/lib/telemetry/writer.server.ts.
-import { and, asc, desc, eq, gte, lt, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { db } from '..';
-import { deadLetters, tankLatestState, tanks, telemetryEvents, readings, rollups15m, rollups1h } from '../schema';
+import { deadLetters, tankLatestState, tanks, } from '../schema';
 import type { Scope } from '../../lib/server/authz';
 import { isUuid, tankInScope } from './scope';
 
@@ -74,10 +74,6 @@ export async function insertDeadLetters(rows: readonly DeadLetterInput[]): Promi
   })));
 }
 
-export async function listDeadLetters(tankId: string, limit = 50) {
-  return db().select().from(deadLetters).where(eq(deadLetters.tankId, tankId)).orderBy(desc(deadLetters.receivedAt), desc(deadLetters.id)).limit(limit);
-}
-
 /** Online/offline from the retained status topic. */
 export async function recordTankStatus(tankId: string, online: boolean, at: Date): Promise<void> {
   await db().insert(tankLatestState).values({ tankId, online, statusAt: at, lastSeenAt: at })
@@ -89,20 +85,3 @@ export async function getLatestState(tankId: string) {
   return row ?? null;
 }
 
-export async function listEvents(tankId: string, from: Date, to: Date) {
-  return db().select().from(telemetryEvents)
-    .where(and(eq(telemetryEvents.tankId, tankId), gte(telemetryEvents.startedAt, from), lt(telemetryEvents.startedAt, to)))
-    .orderBy(asc(telemetryEvents.startedAt));
-}
-
-export async function listReadings(tankId: string, from: Date, to: Date) {
-  return db().select().from(readings)
-    .where(and(eq(readings.tankId, tankId), gte(readings.ts, from), lt(readings.ts, to)))
-    .orderBy(asc(readings.ts));
-}
-
-/** Aggregates for long chart ranges: 15-minute buckets, or hourly ones. */
-export async function listRollups(tankId: string, resolution: '15m' | '1h', from: Date, to: Date) {
-  const t = resolution === '15m' ? rollups15m : rollups1h;
-  return db().select().from(t).where(and(eq(t.tankId, tankId), gte(t.bucket, from), lt(t.bucket, to))).orderBy(asc(t.bucket));
-}
