@@ -3,39 +3,9 @@
 // Units everywhere: energy kWh, power W, prices pence per kWh (p/kWh), money pence, volumes litres
 // (demand and V40 as litres of mixed water at 40 °C), times epoch ms (UTC), temperatures °C.
 export { EnergyInputError } from './errors.js';
-export { HALF_HOUR_MS, PENCE_PER_POUND, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
-export {
-  zoneOffsetMs,
-  localMinuteOfDay,
-  localHourOfWeek,
-  localDate,
-  localDayBounds,
-  isTimeZone,
-} from './local-time.js';
-
-export {
-  priceUnits,
-  MAX_PRICE_PENCE,
-  MIN_NEGATIVE_PRICE_PENCE,
-  pencePerUnit,
-  flatTariffInput,
-  dayNightTariffInput,
-  tariffInput,
-  parseTariff,
-  priceAt,
-  importPriceSeries,
-} from './tariff.js';
-export type {
-  PriceUnit,
-  FlatTariff,
-  DayNightTariff,
-  HalfHourlyTariff,
-  Tariff,
-  TariffLayers,
-  Tariffs,
-  Price,
-  FieldError,
-} from './tariff.js';
+// The browser-safe part (units, the home's clock, tariff schemas and prices), then what only the server uses.
+export * from './browser.js';
+export { MIN_NEGATIVE_PRICE_PENCE, pencePerUnit, importPriceSeries } from './tariff.js';
 export { parseHalfHourlyCsv, MAX_CSV_ROWS } from './tariff-csv.js';
 export type { TariffRowError, HalfHourlyCsvOptions } from './tariff-csv.js';
 
