@@ -1,4 +1,10 @@
-import { useState, type FormEvent } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { z } from '@/lib/zod';
+import { fetchJson } from '../lib/query/client';
+import { Field, Form, Saved, Select } from './form/fields';
+import { showServerErrors } from './form/server-errors';
 
 /**
  * A form that sends its fields as JSON to one of our endpoints and shows the answer: the
@@ -33,69 +39,59 @@ interface Props {
   inline?: boolean;
 }
 
-interface Problem { error?: { message?: string; fields?: { field: string; message: string }[] }; message?: string; redirect?: string }
+type Values = Record<string, string>;
+
+/** What the browser can check before sending: required fields and the shape of an e-mail address. The server checks the rest. */
+function specSchema(fields: FieldSpec[]) {
+  return z.object(
+    Object.fromEntries(
+      fields.map((f) => {
+        let s = z.string().trim();
+        if (f.required) s = s.min(1, `${f.label} must be given.`);
+        const field = f.type === 'email' ? s.refine((v) => v === '' || /^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(v), `${f.label} must be an e-mail address (name@example.com).`) : s;
+        return [f.name, field];
+      }),
+    ),
+  );
+}
 
 export default function JsonForm({ action, method = 'POST', fields, hidden = {}, submitLabel, successMessage, reload, confirm, tone = 'primary', inline }: Props) {
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState<string | null>(null);
-  const [fieldErrors, setFieldErrors] = useState<Record<string, string>>({});
   const [done, setDone] = useState<string | null>(null);
+  const form = useForm<Values>({
+    defaultValues: Object.fromEntries(fields.map((f) => [f.name, f.defaultValue ?? (f.type === 'select' ? (f.options?.[0]?.value ?? '') : '')])),
+    resolver: zodResolver(specSchema(fields), undefined, { raw: true }),
+  });
 
-  async function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
+  async function submit(values: Values) {
     if (confirm && !window.confirm(confirm)) return;
-    const form = e.currentTarget;
+    setDone(null);
     const body: Record<string, string> = { ...hidden };
-    for (const f of fields) {
-      const v = (form.elements.namedItem(f.name) as HTMLInputElement | HTMLSelectElement | null)?.value ?? '';
-      if (v !== '' || f.required) body[f.name] = v;
-    }
-    setBusy(true); setError(null); setFieldErrors({}); setDone(null);
+    for (const f of fields) if (values[f.name] !== '' || f.required) body[f.name] = values[f.name] ?? '';
     try {
-      const res = await fetch(action, { method, headers: { 'content-type': 'application/json' }, body: method === 'DELETE' ? undefined : JSON.stringify(body) });
-      const answer: Problem = res.status === 204 ? {} : await res.json().catch(() => ({}));
-      if (!res.ok) {
-        setError(answer.error?.message ?? `The server answered ${res.status}. Please try again.`);
-        setFieldErrors(Object.fromEntries((answer.error?.fields ?? []).map((f) => [f.field, f.message])));
-        return;
-      }
-      if (answer.redirect) { window.location.assign(answer.redirect); return; }
-      if (reload) { window.location.reload(); return; }
+      const answer = await fetchJson<{ message?: string; redirect?: string } | null>(action, { method, body: method === 'DELETE' ? undefined : JSON.stringify(body) });
+      if (answer?.redirect) return window.location.assign(answer.redirect);
+      if (reload) return window.location.reload();
       form.reset();
-      setDone(answer.message ?? successMessage ?? 'Done.');
-    } catch {
-      setError('Could not reach Heatlayer. Check your connection and try again.');
-    } finally {
-      setBusy(false);
+      setDone(answer?.message ?? successMessage ?? 'Done.');
+    } catch (err) {
+      showServerErrors(form, err);
     }
   }
 
   const button = tone === 'primary' ? 'btn-primary' : 'btn-quiet';
   return (
-    <form method="post" onSubmit={submit} noValidate className={inline ? 'flex flex-wrap items-end gap-2' : 'space-y-4'}>
-      {error && <p role="alert" className="w-full rounded-md border border-brick bg-brick-pale px-3 py-2 text-sm text-brick">{error}</p>}
-      {done && <p role="status" className="w-full rounded-md border border-tide bg-tide-pale px-3 py-2 text-sm text-tide-deep">{done}</p>}
-      {fields.map((f) => {
-        const id = `${action.replace(/\W+/g, '-')}-${f.name}`;
-        const err = fieldErrors[f.name];
-        const describedBy = [f.hint ? `${id}-hint` : '', err ? `${id}-error` : ''].filter(Boolean).join(' ') || undefined;
-        return (
-          <div key={f.name} className={inline ? '' : undefined}>
-            <label htmlFor={id} className={inline ? 'sr-only' : 'label'}>{f.label}</label>
-            {f.type === 'select' ? (
-              <select id={id} name={f.name} defaultValue={f.defaultValue} required={f.required} aria-invalid={!!err} aria-describedby={describedBy} className="field">
-                {f.options?.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
-              </select>
-            ) : (
-              <input id={id} name={f.name} type={f.type ?? 'text'} defaultValue={f.defaultValue} required={f.required} autoComplete={f.autoComplete}
-                aria-invalid={!!err} aria-describedby={describedBy} className="field" />
-            )}
-            {f.hint && <p id={`${id}-hint`} className="mt-1 text-xs text-ink-muted">{f.hint}</p>}
-            {err && <p id={`${id}-error`} className="mt-1 text-sm text-brick">{err}</p>}
-          </div>
-        );
-      })}
-      <button type="submit" disabled={busy} className={`${button} ${inline ? '' : 'w-full'}`}>{busy ? 'Sending…' : submitLabel}</button>
-    </form>
+    <Form form={form} onSubmit={submit} scope={action.replace(/\W+/g, '-')} className={inline ? 'flex flex-wrap items-end gap-2' : 'space-y-4'}>
+      {done && <Saved>{done}</Saved>}
+      {fields.map((f) =>
+        f.type === 'select' ? (
+          <Select key={f.name} name={f.name} label={f.label} options={f.options ?? []} hint={f.hint} choose={null} quietLabel={inline} className={inline ? '' : undefined} />
+        ) : (
+          <Field key={f.name} name={f.name} label={f.label} type={f.type ?? 'text'} autoComplete={f.autoComplete} hint={f.hint} quietLabel={inline} className={inline ? '' : undefined} />
+        ),
+      )}
+      <button type="submit" disabled={form.formState.isSubmitting} className={`${button} ${inline ? '' : 'w-full'}`}>
+        {form.formState.isSubmitting ? 'Sending…' : submitLabel}
+      </button>
+    </Form>
   );
 }

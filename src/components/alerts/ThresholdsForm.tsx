@@ -1,58 +1,52 @@
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation } from '@tanstack/react-query';
-import { useState } from 'react';
-import { ApiError, fetchJson } from '../../lib/query/client';
+import { useForm } from 'react-hook-form';
+import { z } from '@/lib/zod';
+import { type ThresholdKey, type Thresholds, thresholdChanges, thresholdFields, thresholdOverridesSchema } from '../../lib/alerts/thresholds';
+import { alertKinds, alertLabels, alertSeverities, severityLabels } from '../../lib/alerts/types';
+import { fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
-import { thresholdFields, type ThresholdKey, type Thresholds } from '../../lib/alerts/thresholds';
-import { alertKinds, alertLabels, alertSeverities, severityLabels, type AlertKind, type AlertSeverity } from '../../lib/alerts/types';
+import { Field, Form, Saved, Select } from '../form/fields';
+import { showServerErrors } from '../form/server-errors';
 
 interface Props { overrides: Record<string, unknown>; effective: Thresholds }
+type Typed = Record<string, unknown>;
 const keys = Object.keys(thresholdFields) as ThresholdKey[];
+const severityOptions = alertSeverities.map((s) => ({ value: s, label: `${severityLabels[s]}${s === 'critical' ? ' (e-mailed at once)' : ' (daily digest)'}` }));
 
 /** The company's alert thresholds: each field shows its default and where it comes from; only changed values are stored. */
 function ThresholdsForm({ overrides, effective }: Props) {
-  const [values, setValues] = useState<Record<string, string>>(Object.fromEntries(keys.map((k) => [k, String(effective[k])])));
-  const [severity, setSeverity] = useState<Record<AlertKind, AlertSeverity>>(effective.severity);
-  const [saved, setSaved] = useState(false);
-  const save = useMutation({
-    mutationFn: () => {
-      const body: Record<string, unknown> = {};
-      for (const k of keys) if (Number(values[k]) !== thresholdFields[k].default || k in overrides) body[k] = values[k] === '' ? values[k] : Number(values[k]);
-      body.severity = severity;
-      return fetchJson('/api/alerts/thresholds', { method: 'PUT', body: JSON.stringify(body) });
-    },
-    onSuccess: () => setSaved(true),
+  const form = useForm<Typed, unknown, Record<string, unknown>>({
+    defaultValues: { ...Object.fromEntries(keys.map((k) => [k, String(effective[k])])), severity: effective.severity },
+    // The API's own schema, on what the form would send.
+    resolver: zodResolver(z.record(z.string(), z.unknown()).transform((v) => thresholdChanges(v, overrides)).pipe(thresholdOverridesSchema)),
   });
-  const fieldErrors = save.error instanceof ApiError ? Object.fromEntries((save.error.fields ?? []).map((f) => [f.field, f.message])) : {};
+  const save = useMutation({
+    mutationFn: (body: Record<string, unknown>) => fetchJson('/api/alerts/thresholds', { method: 'PUT', body: JSON.stringify(body) }),
+    onError: (err) => showServerErrors(form, err),
+  });
+
   return (
-    <form method="post" className="space-y-6" onSubmit={(e) => { e.preventDefault(); setSaved(false); save.mutate(); }}>
+    <Form form={form} onSubmit={(body) => { save.reset(); return save.mutateAsync(body).catch(() => undefined); }} className="space-y-6">
       {alertKinds.map((kind) => (
         <fieldset key={kind} className="card space-y-3">
           <legend className="px-1 text-lg font-semibold">{alertLabels[kind]}</legend>
           <div className="max-w-xs">
-            <label className="label" htmlFor={`sev-${kind}`}>Severity</label>
-            <select id={`sev-${kind}`} className="field py-1.5 text-sm" value={severity[kind]} onChange={(e) => setSeverity({ ...severity, [kind]: e.target.value as AlertSeverity })}>
-              {alertSeverities.map((s) => <option key={s} value={s}>{severityLabels[s]}{s === 'critical' ? ' (e-mailed at once)' : ' (daily digest)'}</option>)}
-            </select>
+            <Select name={`severity.${kind}`} label="Severity" options={severityOptions} choose={null} />
           </div>
           <div className="grid gap-3 md:grid-cols-2">
-            {keys.filter((k) => thresholdFields[k].group === kind).map((k) => (
-              <div key={k}>
-                <label className="label" htmlFor={`th-${k}`}>{thresholdFields[k].label} ({thresholdFields[k].unit})</label>
-                <input id={`th-${k}`} name={k} className="field figure py-1.5" inputMode="decimal" value={values[k]} aria-invalid={fieldErrors[k] ? true : undefined}
-                  aria-describedby={`src-${k}`} onChange={(e) => setValues({ ...values, [k]: e.target.value })} />
-                <p id={`src-${k}`} className="mt-1 text-xs text-ink-muted">Default {thresholdFields[k].default} {thresholdFields[k].unit}: {thresholdFields[k].source}.</p>
-                {fieldErrors[k] && <p className="mt-1 text-sm text-brick">{fieldErrors[k]}</p>}
-              </div>
-            ))}
+            {keys.filter((k) => thresholdFields[k].group === kind).map((k) => {
+              const t = thresholdFields[k];
+              return <Field key={k} name={k} label={t.label} unit={t.unit} type="number" hint={`Default ${t.default} ${t.unit}: ${t.source}.`} />;
+            })}
           </div>
         </fieldset>
       ))}
       <div className="flex items-center gap-3">
         <button type="submit" className="btn-primary" disabled={save.isPending}>Save thresholds</button>
-        {saved && <span role="status" className="text-sm text-tide-deep">Saved. The rules use them from their next evaluation.</span>}
-        {save.error && <span role="alert" className="text-sm text-brick">{save.error instanceof ApiError ? save.error.message : 'Could not save.'}</span>}
+        {save.isSuccess && <Saved>Saved. The rules use them from their next evaluation.</Saved>}
       </div>
-    </form>
+    </Form>
   );
 }
 

@@ -1,20 +1,24 @@
 // The engineer's commissioning wizard: one step at a time, saved as a draft at every step so it
 // can be left and resumed (on another device too); the server validates every save.
 import { useQuery } from '@tanstack/react-query';
-import { useCallback, useEffect, useState } from 'react';
+import { useEffect, useState } from 'react';
+import { useForm } from 'react-hook-form';
 import { LEGIONELLA_GUIDANCE, SCALD_CAUTION, UNVENTED_CAUTION, ELECTRICAL_CAUTION } from '../../lib/commissioning/cautions';
 import { hasHeatPump, heatSourceDescriptions, heatSourceKinds, isHeatSource } from '../../lib/heat-sources';
 import {
   exchangerLabels, exchangers, LEGIONELLA_STORE_C, safetyItems, stepIds, stepTitles, type StepId,
 } from '../../lib/commissioning/steps';
-import { ApiError, fetchJson } from '../../lib/query/client';
+import { fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
 import { ConnectionCheck } from './ConnectionCheck';
-import { Caution, Check, Field, Problem, Select, type Errors, type Values } from './fields';
+import { Check, Field, Form, Select } from '../form/fields';
+import { showServerErrors } from '../form/server-errors';
+import { Caution } from '../ui/States';
 import { SerialScanner } from './SerialScanner';
 import { ThermistorPanel } from './ThermistorPanel';
 import { UploadPanel, type UploadItem } from './UploadPanel';
 
+type Values = Record<string, unknown>;
 interface HeatPumpModel { id: string; name: string; outputW: number; ntcR25Ohm: number; ntcBetaK: number }
 interface Props { id: string; step: StepId; data: Record<string, Values>; uploads: UploadItem[]; registered: boolean; received: boolean }
 
@@ -29,10 +33,8 @@ function defaults(step: StepId, data: Record<string, Values>): Values {
 function Wizard(props: Props) {
   const [step, setStep] = useState<StepId>(props.step);
   const [data, setData] = useState<Record<string, Values>>(props.data);
-  const [values, setValues] = useState<Values>(() => ({ ...defaults(props.step, props.data), ...props.data[props.step] }));
-  const [errors, setErrors] = useState<Errors>({});
-  const [problem, setProblem] = useState<{ message: string; fields?: { field: string; message: string }[] } | null>(null);
-  const [busy, setBusy] = useState(false);
+  const form = useForm<Values>({ defaultValues: { ...defaults(props.step, props.data), ...props.data[props.step] } });
+  const values = form.watch();
   const [received, setReceived] = useState(props.received);
   const [signed, setSigned] = useState<{ pdf: string } | null>(null);
   const [uploads, setUploads] = useState<UploadItem[]>(props.uploads);
@@ -40,38 +42,35 @@ function Wizard(props: Props) {
   // On a phone the step list scrolls sideways: keep the current step in view.
   // biome-ignore lint/correctness/useExhaustiveDependencies: runs when the step changes, to scroll the new step into view
   useEffect(() => { document.querySelector('[aria-current="step"]')?.scrollIntoView({ block: 'nearest', inline: 'center' }); }, [step]);
-  const change = useCallback((name: string, value: unknown) => setValues((v) => ({ ...v, [name]: value })), []);
-  const go = (to: StepId) => { setStep(to); setValues({ ...defaults(to, data), ...data[to] }); setErrors({}); setProblem(null); window.scrollTo?.(0, 0); };
+  const open = (to: StepId, from: Record<string, Values>) => { setStep(to); form.reset({ ...defaults(to, from), ...from[to] }); window.scrollTo?.(0, 0); };
+  const go = (to: StepId) => open(to, data);
 
-  function showProblem(err: unknown) {
-    if (err instanceof ApiError) {
-      const mine = Object.fromEntries((err.fields ?? []).filter((f) => f.field.startsWith(`${step}.`)).map((f) => [f.field.slice(step.length + 1), f.message]));
-      setErrors(mine);
-      setProblem({ message: err.message, fields: (err.fields ?? []).filter((f) => !f.field.startsWith(`${step}.`)) });
-    } else setProblem({ message: 'Could not reach Heatlayer. Your answers are still here; try again when the connection is back.' });
-  }
-
-  async function save() {
-    setBusy(true); setErrors({}); setProblem(null);
+  // Each step is checked by the server, which also sees the earlier steps (a coil source needs a coil cylinder).
+  async function submit(v: Values) {
     try {
-      const r = await fetchJson<{ step: StepId; data: Record<string, Values> }>(`/api/commissioning/${props.id}`, { method: 'PATCH', body: JSON.stringify({ step, values }) });
+      const r = await fetchJson<{ step: StepId; data: Record<string, Values> }>(`/api/commissioning/${props.id}`, { method: 'PATCH', body: JSON.stringify({ step, values: v }) });
       setData(r.data);
+      if (step === 'signoff') {
+        setSigned(await fetchJson<{ pdf: string }>(`/api/commissioning/${props.id}/sign-off`, { method: 'POST', body: '{}' }));
+        return;
+      }
       const next = stepIds[stepIds.indexOf(step) + 1];
-      if (next) { setStep(next); setValues({ ...defaults(next, r.data), ...r.data[next] }); window.scrollTo?.(0, 0); }
-    } catch (err) { showProblem(err); } finally { setBusy(false); }
-  }
-
-  async function signOff() {
-    setBusy(true); setProblem(null);
-    try {
-      await fetchJson(`/api/commissioning/${props.id}`, { method: 'PATCH', body: JSON.stringify({ step, values }) });
-      const r = await fetchJson<{ pdf: string }>(`/api/commissioning/${props.id}/sign-off`, { method: 'POST', body: '{}' });
-      setSigned(r);
-    } catch (err) { showProblem(err); } finally { setBusy(false); }
+      if (next) open(next, r.data);
+    } catch (err) {
+      showServerErrors(form, err, { prefix: `${step}.` });
+    }
   }
 
   const models = useQuery({ queryKey: ['heat-pump-models'], queryFn: () => fetchJson<{ models: HeatPumpModel[] }>('/api/commissioning/heat-pump-models'), enabled: step === 'heat_source' });
-  const f = { values, errors, onChange: change };
+  // A model chosen from the company's list brings its output and sensor curve with it.
+  const modelId = values.heatPumpModelId;
+  useEffect(() => {
+    if (!modelId) return;
+    const m = models.data?.models.find((x) => x.id === modelId);
+    if (!m) return form.setValue('heatPumpName', '');
+    for (const [k, v] of Object.entries({ ntcR25Ohm: m.ntcR25Ohm, ntcBetaK: m.ntcBetaK, hpOutputW: m.outputW, heatPumpName: m.name })) form.setValue(k, v);
+  }, [modelId, models.data, form]);
+  const busy = form.formState.isSubmitting;
   const index = stepIds.indexOf(step);
 
   if (signed) {
@@ -99,60 +98,55 @@ function Wizard(props: Props) {
         </ol>
       </nav>
 
-      <form method="post" className="card min-w-0 space-y-5" noValidate onSubmit={(e) => { e.preventDefault(); if (step === 'signoff') void signOff(); else void save(); }}>
+      <Form form={form} onSubmit={submit} className="card min-w-0 space-y-5">
         <header>
           <p className="text-sm text-ink-muted">Step {index + 1} of {stepIds.length} · saved as a draft at every step</p>
           <h2 className="text-xl font-semibold">{stepTitles[step]}</h2>
         </header>
-        {problem && <Problem message={problem.message} fields={problem.fields} />}
 
         {step === 'home' && (
           <div className="grid gap-4 sm:grid-cols-2">
-            <div className="sm:col-span-2"><Field name="addressLine" label="Address" autoComplete="street-address" {...f} /></div>
-            <Field name="town" label="Town" {...f} />
-            <Field name="postcode" label="Postcode" {...f} />
-            <Field name="occupants" label="People living there" type="number" inputMode="numeric" {...f} />
-            <Field name="contactName" label="Householder’s name" autoComplete="name" {...f} />
-            <Field name="contactEmail" label="Householder’s e-mail" type="email" autoComplete="email" {...f} />
-            <Field name="contactPhone" label="Householder’s telephone (optional)" type="tel" {...f} />
+            <div className="sm:col-span-2"><Field name="addressLine" label="Address" autoComplete="street-address" /></div>
+            <Field name="town" label="Town" />
+            <Field name="postcode" label="Postcode" />
+            <Field name="occupants" label="People living there" type="number" inputMode="numeric" />
+            <Field name="contactName" label="Householder’s name" autoComplete="name" />
+            <Field name="contactEmail" label="Householder’s e-mail" type="email" autoComplete="email" />
+            <Field name="contactPhone" label="Householder’s telephone (optional)" type="tel" />
           </div>
         )}
 
         {step === 'cylinder' && (
           <div className="grid gap-4 sm:grid-cols-2">
             <div className="sm:col-span-2 space-y-2">
-              <Field name="serial" label="Serial number" hint="Typed from the data plate, or scanned from its barcode or QR code." {...f} />
-              <SerialScanner onSerial={(s) => change('serial', s)} />
+              <Field name="serial" label="Serial number" hint="Typed from the data plate, or scanned from its barcode or QR code." />
+              <SerialScanner onSerial={(s) => form.setValue('serial', s, { shouldDirty: true })} />
             </div>
-            <Field name="model" label="Cylinder model" {...f} />
-            <Field name="volumeL" label="Volume" unit="L" type="number" inputMode="numeric" {...f} />
-            <Field name="heightM" label="Height" unit="m" type="number" {...f} />
-            <Field name="sensorCount" label="Temperature sensors" type="number" inputMode="numeric" {...f} />
-            <div className="sm:col-span-2"><Field name="sensorHeightsM" label="Sensor heights above the bottom, bottom to top (optional)" unit="m" hint="Comma-separated, e.g. 0.1, 0.25, 0.4 … Leave empty when the sensors are evenly spaced." {...f} /></div>
-            <Select name="exchanger" label="Heat exchanger" options={exchangers.map((x) => ({ value: x, label: exchangerLabels[x] }))} {...f} />
-            <Field name="immersionW" label="Immersion rating" unit="W" type="number" inputMode="numeric" {...f} />
-            <Field name="declaredLossW" label="Declared standing loss (optional)" unit="W" type="number" hint="From the cylinder’s energy label or data sheet." {...f} />
+            <Field name="model" label="Cylinder model" />
+            <Field name="volumeL" label="Volume" unit="L" type="number" inputMode="numeric" />
+            <Field name="heightM" label="Height" unit="m" type="number" />
+            <Field name="sensorCount" label="Temperature sensors" type="number" inputMode="numeric" />
+            <div className="sm:col-span-2"><Field name="sensorHeightsM" label="Sensor heights above the bottom, bottom to top (optional)" unit="m" hint="Comma-separated, e.g. 0.1, 0.25, 0.4 … Leave empty when the sensors are evenly spaced." /></div>
+            <Select name="exchanger" label="Heat exchanger" options={exchangers.map((x) => ({ value: x, label: exchangerLabels[x] }))} />
+            <Field name="immersionW" label="Immersion rating" unit="W" type="number" inputMode="numeric" />
+            <Field name="declaredLossW" label="Declared standing loss (optional)" unit="W" type="number" hint="From the cylinder’s energy label or data sheet." />
           </div>
         )}
 
         {step === 'heat_source' && (
           <div className="space-y-4">
-            <Select name="heatSource" label="Heat source" options={heatSourceKinds.map((k) => ({ value: k, label: heatSourceDescriptions[k] }))} {...f} />
+            <Select name="heatSource" label="Heat source" options={heatSourceKinds.map((k) => ({ value: k, label: heatSourceDescriptions[k] }))} />
             {isHeatSource(values.heatSource) && hasHeatPump(values.heatSource) && (
               <>
-                <Select name="heatPumpModelId" label="Heat-pump model" {...f}
+                <Select name="heatPumpModelId" label="Heat-pump model"
                   hint={models.data?.models.length ? 'The list is kept by your company’s administrator. Choose “Choose…” to enter a sensor curve by hand.' : 'Your company has no heat-pump models listed yet: enter the sensor input’s curve by hand, or ask an administrator to add the model.'}
-                  options={(models.data?.models ?? []).map((m) => ({ value: m.id, label: `${m.name} (${(m.outputW / 1000).toFixed(1)} kW, NTC ${m.ntcR25Ohm / 1000} kΩ, B ${m.ntcBetaK} K)` }))}
-                  onChange={(name, id) => {
-                    const m = models.data?.models.find((x) => x.id === id);
-                    setValues((v) => ({ ...v, [name]: id, ...(m ? { ntcR25Ohm: m.ntcR25Ohm, ntcBetaK: m.ntcBetaK, hpOutputW: m.outputW, heatPumpName: m.name } : { heatPumpName: '' }) }));
-                  }} />
+                  options={(models.data?.models ?? []).map((m) => ({ value: m.id, label: `${m.name} (${(m.outputW / 1000).toFixed(1)} kW, NTC ${m.ntcR25Ohm / 1000} kΩ, B ${m.ntcBetaK} K)` }))} />
                 <div className="grid gap-4 sm:grid-cols-3">
-                  <Field name="hpOutputW" label="Heat pump output" unit="W" type="number" {...f} />
-                  <Field name="ntcR25Ohm" label="Sensor input: R at 25 °C" unit="Ω" type="number" readOnly={!!values.heatPumpModelId} {...f} />
-                  <Field name="ntcBetaK" label="Sensor input: B value" unit="K" type="number" readOnly={!!values.heatPumpModelId} {...f} />
-                  <Field name="callC" label="Heat pump should read, to heat" unit="°C" type="number" hint="Well below the heat pump’s own hot-water start point." {...f} />
-                  <Field name="satisfiedC" label="Heat pump should read, when satisfied" unit="°C" type="number" hint="Above the heat pump’s own hot-water stop point." {...f} />
+                  <Field name="hpOutputW" label="Heat pump output" unit="W" type="number" />
+                  <Field name="ntcR25Ohm" label="Sensor input: R at 25 °C" unit="Ω" type="number" readOnly={!!values.heatPumpModelId} />
+                  <Field name="ntcBetaK" label="Sensor input: B value" unit="K" type="number" readOnly={!!values.heatPumpModelId} />
+                  <Field name="callC" label="Heat pump should read, to heat" unit="°C" type="number" hint="Well below the heat pump’s own hot-water start point." />
+                  <Field name="satisfiedC" label="Heat pump should read, when satisfied" unit="°C" type="number" hint="Above the heat pump’s own hot-water stop point." />
                 </div>
                 <ThermistorPanel r25Ohm={values.ntcR25Ohm} betaK={values.ntcBetaK} callC={values.callC} satisfiedC={values.satisfiedC} />
               </>
@@ -163,11 +157,11 @@ function Wizard(props: Props) {
         {step === 'target' && (
           <div className="space-y-4">
             <div className="grid gap-4 sm:grid-cols-2">
-              <Field name="targetC" label="Target (storage) temperature" unit="°C" type="number" {...f} />
-              <Field name="hysteresisK" label="Reheat when it falls this far below" unit="K" type="number" {...f} />
+              <Field name="targetC" label="Target (storage) temperature" unit="°C" type="number" />
+              <Field name="hysteresisK" label="Reheat when it falls this far below" unit="K" type="number" />
             </div>
             {Number(values.targetC) < LEGIONELLA_STORE_C && (
-              <Field name="belowSixtyPlan" label={`How is the water raised to ${LEGIONELLA_STORE_C} °C or above?`} hint="e.g. weekly immersion cycle on Sunday at 14:00, or the heat pump’s own pasteurisation programme." {...f} />
+              <Field name="belowSixtyPlan" label={`How is the water raised to ${LEGIONELLA_STORE_C} °C or above?`} hint="e.g. weekly immersion cycle on Sunday at 14:00, or the heat pump’s own pasteurisation programme." />
             )}
             <Caution title="Legionella.">{LEGIONELLA_GUIDANCE}</Caution>
             <Caution title="Scalding.">{SCALD_CAUTION}</Caution>
@@ -181,8 +175,8 @@ function Wizard(props: Props) {
               { value: 'programmer', label: 'An external programmer' },
               { value: 'thermostat', label: 'An external cylinder thermostat' },
               { value: 'both', label: 'Both a programmer and a thermostat' },
-            ]} {...f} />
-            <Field name="controlNotes" label="Notes on the wiring (optional)" {...f} />
+            ]} />
+            <Field name="controlNotes" label="Notes on the wiring (optional)" />
             <Caution title="Electrical work.">{ELECTRICAL_CAUTION}</Caution>
           </div>
         )}
@@ -192,9 +186,9 @@ function Wizard(props: Props) {
         {step === 'safety' && (
           <div className="space-y-3">
             <Caution title="Competent person.">{UNVENTED_CAUTION}</Caution>
-            {safetyItems.map((i) => <Check key={i.id} name={i.id} label={i.label} {...f} />)}
-            <Check name="competentPerson" label="I am a competent person for unvented hot-water storage, licensed as local building regulations require, and did this work myself." {...f} />
-            <Field name="registrationNumber" label="Registration or licence number (optional)" {...f} />
+            {safetyItems.map((i) => <Check key={i.id} name={i.id} label={i.label} />)}
+            <Check name="competentPerson" label="I am a competent person for unvented hot-water storage, licensed as local building regulations require, and did this work myself." />
+            <Field name="registrationNumber" label="Registration or licence number (optional)" />
           </div>
         )}
 
@@ -204,8 +198,8 @@ function Wizard(props: Props) {
           <div className="space-y-4">
             <p className="text-sm text-ink-soft">Signing off locks the record (later changes are amendments, with who and when), makes the commissioning record PDF, and e-mails the householder an invitation to Heatlayer and the record.</p>
             {!received && <Caution title="No telemetry yet.">Complete the connection check first: the record is signed off once the cylinder reports.</Caution>}
-            <Field name="householderEmail" label="Send the invitation and record to" type="email" {...f} />
-            <Field name="notes" label="Notes for the record (optional)" {...f} />
+            <Field name="householderEmail" label="Send the invitation and record to" type="email" />
+            <Field name="notes" label="Notes for the record (optional)" />
           </div>
         )}
 
@@ -215,7 +209,7 @@ function Wizard(props: Props) {
             {busy ? 'Saving…' : step === 'signoff' ? 'Sign off and send' : step === 'connection' && !received ? 'Continue without waiting' : 'Save and continue'}
           </button>
         </footer>
-      </form>
+      </Form>
     </div>
   );
 }

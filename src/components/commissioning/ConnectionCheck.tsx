@@ -2,7 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { ApiError, fetchJson } from '../../lib/query/client';
 import { LayerColumn } from './LayerColumn';
-import { Problem } from './fields';
+import { Problem } from '../ui/States';
 
 interface Registration { tankId: string; serial: string; token: string; notice: string; mqtt: { username: string; telemetryTopic: string } }
 type Connection = { registered: false } | { registered: true; tankId: string; received: boolean; telemetry: { ts: string; layersC: (number | null)[]; v40L: number | null } | null };

@@ -1,8 +1,13 @@
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { emptyTariffForm, type TariffForm, tariffFormSchema, tariffOf } from '../../lib/energy/tariff-form';
 import { ApiError, fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
 import type { TariffRow } from '../../db/schema/energy';
+import { Field, Form, Saved, Select } from '../form/fields';
+import { showServerErrors } from '../form/server-errors';
 import { ErrorNotice, Loading } from '../ui/States';
 
 const tariffsQuery = { queryKey: ['tariffs', 'company'], queryFn: () => fetchJson<{ tariffs: TariffRow[] }>('/api/tariffs') };
@@ -33,25 +38,24 @@ function Problems({ error }: { error: unknown }) {
 function TariffsAdmin() {
   const qc = useQueryClient();
   const list = useQuery(tariffsQuery);
-  const [form, setForm] = useState({ kind: 'day_night', name: '', unit: 'p/kWh', import: 24, dayImport: 27, nightImport: 8.5, nightStart: '00:30', nightEnd: '05:30', export: 15, validFrom: new Date().toISOString().slice(0, 10) });
+  const form = useForm<TariffForm>({
+    defaultValues: { ...emptyTariffForm(new Date().toISOString().slice(0, 10)), import: '24', dayImport: '27', nightImport: '8.5', export: '15' },
+    resolver: zodResolver(tariffFormSchema, undefined, { raw: true }),
+  });
   const [file, setFile] = useState<File | null>(null);
   const done = () => qc.invalidateQueries({ queryKey: ['tariffs'] });
   const add = useMutation({
-    mutationFn: () => {
-      const common = { kind: form.kind, ...(form.name ? { name: form.name } : {}), unit: form.unit, export: form.export, validFrom: `${form.validFrom}T00:00:00Z` };
-      const tariff = form.kind === 'flat' ? { ...common, import: form.import }
-        : { ...common, timeZone: 'Europe/London', dayImport: form.dayImport, nightImport: form.nightImport, nightStart: form.nightStart, nightEnd: form.nightEnd };
-      return fetchJson('/api/tariffs', { method: 'POST', body: JSON.stringify({ homeId: null, tariff }) });
-    },
+    mutationFn: (tariff: Record<string, unknown>) => fetchJson('/api/tariffs', { method: 'POST', body: JSON.stringify({ homeId: null, tariff }) }),
     onSuccess: done,
+    onError: (err) => showServerErrors(form, err, { prefix: 'tariff.' }),
   });
+  const unit = form.watch('unit');
+  const kind = form.watch('kind');
   const upload = useMutation({
-    mutationFn: async () => fetchJson(`/api/tariffs?unit=${encodeURIComponent(form.unit)}`, { method: 'POST', headers: { accept: 'application/json', 'content-type': 'text/csv' }, body: await file!.text() }),
+    mutationFn: async () => fetchJson(`/api/tariffs?unit=${encodeURIComponent(unit)}`, { method: 'POST', headers: { accept: 'application/json', 'content-type': 'text/csv' }, body: await file!.text() }),
     onSuccess: done,
   });
-  const price = (label: string, k: 'import' | 'dayImport' | 'nightImport' | 'export') => (
-    <label className="label">{label}<input className="field mt-1 w-24" type="number" step="0.01" value={form[k]} onChange={(e) => setForm({ ...form, [k]: Number(e.target.value) })} /></label>
-  );
+  const price = (label: string, k: 'import' | 'dayImport' | 'nightImport' | 'export') => <Field name={k} label={label} inputMode="decimal" className="w-28" />;
 
   return (
     <div className="space-y-4">
@@ -68,24 +72,24 @@ function TariffsAdmin() {
 
       <section className="card space-y-3" aria-labelledby="tariff-add">
         <h2 id="tariff-add" className="font-semibold">Add a default tariff</h2>
-        <form className="flex flex-wrap items-end gap-3" onSubmit={(e) => { e.preventDefault(); add.mutate(); }}>
-          <label className="label">Kind<select className="field mt-1" value={form.kind} onChange={(e) => setForm({ ...form, kind: e.target.value })}><option value="flat">Flat</option><option value="day_night">Day and night</option></select></label>
-          <label className="label">Name<input className="field mt-1 w-48" value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} /></label>
-          <label className="label">Unit<select className="field mt-1" value={form.unit} onChange={(e) => setForm({ ...form, unit: e.target.value })}><option>p/kWh</option><option>£/kWh</option></select></label>
-          {form.kind === 'flat' ? price('Import', 'import') : (
+        <Form form={form} className="flex flex-wrap items-end gap-3" refusal="The tariff was not added. Correct the fields below and add it again."
+          onSubmit={(v) => add.mutateAsync(tariffOf(v)).then(() => undefined, () => undefined)}>
+          <Select name="kind" label="Kind" choose={null} options={[{ value: 'flat', label: 'Flat' }, { value: 'day_night', label: 'Day and night' }]} />
+          <Field name="name" label="Name" className="w-48" maxLength={120} />
+          <Select name="unit" label="Unit" choose={null} options={[{ value: 'p/kWh', label: 'p/kWh' }, { value: '£/kWh', label: '£/kWh' }]} />
+          {kind === 'flat' ? price('Import', 'import') : (
             <>
               {price('Day import', 'dayImport')}
               {price('Night import', 'nightImport')}
-              <label className="label">Night from<input className="field mt-1 w-24" value={form.nightStart} onChange={(e) => setForm({ ...form, nightStart: e.target.value })} /></label>
-              <label className="label">Night to<input className="field mt-1 w-24" value={form.nightEnd} onChange={(e) => setForm({ ...form, nightEnd: e.target.value })} /></label>
+              <Field name="nightStart" label="Night from" className="w-28" />
+              <Field name="nightEnd" label="Night to" className="w-28" />
             </>
           )}
           {price('Export', 'export')}
-          <label className="label">From<input className="field mt-1" type="date" value={form.validFrom} onChange={(e) => setForm({ ...form, validFrom: e.target.value })} /></label>
+          <Field name="validFrom" label="From" type="date" />
           <button type="submit" className="btn-primary" disabled={add.isPending}>Add tariff</button>
-        </form>
-        {add.isError && <Problems error={add.error} />}
-        {add.isSuccess && <p role="status" className="text-sm">Tariff added.</p>}
+        </Form>
+        {add.isSuccess && <Saved>Tariff added.</Saved>}
       </section>
 
       <section className="card space-y-3" aria-labelledby="tariff-csv">

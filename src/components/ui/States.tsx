@@ -48,3 +48,22 @@ export function Freshness({ updatedAt, fetching }: { updatedAt: number; fetching
     </span>
   );
 }
+
+/** A safety caution beside the step it concerns. */
+export function Caution({ title, children }: { title: string; children: ReactNode }) {
+  return (
+    <aside className="rounded-card border border-ochre bg-ochre-pale p-3 text-sm text-ink" role="note">
+      <strong className="font-semibold">{title}</strong> {children}
+    </aside>
+  );
+}
+
+/** A refusal, with its problems listed. */
+export function Problem({ message, fields }: { message: string; fields?: { field: string; message: string }[] }) {
+  return (
+    <div role="alert" className="rounded-md border border-brick bg-brick-pale px-3 py-2 text-sm text-brick">
+      <p>{message}</p>
+      {fields && fields.length > 0 && <ul className="mt-1 list-disc pl-5">{fields.map((f, i) => <li key={i}>{f.message}</li>)}</ul>}
+    </div>
+  );
+}

@@ -273,3 +273,22 @@ export function resolveThresholds(stored: unknown): Thresholds {
   for (const k of alertKinds) if (severity?.[k]) out.severity[k] = severity[k]!;
   return out;
 }
+
+/**
+ * What the thresholds form sends: the settings that differ from their defaults or were stored
+ * before (so a value put back to its default is stored as such), numbers as typed; text that is
+ * not a number is sent as it is, for the schema to name the field.
+ */
+export function thresholdChanges(
+  typed: { [K in ThresholdKey]?: string | number } & { severity?: Partial<Record<AlertKind, AlertSeverity>> },
+  stored: Record<string, unknown>,
+): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const k of Object.keys(thresholdFields) as ThresholdKey[]) {
+    const raw = String(typed[k] ?? '').trim();
+    const value = raw !== '' && Number.isFinite(Number(raw)) ? Number(raw) : raw;
+    if (value !== thresholdFields[k].default || k in stored) out[k] = value;
+  }
+  if (typed.severity) out.severity = typed.severity;
+  return out;
+}

@@ -32,3 +32,56 @@ export const visitSchema = z.object({
   uploadIds: z.array(z.string().uuid('Unknown photo.')).max(30).default([]),
 });
 export type VisitInput = z.infer<typeof visitSchema>;
+
+const readingFields = visitSchema.shape.readings.unwrap().shape;
+
+/**
+ * The visit form as typed: the visit's own fields checked by the same schemas as the API's, with
+ * the readings flat and the parts as lines of text ("2 × anode").
+ */
+export const visitFormSchema = visitSchema.pick({ kind: true, visitedAt: true, findings: true }).extend({
+  parts: z.string().max(10_000, 'At most 10,000 characters of parts.').optional(),
+  topC: readingFields.topC,
+  bottomC: readingFields.bottomC,
+  inletPressureBar: readingFields.inletPressureBar,
+  vesselPrechargeBar: readingFields.vesselPrechargeBar,
+  reliefValveTested: readingFields.reliefValveTested,
+  dischargeChecked: readingFields.dischargeChecked,
+});
+export type VisitFormValues = z.input<typeof visitFormSchema> & Record<string, unknown>;
+
+/** "2 × anode" (or "2 x anode") is two anodes; a line without a count is one part. */
+export function partsOf(text: string | undefined): { quantity: number; name: string }[] {
+  return String(text ?? '')
+    .split('\n')
+    .map((l) => l.trim())
+    .filter(Boolean)
+    .map((l) => {
+      const m = l.match(/^(\d+)\s*[x×]\s*(.+)$/i);
+      return m ? { quantity: Number(m[1]), name: m[2]! } : { quantity: 1, name: l };
+    });
+}
+
+/** The body of POST /api/visits from the form's values (raw, as typed: the API checks them again). */
+export function visitBody(
+  v: VisitFormValues,
+  extra: { tankId: string; resolvedAlertIds: string[]; uploadIds: string[] },
+): Record<string, unknown> {
+  return {
+    tankId: extra.tankId,
+    kind: v.kind,
+    visitedAt: v.visitedAt,
+    findings: v.findings ?? '',
+    parts: partsOf(v.parts),
+    readings: {
+      topC: v.topC,
+      bottomC: v.bottomC,
+      inletPressureBar: v.inletPressureBar,
+      vesselPrechargeBar: v.vesselPrechargeBar,
+      reliefValveTested: v.reliefValveTested === true,
+      dischargeChecked: v.dischargeChecked === true,
+    },
+    resolvedAlertIds: extra.resolvedAlertIds,
+    uploadIds: extra.uploadIds,
+  };
+}

@@ -36,5 +36,6 @@ export async function fetchJson<T>(url: string, init?: RequestInit): Promise<T> 
     }
     throw new ApiError(res.status, body.error?.code ?? 'HttpError', body.error?.message ?? `The server answered ${res.status}.`, body.error?.fields);
   }
-  return (await res.json()) as T;
+  // 204 No Content (a delete, say) has no body to read.
+  return (res.status === 204 ? null : await res.json()) as T;
 }

@@ -33,7 +33,7 @@ describe('a home’s cold water supply in Chromium', () => {
     await field.focus();
     await page.keyboard.type('45');
     await page.keyboard.press('Enter');
-    const error = page.locator('#coldInletC-error');
+    const error = page.locator('#f-coldInletC-error');
     await error.waitFor();
     await expect(error.textContent()).resolves.toMatch(/at most 25/);
     await expect(field.getAttribute('aria-invalid')).resolves.toBe('true');
