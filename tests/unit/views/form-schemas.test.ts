@@ -6,15 +6,28 @@ import { partsOf, visitBody, visitFormSchema, visitSchema } from '@/lib/commissi
 import { emptyTariffForm, tariffFormSchema, tariffOf } from '@/lib/energy/tariff-form';
 import { parseTariff } from '@/lib/energy/tariff';
 
-const paths = (r: { success: boolean; error?: { issues: { path: PropertyKey[] }[] } }) => (r.error?.issues ?? []).map((i) => i.path.join('.'));
+const paths = (r: { success: boolean; error?: { issues: { path: PropertyKey[] }[] } }) =>
+  (r.error?.issues ?? []).map((i) => i.path.join('.'));
 
 describe('the tariff form', () => {
-  const day = { ...emptyTariffForm('2027-01-01'), name: 'Test two-rate', dayImport: '27', nightImport: '9', export: '15' };
+  const day = {
+    ...emptyTariffForm('2027-01-01'),
+    name: 'Test two-rate',
+    dayImport: '27',
+    nightImport: '9',
+    export: '15',
+  };
 
   it('turns what was typed into the tariff the API takes, priced from midnight at the home', () => {
     const t = tariffOf({ ...day, validTo: '2027-06-30' });
     // Europe/London is GMT in January and BST (UTC+1) in summer: IANA tz database (common practice).
-    expect(t).toMatchObject({ kind: 'day_night', dayImport: 27, nightImport: 9, validFrom: '2027-01-01T00:00:00.000Z', validTo: '2027-06-30T23:00:00.000Z' });
+    expect(t).toMatchObject({
+      kind: 'day_night',
+      dayImport: 27,
+      nightImport: 9,
+      validFrom: '2027-01-01T00:00:00.000Z',
+      validTo: '2027-06-30T23:00:00.000Z',
+    });
     expect(parseTariff(t).ok).toBe(true);
     expect(tariffFormSchema.safeParse(day).success).toBe(true);
   });
@@ -27,7 +40,11 @@ describe('the tariff form', () => {
   it('refuses text that is no number at the field, as the API does', () => {
     const r = tariffFormSchema.safeParse({ ...day, kind: 'flat', import: 'cheap' });
     expect(paths(r)).toEqual(['import']);
-    expect(paths(r)).toEqual((parseTariff(tariffOf({ ...day, kind: 'flat', import: 'cheap' })) as { errors: { field: string }[] }).errors.map((e) => e.field));
+    expect(paths(r)).toEqual(
+      (parseTariff(tariffOf({ ...day, kind: 'flat', import: 'cheap' })) as { errors: { field: string }[] }).errors.map(
+        (e) => e.field,
+      ),
+    );
   });
 });
 
@@ -57,10 +74,21 @@ describe('the visit form', () => {
   });
 
   it('refuses a reading as the API does, at the flat field the user typed into', () => {
-    const typed = { kind: 'annual_inspection' as const, visitedAt: '2026-11-01', findings: 'Anode checked.', topC: 'hot' };
+    const typed = {
+      kind: 'annual_inspection' as const,
+      visitedAt: '2026-11-01',
+      findings: 'Anode checked.',
+      topC: 'hot',
+    };
     expect(paths(visitFormSchema.safeParse(typed))).toEqual(['topC']);
-    const body = visitBody(typed, { tankId: '00000000-0000-4000-8000-000000000001', resolvedAlertIds: [], uploadIds: [] });
+    const body = visitBody(typed, {
+      tankId: '00000000-0000-4000-8000-000000000001',
+      resolvedAlertIds: [],
+      uploadIds: [],
+    });
     expect(paths(visitSchema.safeParse(body))).toEqual(['readings.topC']);
-    expect(visitSchema.safeParse({ ...body, readings: { ...(body.readings as object), topC: '61' } }).success).toBe(true);
+    expect(visitSchema.safeParse({ ...body, readings: { ...(body.readings as object), topC: '61' } }).success).toBe(
+      true,
+    );
   });
 });
