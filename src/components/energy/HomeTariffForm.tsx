@@ -7,9 +7,10 @@ import { emptyTariffForm, type TariffForm, tariffFormSchema, tariffOf } from '..
 import { fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
 import { HOME_TIME_ZONE } from '../../lib/tank-energy/contracts';
-import { Field, Form, Saved, Select } from '../form/fields';
+import { Form, Saved } from '../form/fields';
 import { showServerErrors } from '../form/server-errors';
 import { ErrorNotice, Loading } from '../ui/States';
+import { TariffFields } from './TariffFields';
 
 const showDay = (d: string | Date) => new Date(d).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: HOME_TIME_ZONE });
 /** A tariff's dates as people say them: its end is exclusive, so the last day is the one before. */
@@ -42,16 +43,10 @@ function HomeTariffForm({ homeId, homeLabel, tankId }: { homeId: string; homeLab
     // The API names fields "tariff.import" and so on.
     onError: (err) => showServerErrors(form, err, { prefix: 'tariff.', offline: 'The server could not be reached; nothing was saved. Try again.' }),
   });
-  const kind = form.watch('kind');
-  const unit = form.watch('unit');
 
   const own = (list.data?.tariffs ?? []).filter((t) => t.homeId === homeId);
   const defaults = (list.data?.tariffs ?? []).filter((t) => t.homeId === null);
   const ownNow = own.filter(inForceNow).sort((a, b) => +new Date(b.validFrom) - +new Date(a.validFrom))[0];
-  const price = (name: 'import' | 'dayImport' | 'nightImport' | 'export', label: string) => (
-    <Field name={name} label={label} inputMode="decimal" placeholder={unit === '£/kWh' ? 'e.g. 0.245' : 'e.g. 24.5'} />
-  );
-
   return (
     <div className="space-y-4">
       <section className="card" aria-labelledby="home-tariffs">
@@ -82,20 +77,7 @@ function HomeTariffForm({ homeId, homeLabel, tankId }: { homeId: string; homeLab
         <h2 id="home-tariff-add" className="font-semibold">Set a tariff for this home</h2>
         <Form form={form} summaryTestId="tariff-errors" refusal="The tariff was not saved. Correct the fields below and save again." className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4"
           onSubmit={(v) => { setSaved(null); return save.mutateAsync(tariffOf(v)).then(() => undefined, () => undefined); }}>
-          <Select name="kind" label="Kind" choose={null} options={[{ value: 'flat', label: 'Flat (one price)' }, { value: 'day_night', label: 'Day and night' }]} />
-          <Field name="name" label="Name" hint="Optional, e.g. the supplier's plan name." maxLength={120} />
-          <Select name="unit" label="Unit" choose={null} options={[{ value: 'p/kWh', label: 'p/kWh' }, { value: '£/kWh', label: '£/kWh' }]} />
-          {kind === 'flat' ? price('import', 'Import price') : (
-            <>
-              {price('dayImport', 'Day import price')}
-              {price('nightImport', 'Night import price')}
-              <Field name="nightStart" label="Night from" hint="24-hour clock at the home." placeholder="00:30" />
-              <Field name="nightEnd" label="Night until" placeholder="05:30" />
-            </>
-          )}
-          {price('export', 'Export price')}
-          <Field name="validFrom" label="First day" type="date" hint="From the start of this day at the home." />
-          <Field name="validTo" label="Last day" type="date" hint="Optional: the last day it applies. Leave empty while it runs on." />
+          <TariffFields />
           <div className="flex items-end sm:col-span-2 lg:col-span-4">
             <button type="submit" className="btn-primary" disabled={save.isPending}>{save.isPending ? 'Saving…' : 'Save tariff for this home'}</button>
           </div>

@@ -6,9 +6,10 @@ import { emptyTariffForm, type TariffForm, tariffFormSchema, tariffOf } from '..
 import { ApiError, fetchJson } from '../../lib/query/client';
 import { withQuery } from '../../lib/query/provider';
 import type { TariffRow } from '../../db/schema/energy';
-import { Field, Form, Saved, Select } from '../form/fields';
+import { Form, Saved } from '../form/fields';
 import { showServerErrors } from '../form/server-errors';
 import { ErrorNotice, Loading } from '../ui/States';
+import { TariffFields } from './TariffFields';
 
 const tariffsQuery = { queryKey: ['tariffs', 'company'], queryFn: () => fetchJson<{ tariffs: TariffRow[] }>('/api/tariffs') };
 const day = (d: string | Date | null) => (d ? new Date(d).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'Europe/London' }) : 'open-ended');
@@ -50,12 +51,10 @@ function TariffsAdmin() {
     onError: (err) => showServerErrors(form, err, { prefix: 'tariff.' }),
   });
   const unit = form.watch('unit');
-  const kind = form.watch('kind');
   const upload = useMutation({
     mutationFn: async () => fetchJson(`/api/tariffs?unit=${encodeURIComponent(unit)}`, { method: 'POST', headers: { accept: 'application/json', 'content-type': 'text/csv' }, body: await file!.text() }),
     onSuccess: done,
   });
-  const price = (label: string, k: 'import' | 'dayImport' | 'nightImport' | 'export') => <Field name={k} label={label} inputMode="decimal" className="w-28" />;
 
   return (
     <div className="space-y-4">
@@ -72,22 +71,12 @@ function TariffsAdmin() {
 
       <section className="card space-y-3" aria-labelledby="tariff-add">
         <h2 id="tariff-add" className="font-semibold">Add a default tariff</h2>
-        <Form form={form} className="flex flex-wrap items-end gap-3" refusal="The tariff was not added. Correct the fields below and add it again."
+        <Form form={form} className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4" refusal="The tariff was not added. Correct the fields below and add it again."
           onSubmit={(v) => add.mutateAsync(tariffOf(v)).then(() => undefined, () => undefined)}>
-          <Select name="kind" label="Kind" choose={null} options={[{ value: 'flat', label: 'Flat' }, { value: 'day_night', label: 'Day and night' }]} />
-          <Field name="name" label="Name" className="w-48" maxLength={120} />
-          <Select name="unit" label="Unit" choose={null} options={[{ value: 'p/kWh', label: 'p/kWh' }, { value: '£/kWh', label: '£/kWh' }]} />
-          {kind === 'flat' ? price('Import', 'import') : (
-            <>
-              {price('Day import', 'dayImport')}
-              {price('Night import', 'nightImport')}
-              <Field name="nightStart" label="Night from" className="w-28" />
-              <Field name="nightEnd" label="Night to" className="w-28" />
-            </>
-          )}
-          {price('Export', 'export')}
-          <Field name="validFrom" label="From" type="date" />
-          <button type="submit" className="btn-primary" disabled={add.isPending}>Add tariff</button>
+          <TariffFields />
+          <div className="flex items-end sm:col-span-2 lg:col-span-4">
+            <button type="submit" className="btn-primary" disabled={add.isPending}>Add tariff</button>
+          </div>
         </Form>
         {add.isSuccess && <Saved>Tariff added.</Saved>}
       </section>

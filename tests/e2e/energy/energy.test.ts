@@ -78,7 +78,7 @@ describe('tariffs page in Chromium', () => {
     await expect(page.getByText('line 3: start').count()).resolves.toBe(1);
     await page.getByLabel('Kind').selectOption('flat');
     await page.getByLabel('Name').fill('Orrin e2e default');
-    await page.getByLabel('From').fill('2030-01-01');
+    await page.getByLabel('First day').fill('2030-01-01');
     await page.getByRole('button', { name: 'Add tariff' }).click();
     await page.getByRole('status').getByText('Tariff added.').waitFor();
     await page.getByText('Orrin e2e default').waitFor();
