@@ -1,6 +1,7 @@
 // Query option factories for the tank views: one place for keys, URLs and poll intervals.
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import type { EventsResponse, FleetSummary, ReadingsResponse, TankDetail, TankListResponse } from '../views/contracts';
+import { mergeSeries } from '../views/series-merge';
 import { fetchJson } from './client';
 
 /** New readings arrive about once a minute; polling at 10 s shows them within the live target. */
@@ -35,10 +36,31 @@ export const tankQuery = (id: string) => queryOptions({
   refetchInterval: LIVE_MS,
 });
 
-/** Ranges of a day or less poll at the live rate; longer ones (rollups) once a minute. */
+/** A live window is fetched in full at most this often; polls between fetch only what is new. */
+export const FULL_REFETCH_MS = 5 * 60_000;
+
+/** The readings in a window, with when it was last fetched in full (late readings are picked up then). */
+export type ReadingsWindow = ReadingsResponse & { fullAt: number };
+
+const readingsUrl = (id: string, from: number, to: number, poll?: { since: number; resolution: ReadingsResponse['resolution'] }) =>
+  `/api/tanks/${id}/readings?${toSearch({ from: new Date(from).toISOString(), to: new Date(to).toISOString(), ...(poll ? { resolution: poll.resolution, since: new Date(poll.since).toISOString() } : {}) })}`;
+
+/**
+ * Ranges of a day or less poll at the live rate; longer ones (rollups) once a minute. A live window
+ * (a preset, ending now) is one cache entry whatever minute it ends at: each poll asks only for the
+ * points since its newest one (their figures still worked out over the whole window) and merges them.
+ */
 export const readingsQuery = (id: string, from: number, to: number, live: boolean) => queryOptions({
-  queryKey: ['tanks', id, 'readings', from, to],
-  queryFn: () => fetchJson<ReadingsResponse>(`/api/tanks/${id}/readings?${toSearch({ from: new Date(from).toISOString(), to: new Date(to).toISOString() })}`),
+  queryKey: live ? ['tanks', id, 'readings', 'live', to - from] : ['tanks', id, 'readings', from, to],
+  queryFn: async ({ client, queryKey, signal }): Promise<ReadingsWindow> => {
+    const prev = live ? client.getQueryData<ReadingsWindow>(queryKey) : undefined;
+    const newest = prev?.t.at(-1);
+    if (prev && newest !== undefined && newest >= from && Date.now() - prev.fullAt < FULL_REFETCH_MS) {
+      const next = await fetchJson<ReadingsResponse>(readingsUrl(id, from, to, { since: newest, resolution: prev.resolution }), { signal });
+      return { ...mergeSeries(prev, next, from), fullAt: prev.fullAt };
+    }
+    return { ...(await fetchJson<ReadingsResponse>(readingsUrl(id, from, to), { signal })), fullAt: Date.now() };
+  },
   refetchInterval: live ? (to - from <= 86_400_000 ? LIVE_MS : 60_000) : false,
   placeholderData: keepPreviousData,
 });

@@ -4,7 +4,7 @@ import { defaultThresholds } from '../alerts/thresholds';
 import type { TankAnalysis } from './contracts';
 import { complete, layerThicknesses, type TankShape } from './layers';
 import type { SeriesRow } from './series';
-import { figuresOverTime, windowQuality } from './figures-over-time';
+import { figuresOverTime, pointQuality, windowQuality } from './figures-over-time';
 
 /**
  * Air around an indoor cylinder, °C, assumed for the cooling fit: the ambient of the standing-loss
@@ -74,7 +74,7 @@ export function analyseTank(measured: readonly SeriesRow[], tank: TankShape & { 
     const ex = legionellaExposure(sameLength.map((r) => ({ t: r.t, layersC: r.layersC as number[] })), { thresholdC, holdMin, heightsM: weights });
     legionella = { thresholdC, holdMin, minutesAtOrAbove: ex.minutesAtOrAbove, longestStretchMin: ex.longestStretchMin, heldFraction: ex.heldFraction, readings: sameLength.length };
   }
-  const quality = windowQuality(figures);
+  const quality = windowQuality(figures.map(pointQuality));
   if (quality.status === 'withheld') note = `Not fitted: ${quality.reason}`;
   return { windowFrom: window.from.toISOString(), windowTo: window.to.toISOString(), standingLoss: standing, standingLossNote: note, legionella, quality };
 }

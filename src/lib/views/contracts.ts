@@ -43,11 +43,15 @@ export function autoResolution(spanMs: number): Resolution {
 
 const isoTime = (field: string) => z.string().datetime({ offset: true, message: `${field} must be an ISO 8601 date-time with a time zone, e.g. 2026-03-01T07:00:00Z.` });
 
-/** from/to (ISO 8601, default the last 24 h) and resolution (raw, 15m, 1h or auto). */
+/**
+ * from/to (ISO 8601, default the last 24 h), resolution (raw, 15m, 1h or auto) and since, a poll's
+ * cursor inside the range: only points from it on are sent, their figures worked out over the whole range.
+ */
 export const rangeQuerySchema = z.object({
   from: isoTime('from').optional(),
   to: isoTime('to').optional(),
   resolution: z.enum(['auto', ...resolutions]).default('auto'),
+  since: isoTime('since').optional(),
 }).strict().transform((v, ctx) => {
   const to = v.to ? new Date(v.to) : new Date();
   const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
@@ -61,7 +65,12 @@ export const rangeQuerySchema = z.object({
     ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['resolution'], message: `resolution ${resolution} serves at most ${maxSpanMs[resolution] / 86_400_000} days; choose a coarser step or a shorter range.` });
     return z.NEVER;
   }
-  return { from, to, resolution };
+  const since = v.since ? new Date(v.since) : from;
+  if (since < from || since >= to) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['since'], message: 'since must be inside the range: at or after from, before to.' });
+    return z.NEVER;
+  }
+  return { from, to, resolution, since };
 });
 export type RangeQuery = z.output<typeof rangeQuerySchema>;
 
@@ -189,6 +198,8 @@ export interface TankAnalysis {
 
 /** The quality of figures over a window: the sensors left out in any reading used, and why. */
 export interface WindowQuality { status: FiguresStatus; leftOut: number[]; reason: string | null }
+/** One reading's figures quality: the sensors left out when estimated or withheld, and why when withheld. */
+export interface PointQuality { status: FiguresStatus; leftOut?: number[]; reason?: string }
 
 export interface ReadingsResponse {
   tankId: string;
@@ -210,6 +221,8 @@ export interface ReadingsResponse {
   flowC: (number | null)[];
   /** State of charge and V40 above: measured, estimated (sensors left out) or withheld over the range. */
   quality: WindowQuality;
+  /** Each point's own quality (null where it had no layers), so a page merging polls can work out `quality` again. */
+  qualityAt: (PointQuality | null)[];
 }
 
 export type TimelineKind = 'compressor_run' | 'immersion_run' | 'draw' | 'command';

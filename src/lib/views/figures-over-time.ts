@@ -3,7 +3,7 @@
 // the readings in time order as the writer steps it for the latest state. So a chart, the
 // standing-loss fit and the legionella count leave out the same sensors the tank list does.
 import { figuresOverTime as coreFiguresOverTime, type TankFigures } from '../thermal';
-import type { WindowQuality } from './contracts';
+import type { PointQuality, WindowQuality } from './contracts';
 import { geometryOf, type TankShape } from './layers';
 
 /** Each row's figures (null for a row without layers), in the rows' order (oldest first): the thermal core's. */
@@ -13,17 +13,30 @@ export function figuresOverTime(rows: readonly { t: number; layersC: readonly (n
 
 const count = (n: number) => n.toLocaleString('en-GB');
 
+/** One reading's quality as the readings API sends it: leftOut and reason only where they say something. */
+export function pointQuality(f: TankFigures | null): PointQuality | null {
+  if (!f) return null;
+  const { status, leftOut, reason } = f.quality;
+  if (status === 'measured') return { status };
+  return status === 'withheld' && reason ? { status, leftOut: [...leftOut], reason } : { status, leftOut: [...leftOut] };
+}
+
 /**
  * One quality for a window: measured when no reading needed an estimate; estimated, naming every
  * sensor left out somewhere and in how many readings; withheld when no reading could be used.
+ * Takes each reading's quality (null for a reading without layers), so the tank page can work it
+ * out again over the points it keeps after merging a poll.
  */
-export function windowQuality(figures: readonly (TankFigures | null)[]): WindowQuality {
-  const present = figures.filter((f): f is TankFigures => f !== null);
-  const used = present.filter((f) => f.quality.status !== 'withheld');
-  if (present.length > 0 && used.length === 0) return { status: 'withheld', leftOut: [...present.at(-1)!.quality.leftOut], reason: present.at(-1)!.quality.reason };
-  const estimated = used.filter((f) => f.quality.status === 'estimated');
+export function windowQuality(points: readonly (PointQuality | null)[]): WindowQuality {
+  const present = points.filter((q): q is PointQuality => q !== null);
+  const used = present.filter((q) => q.status !== 'withheld');
+  if (present.length > 0 && used.length === 0) {
+    const last = present.at(-1)!;
+    return { status: 'withheld', leftOut: [...(last.leftOut ?? [])], reason: last.reason ?? null };
+  }
+  const estimated = used.filter((q) => q.status === 'estimated');
   if (estimated.length === 0) return { status: 'measured', leftOut: [], reason: null };
-  const leftOut = [...new Set(estimated.flatMap((f) => f.quality.leftOut))].sort((a, b) => a - b);
+  const leftOut = [...new Set(estimated.flatMap((q) => q.leftOut ?? []))].sort((a, b) => a - b);
   const names = leftOut.length === 1 ? `sensor ${leftOut[0]}` : `sensors ${leftOut.slice(0, -1).join(', ')} and ${leftOut.at(-1)}`;
   const share = estimated.length === used.length ? 'in every reading used' : `in ${count(estimated.length)} of ${count(used.length)} readings used`;
   return { status: 'estimated', leftOut, reason: `Estimated, ${names} left out (${share}).` };

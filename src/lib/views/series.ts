@@ -1,6 +1,6 @@
 // Readings (raw or rolled up) into the columnar series the charts and the CSV read.
 import { ccToC, type TankShape } from './layers';
-import { figuresOverTime, windowQuality } from './figures-over-time';
+import { figuresOverTime, pointQuality, windowQuality } from './figures-over-time';
 import type { ReadingsResponse, Resolution } from './contracts';
 
 /** A raw reading or a rollup bucket, already decoded to °C. */
@@ -44,35 +44,43 @@ export function rollupToRow(r: RollupRowCc): SeriesRow {
 
 /**
  * Columns for the charts: one array per layer and per scalar, state of charge and V40 of every
- * point from the thermal core's figures (estimated where a sensor is left out, null where withheld). Layers beyond the tank's
- * sensor count are dropped; missing ones are null.
+ * point from the thermal core's figures (estimated where a sensor is left out, null where withheld).
+ * The figures are worked out over all of `rows` (the range); only points from `meta.since` on (a
+ * poll's cursor, default the range's start) are sent, with the quality of those points.
+ * Layers beyond the tank's sensor count are dropped; missing ones are null.
  */
-export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: string; sensorCount: number; positionsM: number[] }, meta: { from: Date; to: Date; resolution: Resolution }): ReadingsResponse {
+export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: string; sensorCount: number; positionsM: number[] }, meta: { from: Date; to: Date; resolution: Resolution; since?: Date }): ReadingsResponse {
   const n = tank.sensorCount;
-  const layers: (number | null)[][] = Array.from({ length: n }, () => new Array(rows.length).fill(null));
+  const figures = figuresOverTime(rows, tank);
+  const since = (meta.since ?? meta.from).getTime();
+  const first = rows.findIndex((r) => r.t >= since);
+  const start = first === -1 ? rows.length : first;
+  const m = rows.length - start;
+  const layers: (number | null)[][] = Array.from({ length: n }, () => new Array(m).fill(null));
   const out: ReadingsResponse = {
     tankId: tank.id, from: meta.from.toISOString(), to: meta.to.toISOString(), resolution: meta.resolution,
     sensorCount: n, positionsM: tank.positionsM,
-    t: new Array(rows.length), layers, soc: new Array(rows.length), v40L: new Array(rows.length),
-    compressor: new Array(rows.length), immersion: new Array(rows.length), drawLpm: new Array(rows.length), flowC: new Array(rows.length),
-    quality: { status: 'measured', leftOut: [], reason: null },
+    t: new Array(m), layers, soc: new Array(m), v40L: new Array(m),
+    compressor: new Array(m), immersion: new Array(m), drawLpm: new Array(m), flowC: new Array(m),
+    quality: { status: 'measured', leftOut: [], reason: null }, qualityAt: new Array(m),
   };
-  const figures = figuresOverTime(rows, tank);
-  rows.forEach((r, i) => {
+  for (let i = 0; i < m; i++) {
+    const r = rows[start + i]!;
+    const f = figures[start + i] ?? null;
     out.t[i] = r.t;
     for (let k = 0; k < n; k++) {
       const v = r.layersC[k] ?? null;
       layers[k]![i] = v === null ? null : Math.round(v * 100) / 100;
     }
-    const f = figures[i];
     out.soc[i] = f?.soc != null ? round(f.soc, 4) : null;
     out.v40L[i] = f?.v40L != null ? round(f.v40L, 1) : null;
+    out.qualityAt[i] = pointQuality(f);
     out.compressor[i] = r.compressor;
     out.immersion[i] = r.immersion;
     out.drawLpm[i] = r.drawLpm;
     out.flowC[i] = r.flowC;
-  });
-  out.quality = windowQuality(figures);
+  }
+  out.quality = windowQuality(out.qualityAt);
   return out;
 }
 

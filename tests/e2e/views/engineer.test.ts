@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { baseUrl, launchBrowser, screenshot, waitForIslands } from '../../support/browser';
-import { closeTestDb } from '../../support/db';
+import { closeTestDb, query } from '../../support/db';
 import { signInAs } from '../../support/session';
 import { createFixture, dropFixture, type Fixture } from '../../integration/views/fixtures';
 import { signedInContext } from './helpers';
@@ -49,6 +49,32 @@ describe('field engineer in Chromium', () => {
 
     await page.setViewportSize({ width: 640, height: 900 });
     await screenshot(page, 'views-tank-narrow');
+    await context.close();
+  });
+
+  it('polls only what is new since its newest point and adds it to the window', async () => {
+    const context = await signedInContext(browser, await signInAs(baseUrl(), 'engineer'));
+    const page = await context.newPage();
+    const full: string[] = [];
+    const polls: string[] = [];
+    page.on('request', (r) => { if (r.url().includes(`/api/tanks/${fx.healthy.id}/readings`)) (r.url().includes('since=') ? polls : full).push(r.url()); });
+    await page.goto(`${baseUrl()}/tanks/${fx.healthy.id}`);
+    await waitForIslands(page);
+    await page.getByRole('radio', { name: '6 hours' }).click();
+    await page.getByText('every reading').first().waitFor();
+    await expect(sensorValue(page, 4)).resolves.toBe('55.0 °C');
+    // A reading for the minute now, as the writer would store it: the next poll brings it in.
+    await query(
+      `insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, draw_dlpm, flow_cc)
+       values ($1, date_trunc('minute', now()), array[1500, 3000, 4800, 5600]::smallint[], false, 0, 0, 5800) on conflict do nothing`,
+      [fx.healthy.id]);
+    // The readout follows the newest point: the top sensor's 56 °C is the new reading's.
+    await expect.poll(() => sensorValue(page, 4), { timeout: 25_000 }).toBe('56.0 °C');
+    expect(polls.length).toBeGreaterThan(0);
+    const poll = new URL(polls.at(-1)!);
+    expect(poll.searchParams.get('resolution')).toBe('raw');
+    expect(Date.parse(poll.searchParams.get('since')!)).toBeGreaterThan(Date.parse(poll.searchParams.get('from')!));
+    expect(full.filter((u) => u.includes('from=')).length).toBeLessThanOrEqual(2);
     await context.close();
   });
 });

@@ -201,6 +201,19 @@ describe('GET /api/tanks/{id}/readings', () => {
     const raw = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 3 * 86_400_000).toISOString()}&to=${to}&resolution=raw`, 'engineer');
     expect(raw.t).toHaveLength(2880);
   });
+  it('sends a poll only the points since its cursor, with the figures the whole range gives them', async () => {
+    const to = fx.now.toISOString();
+    const from = new Date(fx.now.getTime() - 6 * 3_600_000).toISOString();
+    const full = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${from}&to=${to}`, 'engineer');
+    const since = new Date(full.t[350]).toISOString();
+    const poll = await getJson(`/api/tanks/${fx.healthy.id}/readings?from=${from}&to=${to}&resolution=raw&since=${since}`, 'engineer');
+    expect(poll.t).toEqual(full.t.slice(350));
+    expect(poll.layers).toEqual(full.layers.map((l: number[]) => l.slice(350)));
+    expect([poll.soc, poll.v40L, poll.qualityAt]).toEqual([full.soc.slice(350), full.v40L.slice(350), full.qualityAt.slice(350)]);
+    const outside = await get(`/api/tanks/${fx.healthy.id}/readings?from=${from}&to=${to}&since=${to}`, 'engineer');
+    expect(outside.status).toBe(400);
+    expect((await outside.json()).error.fields[0].field).toBe('since');
+  });
   it('refuses a range it cannot serve, naming the field', async () => {
     const r1 = await get(`/api/tanks/${fx.healthy.id}/readings?from=${new Date(fx.now.getTime() - 30 * 86_400_000).toISOString()}&resolution=raw`, 'engineer');
     expect(r1.status).toBe(400);
