@@ -8,6 +8,7 @@ import { loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
 import { buildDir, ensureBuild } from '../../scripts/lib/build';
 import { pageScriptSizes } from '../../scripts/lib/island-sizes';
+import { memoFigures } from '../../src/lib/views/figures-memo';
 import { benchPort, pct, seedBenchCompany, withBenchDatabase } from './fleet-database';
 
 const TANKS = Number(process.env.BENCH_TANKS ?? 50_000);
@@ -165,6 +166,40 @@ async function main() {
         }
         console.log(
           `GET /api/tanks/{id}/readings 7 days, ${resolution.padEnd(3)}        p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B (${gzipSync(body).length.toLocaleString('en-GB')} B gzipped), ${JSON.parse(body).t.length.toLocaleString('en-GB')} points`,
+        );
+      }
+      {
+        // The tank page's live 24-hour window: fetched in full with figures worked out per request,
+        // then through the memo (once per reading), then polled with a cursor at its newest point.
+        const to = new Date();
+        const from = new Date(to.getTime() - 86_400_000);
+        const meta = { from, to, resolution: 'raw' as const };
+        const rows = await readingsInRange(tankId, from, to, 'raw');
+        const since = new Date(rows.at(-1)!.t);
+        const runs = Math.min(RUNS, 15);
+        const measure = async (label: string, f: () => object) => {
+          const ms: number[] = [];
+          let body = '';
+          for (let i = 0; i < runs; i++) {
+            const [t, b] = await time(async () => JSON.stringify(f()));
+            ms.push(t);
+            body = b;
+          }
+          console.log(
+            `GET /api/tanks/{id}/readings 24 h raw, ${label.padEnd(28)} p50 ${pct(ms, 50).toFixed(1).padStart(6)} ms  p95 ${pct(ms, 95).toFixed(1).padStart(6)} ms  ${Buffer.byteLength(body).toLocaleString('en-GB')} B`,
+          );
+          return pct(ms, 50);
+        };
+        const perRequest = await measure('figures per request', () => toSeries(rows, tank, meta));
+        memoFigures(tankId, rows, tank);
+        const memoised = await measure('figures from the memo', () =>
+          toSeries(rows, tank, meta, memoFigures(tankId, rows, tank)),
+        );
+        const polled = await measure('poll since newest (memo)', () =>
+          toSeries(rows, tank, { ...meta, since }, memoFigures(tankId, rows, tank)),
+        );
+        console.log(
+          `  (shaping only, the database read of ${rows.length.toLocaleString('en-GB')} rows aside: memo ${(memoised / perRequest).toFixed(2)}× and poll ${(polled / perRequest).toFixed(2)}× the per-request time)`,
         );
       }
       await closeDb();

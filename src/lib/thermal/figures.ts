@@ -21,6 +21,7 @@ import {
   type SensorFault,
   type SensorLimits,
   type StuckLimits,
+  type StuckState,
 } from './sensor-check.js';
 import { finite, positive } from './validate.js';
 
@@ -229,9 +230,10 @@ export function tankFigures(
 export function figuresOverTime(
   readings: readonly { t: number; layersC: readonly (number | null | undefined)[] }[],
   geometry: TankGeometry,
-  options: { limits?: SensorLimits; stuckLimits?: StuckLimits } = {},
+  options: { limits?: SensorLimits; stuckLimits?: StuckLimits; check?: StuckState } = {},
 ): (TankFigures | null)[] {
-  const check = initialStuck(geometry.sensorCount);
+  // A check carried over from earlier readings continues (stepped in place); otherwise a new one.
+  const check = options.check ?? initialStuck(geometry.sensorCount);
   return readings.map((r) => {
     if (r.layersC.length === 0) return null;
     stepStuck(check, r.t, r.layersC, options.stuckLimits ?? DEFAULT_STUCK_LIMITS);

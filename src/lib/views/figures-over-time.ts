@@ -13,6 +13,11 @@ export function figuresOverTime(rows: readonly { t: number; layersC: readonly (n
 
 const count = (n: number) => n.toLocaleString('en-GB');
 
+/** What a chart point keeps of a reading's figures. */
+export interface PointFigures { soc: number | null; v40L: number | null; quality: PointQuality | null }
+
+export const pointFigures = (f: TankFigures | null): PointFigures | null => (f ? { soc: f.soc, v40L: f.v40L, quality: pointQuality(f) } : null);
+
 /** One reading's quality as the readings API sends it: leftOut and reason only where they say something. */
 export function pointQuality(f: TankFigures | null): PointQuality | null {
   if (!f) return null;

@@ -1,6 +1,6 @@
 // Readings (raw or rolled up) into the columnar series the charts and the CSV read.
 import { ccToC, type TankShape } from './layers';
-import { figuresOverTime, pointQuality, windowQuality } from './figures-over-time';
+import { figuresOverTime, type PointFigures, pointFigures, windowQuality } from './figures-over-time';
 import type { ReadingsResponse, Resolution } from './contracts';
 
 /** A raw reading or a rollup bucket, already decoded to °C. */
@@ -45,13 +45,17 @@ export function rollupToRow(r: RollupRowCc): SeriesRow {
 /**
  * Columns for the charts: one array per layer and per scalar, state of charge and V40 of every
  * point from the thermal core's figures (estimated where a sensor is left out, null where withheld).
- * The figures are worked out over all of `rows` (the range); only points from `meta.since` on (a
+ * The figures are worked out over all of `rows` (the range), unless the caller has them already (`memoFigures`); only points from `meta.since` on (a
  * poll's cursor, default the range's start) are sent, with the quality of those points.
  * Layers beyond the tank's sensor count are dropped; missing ones are null.
  */
-export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: string; sensorCount: number; positionsM: number[] }, meta: { from: Date; to: Date; resolution: Resolution; since?: Date }): ReadingsResponse {
+export function toSeries(
+  rows: readonly SeriesRow[],
+  tank: TankShape & { id: string; sensorCount: number; positionsM: number[] },
+  meta: { from: Date; to: Date; resolution: Resolution; since?: Date },
+  figures: readonly (PointFigures | null)[] = figuresOverTime(rows, tank).map(pointFigures),
+): ReadingsResponse {
   const n = tank.sensorCount;
-  const figures = figuresOverTime(rows, tank);
   const since = (meta.since ?? meta.from).getTime();
   const first = rows.findIndex((r) => r.t >= since);
   const start = first === -1 ? rows.length : first;
@@ -74,7 +78,7 @@ export function toSeries(rows: readonly SeriesRow[], tank: TankShape & { id: str
     }
     out.soc[i] = f?.soc != null ? round(f.soc, 4) : null;
     out.v40L[i] = f?.v40L != null ? round(f.v40L, 1) : null;
-    out.qualityAt[i] = pointQuality(f);
+    out.qualityAt[i] = f?.quality ?? null;
     out.compressor[i] = r.compressor;
     out.immersion[i] = r.immersion;
     out.drawLpm[i] = r.drawLpm;
