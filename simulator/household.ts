@@ -16,7 +16,7 @@ export interface PlannedDraw {
 }
 
 /** Demo choice: bigger households draw the bigger profiles. */
-export function profileFor(occupants: number): TappingProfileSize {
+function profileFor(occupants: number): TappingProfileSize {
   return occupants <= 2 ? 'M' : occupants <= 4 ? 'L' : 'XL';
 }
 

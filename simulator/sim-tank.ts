@@ -47,14 +47,14 @@ const CHARGE_DEADBAND_K = 2;
 export type HeatReason = 'schedule' | 'boost' | 'pasteurisation' | 'comfort' | 'space_heating' | 'solar' | 'fault';
 
 /** Outdoor air, °C: seasonal and daily swing (demo). */
-export function outdoorC(t: number): number {
+function outdoorC(t: number): number {
   const doy = (t % (365.25 * DAY)) / DAY;
   const hour = (t % DAY) / 3_600_000;
   return 10 - 7 * Math.cos((2 * Math.PI * (doy - 20)) / 365.25) + 4 * Math.sin((2 * Math.PI * (hour - 9)) / 24);
 }
 
 /** Mains cold water, °C: lags the seasons (demo). */
-export function coldWaterC(t: number): number {
+function coldWaterC(t: number): number {
   const doy = (t % (365.25 * DAY)) / DAY;
   return 10 - 4 * Math.cos((2 * Math.PI * (doy - 45)) / 365.25);
 }

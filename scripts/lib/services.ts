@@ -19,7 +19,7 @@ function tcpOpen(port: number): Promise<boolean> {
 }
 
 /** The local fake mail server; not started when SMTP_URL points at a real provider. */
-export function mailService(c: RunConfig): ServiceSpec {
+function mailService(c: RunConfig): ServiceSpec {
   return {
     name: 'mail',
     command: process.execPath,
@@ -30,7 +30,7 @@ export function mailService(c: RunConfig): ServiceSpec {
 const fakeMail = (c: RunConfig): ServiceSpec[] => (process.env.SMTP_URL ? [] : [mailService(c)]);
 
 /** The local fake S3 server for photos and documents; not started when S3_ENDPOINT names a real one. */
-export function s3Service(c: RunConfig): ServiceSpec {
+function s3Service(c: RunConfig): ServiceSpec {
   return {
     name: 's3',
     command: process.execPath,
@@ -40,7 +40,7 @@ export function s3Service(c: RunConfig): ServiceSpec {
 }
 const fakeS3 = (c: RunConfig): ServiceSpec[] => (process.env.S3_ENDPOINT ? [] : [s3Service(c)]);
 
-export function webService(c: RunConfig): ServiceSpec {
+function webService(c: RunConfig): ServiceSpec {
   return {
     name: 'web',
     command: process.execPath,
@@ -54,17 +54,17 @@ const tsxProcess = (name: string, script: string) => ({ name, command: process.e
 const mqttUrl = (c: RunConfig) => `mqtt://127.0.0.1:${c.mqttPort}`;
 
 /** The MQTT broker (aedes), ready when it accepts the service account. */
-export function brokerService(c: RunConfig): ServiceSpec {
+function brokerService(c: RunConfig): ServiceSpec {
   return { ...tsxProcess('broker', 'scripts/broker.ts'), ready: () => waitFor('The MQTT broker', () => brokerAcceptsService(mqttUrl(c), servicePassword(process.env))) };
 }
 
 /** The ingest worker, ready when it has subscribed and says so on its retained status topic. */
-export function ingestService(c: RunConfig): ServiceSpec {
+function ingestService(c: RunConfig): ServiceSpec {
   return { ...tsxProcess('ingest', 'scripts/ingest-worker.ts'), ready: () => waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env))) };
 }
 
 /** The demo fleet simulator, ready when its first tank is online (its backfill then runs on, with progress lines). */
-export function simulatorService(c: RunConfig): ServiceSpec[] {
+function simulatorService(c: RunConfig): ServiceSpec[] {
   if (c.simulatorTanks <= 0) return [];
   const first = demoTanks()[0].serial;
   return [{ ...tsxProcess('simulator', 'simulator/index.ts'), ready: () => waitFor('The fleet simulator', () => tankOnline(mqttUrl(c), servicePassword(process.env), first)) }];

@@ -4,7 +4,7 @@ import { staffRoles } from '@/db/schema/companies';
 export interface NavItem { href: string; label: string; roles: readonly Role[] }
 
 /** The app shell's navigation: each person sees the parts of the product their role uses. */
-export const navItems: readonly NavItem[] = [
+const navItems: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', roles: ['admin', 'operator'] },
   { href: '/fleet/energy', label: 'Energy', roles: ['admin', 'operator'] },
   { href: '/alerts', label: 'Alerts', roles: staffRoles },

@@ -31,7 +31,3 @@ export async function createAccount(opts: { company: DemoCompanySlug; role: Role
   return { id: u.id, email, password: password ?? '', companyId: cid };
 }
 
-/** A fresh invented client address (TEST-NET-2, RFC 5737), for tests of the per-address throttle. */
-export function testAddress(): string {
-  return `198.51.100.${Math.floor(Math.random() * 250) + 1}`;
-}

@@ -3,7 +3,7 @@ import pg from 'pg';
 
 let pool: pg.Pool | undefined;
 
-export function testDb(): pg.Pool {
+function testDb(): pg.Pool {
   pool ??= new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 3 });
   return pool;
 }

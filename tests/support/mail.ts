@@ -1,7 +1,7 @@
 // Reading what the fake mail server captured (files under $HEATLAYER_DATA_DIR/mail).
 import { listCapturedMail, mailDir, type CapturedMail } from '../../src/lib/mail/capture';
 
-export function capturedMailDir(): string {
+function capturedMailDir(): string {
   const dataDir = process.env.HEATLAYER_DATA_DIR;
   if (!dataDir) throw new Error('HEATLAYER_DATA_DIR is not set: run the tests through `npm test`.');
   return mailDir(dataDir);

@@ -15,10 +15,10 @@ import {
 import { SERVER_ERROR } from './server-errors';
 
 /** The id of a field's input; its hint and error take `-hint` and `-error` after it. */
-export const fieldId = (name: string, scope = '') => `f-${scope ? `${scope}-` : ''}${name.replace(/\W+/g, '-')}`;
+const fieldId = (name: string, scope = '') => `f-${scope ? `${scope}-` : ''}${name.replace(/\W+/g, '-')}`;
 
 /** A message as it stands beside its field's label: a leading field key ("nightStart must…") is dropped. */
-export function worded(name: string, message: string): string {
+function worded(name: string, message: string): string {
   const key = name.split('.').pop() ?? name;
   const bare = message.startsWith(`${key} `) ? message.slice(key.length + 1) : message;
   return bare.charAt(0).toUpperCase() + bare.slice(1);

@@ -54,7 +54,7 @@ export async function tankIdsBySerial(serials: readonly string[]): Promise<{ id:
 
 // ---------------------------------------------------------------- the inbox
 
-export const alertsPageSize = 50;
+const alertsPageSize = 50;
 
 export interface AlertFilters {
   kind?: AlertKind; severity?: AlertSeverity; state?: AlertState | 'active'; assignee?: string | 'none'; town?: string; tankId?: string; page?: number;

@@ -1,5 +1,5 @@
 /** Audit actions in plain words, for the audit page. Unknown actions show as they are stored. */
-export const auditActionLabels: Record<string, string> = {
+const auditActionLabels: Record<string, string> = {
   'signin.succeeded': 'Signed in',
   'signin.failed': 'Sign-in refused (wrong password)',
   'signin.throttled': 'Sign-in blocked after repeated failures',

@@ -9,15 +9,15 @@ import { staffRoles } from '../../db/schema/companies';
  */
 export const PASSWORD_MIN_LENGTH = 12;
 
-export const emailField = z.string(messages('Enter an e-mail address.')).trim().toLowerCase()
+const emailField = z.string(messages('Enter an e-mail address.')).trim().toLowerCase()
   .email('Enter a valid e-mail address, like name@example.com.').max(320, 'That e-mail address is too long.');
-export const nameField = z.string().trim().max(120, 'Keep the name under 120 characters.').transform((v) => v || null);
-export const passwordField = z.string(messages('Choose a password.'))
+const nameField = z.string().trim().max(120, 'Keep the name under 120 characters.').transform((v) => v || null);
+const passwordField = z.string(messages('Choose a password.'))
   .min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
   .max(256, 'Keep the password under 256 characters.');
 
 export { staffRoles };
-export const staffRoleField = z.enum(staffRoles, { error: 'Choose one of the staff roles.' });
+const staffRoleField = z.enum(staffRoles, { error: 'Choose one of the staff roles.' });
 
 export const staffInvitationSchema = z.object({ email: emailField, name: nameField.optional(), role: staffRoleField });
 export type StaffInvitationInput = z.infer<typeof staffInvitationSchema>;
@@ -25,7 +25,7 @@ export type StaffInvitationInput = z.infer<typeof staffInvitationSchema>;
 export const householderInvitationSchema = z.object({ email: emailField, name: nameField.optional() });
 export type HouseholderInvitationInput = z.infer<typeof householderInvitationSchema>;
 
-export const linkTokenField = z.string(messages('The link is missing its token.')).min(20, 'The link is incomplete.').max(200, 'The link is not valid.');
+const linkTokenField = z.string(messages('The link is missing its token.')).min(20, 'The link is incomplete.').max(200, 'The link is not valid.');
 
 export const acceptInvitationSchema = z.object({ token: linkTokenField, name: nameField.optional(), password: passwordField.optional() });
 export const resetRequestSchema = z.object({ email: emailField });

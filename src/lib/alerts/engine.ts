@@ -73,7 +73,7 @@ export type Transition =
   | { type: 'open'; kind: AlertKind; at: number; evidence: AlertEvidence }
   | { type: 'resolve'; kind: AlertKind; at: number };
 
-export function initialState(sensorCount: number): EngineState {
+function initialState(sensorCount: number): EngineState {
   return {
     v: 1,
     lastTs: null,

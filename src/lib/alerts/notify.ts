@@ -21,10 +21,10 @@ const HOUR = 3_600_000;
 /** Alerts older than this when first noticed (a backlog replayed, a restart) go only to the digest. */
 const IMMEDIATE_WITHIN_MS = 24 * HOUR;
 /** The digest goes out at the start of the working day (common practice), UTC. */
-export const DIGEST_HOUR_UTC = 7;
+const DIGEST_HOUR_UTC = 7;
 
 /** The tank view at the evidence's time. */
-export const tankUrl = (tankId: string, at: number) =>
+const tankUrl = (tankId: string, at: number) =>
   siteUrl(`/tanks/${tankId}?from=${new Date(at - 6 * HOUR).toISOString()}&to=${new Date(at + 6 * HOUR).toISOString()}`);
 const toMail = (a: NotifiableAlert): MailAlert => ({
   kind: a.kind,

@@ -215,7 +215,7 @@ export type ThresholdKey = keyof typeof thresholdFields;
 export type Thresholds = { [K in ThresholdKey]: number } & { severity: Record<AlertKind, AlertSeverity> };
 
 /** Default severity of each kind: health first, then what damages plant or costs money. */
-export const defaultSeverity: Record<AlertKind, AlertSeverity> = {
+const defaultSeverity: Record<AlertKind, AlertSeverity> = {
   legionella_risk: 'critical',
   offline: 'warning',
   sensor_fault: 'warning',

@@ -5,7 +5,7 @@ import { hashPassword, verifyPassword } from '../server/password';
 import { clearSignInFailures, recordSignInFailure, signInVerdict } from './throttle';
 import { normaliseEmail } from './tokens';
 
-export const passwordSignInSchema = z.object({
+const passwordSignInSchema = z.object({
   email: z.string().trim().email('Enter an e-mail address.').max(320),
   password: z.string().min(1, 'Enter your password.').max(1024),
 });

@@ -14,7 +14,7 @@ import { env } from '../server/env';
 export const SESSION_MAX_AGE_S = 7 * 24 * 3600;
 
 /** Auth.js's cookie names: the __Secure- prefix when served over HTTPS. */
-export function sessionCookieName(secure: boolean): string {
+function sessionCookieName(secure: boolean): string {
   return `${secure ? '__Secure-' : ''}authjs.session-token`;
 }
 
@@ -58,7 +58,7 @@ export function clearSessionCookie(cookies: AstroCookies, secure: boolean): void
   cookies.delete(sessionCookieName(secure), { path: '/' });
 }
 
-export function sessionCookieOptions(secure: boolean) {
+function sessionCookieOptions(secure: boolean) {
   return { httpOnly: true, sameSite: 'lax' as const, path: '/', secure };
 }
 

@@ -33,7 +33,7 @@ function numberSchema(field: string, unit: string, min: number, max: number, int
 const number = (field: string, unit: string, min: number, max: number, int = false) => z.preprocess(blankToUndefined, numberSchema(field, unit, min, max, int));
 const optionalNumber = (field: string, unit: string, min: number, max: number, int = false) => z.preprocess(blankToUndefined, numberSchema(field, unit, min, max, int).optional());
 
-export const homeStepSchema = z.object({
+const homeStepSchema = z.object({
   addressLine: text('address'),
   town: text('town', 80),
   postcode: text('postcode', 12),
@@ -111,7 +111,7 @@ export type HeatSourceStep = z.infer<typeof heatSourceStepSchema>;
 /** HSE HSG274 Part 2 (2014): store hot water at 60 °C or above. */
 export const LEGIONELLA_STORE_C = 60;
 
-export const targetStepSchema = z.object({
+const targetStepSchema = z.object({
   targetC: number('target temperature', '°C', 40, 75),
   hysteresisK: number('reheat differential', 'K', 1, 20),
   /** Needed below 60 °C: how stored water is pasteurised instead. */
@@ -130,7 +130,7 @@ export const controlsStepSchema = z.object({
 export type ControlsStep = z.infer<typeof controlsStepSchema>;
 
 // Nothing typed here: the server checks the connection itself. Unknown keys are dropped, not stored.
-export const connectionStepSchema = z.object({});
+const connectionStepSchema = z.object({});
 
 export const safetyItems = [
   { id: 'expansion', label: 'Expansion provision fitted and charged to the manufacturer’s pressure (vessel or air gap)' },
@@ -142,7 +142,7 @@ export const safetyItems = [
 export type SafetyItemId = (typeof safetyItems)[number]['id'];
 
 const tick = (label: string) => z.literal(true, { error: `Check and tick: ${label}.` });
-export const safetyStepSchema = z.object({
+const safetyStepSchema = z.object({
   ...Object.fromEntries(safetyItems.map((i) => [i.id, tick(i.label)])) as Record<SafetyItemId, z.ZodLiteral<true>>,
   competentPerson: z.literal(true, { error: 'Confirm that the work was done by a competent, licensed person under local building regulations.' }),
   registrationNumber: optionalText(60),
@@ -150,9 +150,9 @@ export const safetyStepSchema = z.object({
 export type SafetyStep = z.infer<typeof safetyStepSchema>;
 
 // Photos are uploads (POST /api/uploads); the step itself holds nothing.
-export const photosStepSchema = z.object({});
+const photosStepSchema = z.object({});
 
-export const signoffStepSchema = z.object({
+const signoffStepSchema = z.object({
   householderEmail: z.string(messages('Enter the e-mail address to send the invitation and record to.')).trim().toLowerCase()
     .email('Enter the e-mail address to send the invitation and record to (name@example.com).'),
   notes: optionalText(1000),

@@ -1,7 +1,7 @@
 // The resistances a cylinder controller presents to a heat pump's hot-water sensor input, with
 // the arithmetic written out so the engineer can check it. The numbers come from the thermal
 // core (src/lib/thermal/ntc.ts); this module only formats them.
-import { ntcResistance, thermistorSettings, type BetaThermistor } from '../thermal/index';
+import { thermistorSettings, type BetaThermistor } from '../thermal/index';
 
 export interface SettingLine {
   /** "call" (cylinder wants heat) or "satisfied" (cylinder is hot enough). */
@@ -51,5 +51,3 @@ export function thermistorWorking(input: { sensor: BetaThermistor; callC: number
   };
 }
 
-/** The sensor's own reading at 25 °C (a check that the curve was entered right: it must equal R25). */
-export const checkAt25 = (sensor: BetaThermistor): number => ntcResistance(25, sensor);

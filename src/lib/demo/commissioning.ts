@@ -19,7 +19,7 @@ function callAndSatisfied(t: DemoTank): { callC: number; satisfiedC: number } {
   return { callC: t.targetC - t.hysteresisK, satisfiedC: t.targetC };
 }
 
-export function demoAnswers(t: DemoTank, c: DemoCommissioning): CommissioningAnswers {
+function demoAnswers(t: DemoTank, c: DemoCommissioning): CommissioningAnswers {
   const hp = c.heatPump;
   const raw = {
     home: { addressLine: t.addressLine, town: t.town, postcode: t.postcode, occupants: t.occupants, contactName: t.contactName, contactEmail: t.contactEmail },

@@ -16,7 +16,7 @@ export type FaultKind = (typeof faultKinds)[number];
 export interface CylinderModel { model: string; volumeL: number; heightM: number; sensorCount: number; declaredLossW: number }
 
 /** Generic, invented cylinder models. Declared losses sit in the range typical of class B/C tanks (demo values). */
-export const cylinderModels: readonly CylinderModel[] = [
+const cylinderModels: readonly CylinderModel[] = [
   { model: 'C150 cylinder', volumeL: 150, heightM: 1.05, sensorCount: 8, declaredLossW: 48 },
   { model: 'C180 cylinder', volumeL: 180, heightM: 1.2, sensorCount: 10, declaredLossW: 52 },
   { model: 'C210 cylinder', volumeL: 210, heightM: 1.4, sensorCount: 12, declaredLossW: 57 },

@@ -1,21 +1,14 @@
 // The part of the energy core the browser may import (React islands): tariff schemas, prices and
 // the home's clock. The rest of the core goes through index.ts; it reaches csv-parse, which needs
 // Node's Buffer and would stop an island from hydrating.
-export { HALF_HOUR_MS, PENCE_PER_POUND, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
+export { HALF_HOUR_MS, kWhPerLitreAt40 } from './units.js';
 export {
-  zoneOffsetMs,
   localMinuteOfDay,
   localHourOfWeek,
   localDate,
   localDayBounds,
-  isTimeZone,
 } from './local-time.js';
 export {
-  priceUnits,
-  MAX_PRICE_PENCE,
-  flatTariffInput,
-  dayNightTariffInput,
-  tariffInput,
   parseTariff,
   priceAt,
 } from './tariff.js';

@@ -5,8 +5,8 @@
 export { EnergyInputError } from './errors.js';
 // The browser-safe part (units, the home's clock, tariff schemas and prices), then what only the server uses.
 export * from './browser.js';
-export { MIN_NEGATIVE_PRICE_PENCE, pencePerUnit, importPriceSeries } from './tariff.js';
-export { parseHalfHourlyCsv, MAX_CSV_ROWS } from './tariff-csv.js';
+export { importPriceSeries } from './tariff.js';
+export { parseHalfHourlyCsv } from './tariff-csv.js';
 export type { TariffRowError, HalfHourlyCsvOptions } from './tariff-csv.js';
 
 export { accountDay, rollUpMonths } from './accounting.js';
@@ -25,11 +25,10 @@ export type {
   CompressorMemory,
   PlannerTuning,
 } from './planner.js';
-export { buildPlanModel, v40Curve, PLAN_ACTIONS } from './plan-model.js';
+export { buildPlanModel, v40Curve } from './plan-model.js';
 export type { PlanModel, PlanModelInput, PlanAction, Transition, V40Curve } from './plan-model.js';
-export { solveDp, nextMemory } from './plan-dp.js';
+export { solveDp } from './plan-dp.js';
 export type { DpResult, DpSettings, StartMemory } from './plan-dp.js';
-export { simulate, baselineController, MAX_DRAW_LPM } from './plan-simulation.js';
 export type {
   BaselineRule,
   Controller,

@@ -52,7 +52,7 @@ function computeOffset(ms: number, timeZone: string): number {
 }
 
 /** Offset of local time from UTC at instant `ms` (epoch ms), milliseconds (e.g. 3 600 000 in British Summer Time). */
-export function zoneOffsetMs(ms: number, timeZone: string): number {
+function zoneOffsetMs(ms: number, timeZone: string): number {
   let zone = offsets.get(timeZone);
   if (!zone) offsets.set(timeZone, (zone = new Map()));
   const bucket = Math.floor(ms / BUCKET_MS);

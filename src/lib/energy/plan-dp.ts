@@ -42,7 +42,7 @@ export interface DpResult {
 const EPS = 1e-9;
 
 /** Memory after `action` from (running, m); null when the action is a start the spacing forbids. */
-export function nextMemory(
+function nextMemory(
   running: boolean,
   m: number,
   action: PlanAction,

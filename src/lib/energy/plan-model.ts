@@ -40,7 +40,7 @@ import { J_PER_KWH, V40_DELIVERY_C, kWhPerLitreAt40 } from './units.js';
 /** A step's action: bit 2 heat pump, bit 1 immersion (0 none, 1 immersion, 2 heat pump, 3 both). */
 export type PlanAction = 0 | 1 | 2 | 3;
 /** All actions, in the order ties are broken (cheapest to run first). */
-export const PLAN_ACTIONS: readonly PlanAction[] = [0, 1, 2, 3];
+const PLAN_ACTIONS: readonly PlanAction[] = [0, 1, 2, 3];
 
 /** The reduced, discretised model of one planning problem. Energies kWh, prices p/kWh. */
 export interface PlanModel {
@@ -130,14 +130,14 @@ export function v40Curve(spec: TankSpec, coldC: number, topC: number): V40Curve 
 }
 
 /** Fraction of the nodes at and above the immersion element (the part it can heat). */
-export function immersionShare(spec: TankSpec): number {
+function immersionShare(spec: TankSpec): number {
   const n = tankNodeCount(spec);
   const k = Math.min(n - 1, Math.floor(spec.immersionHeightFrac * n));
   return (n - k) / n;
 }
 
 /** Heat capacity of the stored water, kWh/K, with the tank model's properties. */
-export function capacityKWhPerK(spec: TankSpec): number {
+function capacityKWhPerK(spec: TankSpec): number {
   return ((spec.volumeL / 1000) * waterDensity(MODEL_PROPERTY_C) * waterCp(MODEL_PROPERTY_C)) / J_PER_KWH;
 }
 

@@ -8,7 +8,7 @@ import { localMinuteOfDay } from './local-time.js';
 import { J_PER_KWH, kWhPerLitreAt40, V40_DELIVERY_C } from './units.js';
 
 /** Highest draw flow the simulation uses, litres per minute (a bath tap; common practice). */
-export const MAX_DRAW_LPM = 12;
+const MAX_DRAW_LPM = 12;
 
 /** What the sources do during one sub-step. */
 export interface SourceCommand {

@@ -35,7 +35,7 @@ export interface HalfHourlyCsvOptions {
 }
 
 /** Most rows one upload may carry: three years of half hours (product limit). */
-export const MAX_CSV_ROWS = 3 * 366 * 48;
+const MAX_CSV_ROWS = 3 * 366 * 48;
 
 const COLUMNS = ['start', 'end', 'import', 'export', 'unit'] as const;
 const INSTANT = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:\d{2})$/;

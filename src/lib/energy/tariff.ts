@@ -16,9 +16,9 @@ export type PriceUnit = (typeof priceUnits)[number];
  * Highest plausible import or export price, p/kWh: anything above is taken for a unit mistake
  * (pence entered as pounds) and refused. A product limit (common practice), not a market rule.
  */
-export const MAX_PRICE_PENCE = 500;
+const MAX_PRICE_PENCE = 500;
 /** Lowest import price accepted where a tariff allows negative prices, p/kWh (product limit, common practice). */
-export const MIN_NEGATIVE_PRICE_PENCE = -100;
+const MIN_NEGATIVE_PRICE_PENCE = -100;
 
 /** Multiplier from `unit` to p/kWh. */
 export function pencePerUnit(unit: PriceUnit): number {
@@ -136,7 +136,7 @@ export interface Price {
 }
 
 /** Form or API input of a flat tariff: prices in `unit`, instants as ISO 8601 strings. */
-export const flatTariffInput = z
+const flatTariffInput = z
   .object({ kind: z.literal('flat'), ...common, import: price('import'), export: price('export').default(0) })
   .strict()
   .superRefine((t, ctx) => {
@@ -157,7 +157,7 @@ export const flatTariffInput = z
   );
 
 /** Form or API input of a day/night tariff: night window as local HH:MM times in `timeZone`. */
-export const dayNightTariffInput = z
+const dayNightTariffInput = z
   .object({
     kind: z.literal('day_night'),
     ...common,
@@ -202,9 +202,6 @@ export const dayNightTariffInput = z
       validToMs: t.validTo,
     };
   });
-
-/** Form or API input of flat and day/night tariffs. Half-hourly prices come through {@link parseHalfHourlyCsv}. */
-export const tariffInput = z.union([flatTariffInput, dayNightTariffInput]);
 
 /** A refusal naming the field (dotted path) and why. */
 export interface FieldError {

@@ -8,7 +8,7 @@ type Raw = Record<string, unknown>;
 const str = (v: unknown): string | null => (typeof v === 'string' ? v : null);
 
 /** One command from the endpoint's answer, whichever envelope it uses. */
-export function toCommandView(raw: Raw): CommandView {
+function toCommandView(raw: Raw): CommandView {
   const c = (raw.command && typeof raw.command === 'object' && 'id' in (raw.command as Raw) ? raw.command : raw) as Raw;
   return {
     id: String(c.id ?? ''), kind: String(c.kind ?? ''), state: String(c.state ?? 'queued'),
@@ -17,7 +17,7 @@ export function toCommandView(raw: Raw): CommandView {
   };
 }
 
-export function commandList(body: unknown): CommandView[] {
+function commandList(body: unknown): CommandView[] {
   const arr = Array.isArray(body) ? body : body && typeof body === 'object' ? ((body as Raw).items ?? (body as Raw).commands) : null;
   return Array.isArray(arr) ? arr.map((x) => toCommandView(x as Raw)) : [];
 }

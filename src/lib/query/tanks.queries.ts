@@ -5,13 +5,13 @@ import { mergeSeries } from '../views/series-merge';
 import { fetchJson } from './client';
 
 /** New readings arrive about once a minute; polling at 10 s shows them within the live target. */
-export const LIVE_MS = 10_000;
+const LIVE_MS = 10_000;
 
 export interface TankListParams {
   q?: string; status?: string; alert?: string; town?: string; heatSource?: string; sort?: string; dir?: 'asc' | 'desc'; page: number; pageSize: number;
 }
 
-export function toSearch(params: object): string {
+function toSearch(params: object): string {
   const s = new URLSearchParams();
   for (const [k, v] of Object.entries(params)) if (v !== undefined && v !== null && v !== '') s.set(k, String(v));
   return s.toString();
@@ -37,7 +37,7 @@ export const tankQuery = (id: string) => queryOptions({
 });
 
 /** A live window is fetched in full at most this often; polls between fetch only what is new. */
-export const FULL_REFETCH_MS = 5 * 60_000;
+const FULL_REFETCH_MS = 5 * 60_000;
 
 /** The readings in a window, with when it was last fetched in full (late readings are picked up then). */
 export type ReadingsWindow = ReadingsResponse & { fullAt: number };

@@ -104,7 +104,7 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/fleet/energy': { GET: desk },
 };
 
-export { desk, everyone, staff };
+;
 
 /** The rule for a route and method, or undefined when the route does not allow it. */
 export function accessFor(routePattern: string, method: string): AccessRule | undefined {

@@ -68,7 +68,7 @@ function badText(value: unknown, path: string): { field: string; message: string
  * 400 when it is not JSON or a text field holds what PostgreSQL cannot store (NUL, broken
  * UTF-16) or control characters. An empty body is `emptyAs` when given, otherwise 400.
  */
-export async function readJson(request: Request, options: { emptyAs?: unknown } = {}): Promise<unknown> {
+async function readJson(request: Request, options: { emptyAs?: unknown } = {}): Promise<unknown> {
   const text = (await readBoundedBody(request, MAX_JSON_BODY_BYTES, jsonTooLarge)).toString('utf8');
   if (!text.trim() && 'emptyAs' in options) return options.emptyAs;
   let raw: unknown;

@@ -7,7 +7,7 @@ import { parseTrustedProxies } from './client-address';
  */
 const port = (fallback: number) => z.coerce.number().int().min(1).max(65535).default(fallback);
 
-export const envSchema = z.object({
+const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   HOST: z.string().default('127.0.0.1'),
   PORT: port(4321),

@@ -27,7 +27,7 @@ export function isHttps(context: RequestLike): boolean {
 }
 
 /** The origins our own pages are served from: AUTH_URL's and the one this request came to. */
-export function ownOrigins(context: RequestLike): Set<string> {
+function ownOrigins(context: RequestLike): Set<string> {
   const origins = new Set([context.url.origin]);
   const authUrl = env().AUTH_URL;
   if (authUrl) origins.add(new URL(authUrl).origin);

@@ -23,10 +23,10 @@ export const pageCspDirectives: Directive[] = [
 ];
 
 /** Everything that is not a page: nothing in it may run or load, and no site may frame it. */
-export const resourceCsp = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
+const resourceCsp = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
 
 /** Headers every answer carries. */
-export const securityHeaders: Readonly<Record<string, string>> = {
+const securityHeaders: Readonly<Record<string, string>> = {
   'Content-Security-Policy': resourceCsp,
   // Browsers take the declared Content-Type only, never a type guessed from the bytes (uploads).
   'X-Content-Type-Options': 'nosniff',

@@ -3,7 +3,7 @@ import { accountDay, localDate, localDayBounds, rollUpMonths } from '../energy';
 import type { AccountingTank, DayEnergy, EnergyReading, MonthEnergy, Tariffs } from '../energy';
 
 /** The calendar dates from `from` to `to` inclusive ("YYYY-MM-DD"). */
-export function datesBetween(from: string, to: string): string[] {
+function datesBetween(from: string, to: string): string[] {
   const out: string[] = [];
   for (let ms = Date.parse(`${from}T00:00:00Z`); ms <= Date.parse(`${to}T00:00:00Z`); ms += 86_400_000) {
     out.push(new Date(ms).toISOString().slice(0, 10));

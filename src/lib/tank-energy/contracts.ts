@@ -6,7 +6,7 @@ import type { Fence, outlierRule } from './fleet-outliers';
 /** The household clock every demo home keeps. */
 export const HOME_TIME_ZONE = 'Europe/London';
 /** Longest range one energy request may account, days (a product limit: about 90,000 readings). */
-export const MAX_ENERGY_DAYS = 62;
+const MAX_ENERGY_DAYS = 62;
 
 const date = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'must be a date written YYYY-MM-DD').refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)), 'is not a calendar date');
 
@@ -74,7 +74,7 @@ export interface PlanResponse {
 }
 
 /** Longest range the fleet figures compare, days (stored days are kept 400). */
-export const MAX_FLEET_ENERGY_DAYS = 366;
+const MAX_FLEET_ENERGY_DAYS = 366;
 
 /**
  * GET /api/fleet/energy?from&to: local calendar dates, inclusive; by default the 30 days that ended

@@ -30,11 +30,11 @@ export interface StoredReading {
 }
 
 /** Air around an indoor cylinder, °C: EN 12897 measures standing loss in a room at about 20 °C (from memory). */
-export const AMBIENT_C = 20;
+const AMBIENT_C = 20;
 /** Standing loss assumed when none was declared, W (the alert rules' default; common practice for a 200 L cylinder). */
-export const DEFAULT_LOSS_W = 60;
+const DEFAULT_LOSS_W = 60;
 /** A declared standing loss is measured with the store 45 K above the room (EN 12897, from memory): UA = S / 45 K. */
-export const DECLARED_LOSS_DELTA_K = 45;
+const DECLARED_LOSS_DELTA_K = 45;
 
 /**
  * Readings in core units, oldest first, each column as the thermal core's figures give it: a
@@ -59,7 +59,7 @@ export function energyReadings(rows: readonly StoredReading[], tank: EnergyTankF
   return out;
 }
 
-export function uaWPerK(t: Pick<EnergyTankFacts, 'declaredLossW'>): number {
+function uaWPerK(t: Pick<EnergyTankFacts, 'declaredLossW'>): number {
   return (t.declaredLossW ?? DEFAULT_LOSS_W) / DECLARED_LOSS_DELTA_K;
 }
 

@@ -11,7 +11,7 @@ import { scheduleWindows } from './schedule-command';
  * Source temperature for the heat pump's COP while no weather feed exists, °C: the A7 rating point
  * of EN 14511 (from memory), a mild UK winter day.
  */
-export const PLAN_SOURCE_C = 7;
+const PLAN_SOURCE_C = 7;
 
 export interface PlanFacts {
   tank: EnergyTankFacts & { occupants: number | null };

@@ -7,7 +7,7 @@
 import { localMinuteOfDay } from '../energy';
 import type { CommandWindow } from '../energy';
 
-export const MAX_SCHEDULE_WINDOWS = 6;
+const MAX_SCHEDULE_WINDOWS = 6;
 const DAY_MIN = 24 * 60;
 
 const hhmm = (m: number): string => `${String(Math.floor(m / 60) % 24).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;

@@ -13,10 +13,10 @@ import { publishAsService } from './service-client.server';
 import { CREDENTIALS_ROTATED_TOPIC, topicFor, type CommandMessage, type CommandRequest } from './wire';
 
 /** A command not received by then is dropped by the device (it would surprise people hours later). */
-export const COMMAND_TTL_MS = 60 * 60_000;
+const COMMAND_TTL_MS = 60 * 60_000;
 
 /** HSE HSG274 Part 2 (2014): store hot water at 60 °C or above. */
-export const LEGIONELLA_STORE_C = 60;
+const LEGIONELLA_STORE_C = 60;
 
 export interface TankRef { id: string; serial: string; companyId: string }
 

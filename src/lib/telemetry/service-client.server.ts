@@ -35,8 +35,3 @@ export async function publishAsService(topic: string, payload: string, timeoutMs
   }
 }
 
-export async function closeServiceClient(): Promise<void> {
-  const c = client;
-  client = null;
-  if (c) await (await c.catch(() => null))?.endAsync();
-}

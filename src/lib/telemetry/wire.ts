@@ -5,7 +5,7 @@
 // Device-facing errors are turned into the contract's own field list below (`zodFieldErrors`).
 import { z } from '@/lib/zod';
 
-export const WIRE_VERSION = 'v1';
+const WIRE_VERSION = 'v1';
 const PREFIX = `heatlayer/${WIRE_VERSION}/tanks`;
 
 /** A tank serial as used in topics and as the MQTT username. */
@@ -171,7 +171,7 @@ function fieldErrors(error: z.ZodError, prefix = ''): FieldError[] {
 }
 
 /** Validates one reading against the schema and the sending tank. */
-export function parseReading(raw: unknown, ctx: ParseContext, index: number | null): { reading: Reading } | { rejected: Omit<RejectedReading, 'index' | 'raw'> } {
+function parseReading(raw: unknown, ctx: ParseContext, index: number | null): { reading: Reading } | { rejected: Omit<RejectedReading, 'index' | 'raw'> } {
   const prefix = index === null ? '' : `readings[${index}].`;
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
     return { rejected: { code: 'InvalidReading', reason: 'A reading must be a JSON object.', fields: [{ field: index === null ? '(body)' : `readings[${index}]`, message: 'must be an object with ts and layersC.' }] } };
@@ -313,4 +313,3 @@ export const commandReplySchema = z.object({
 export type CommandReply = z.infer<typeof commandReplySchema>;
 
 export { fieldErrors as zodFieldErrors };
-export const statusValues = ['online', 'offline'] as const;

@@ -53,7 +53,7 @@ export interface StoredReading {
 const cc = (c: number | undefined) => (c === undefined ? null : Math.round(c * 100));
 const round = (x: number | undefined) => (x === undefined ? null : Math.round(x));
 
-export function toStored(tankId: string, r: Reading): StoredReading {
+function toStored(tankId: string, r: Reading): StoredReading {
   return {
     tankId, ts: r.ts, seq: r.seq ?? null,
     layersCc: r.layersC.map((t) => (t === null ? null : Math.round(t * 100))),

@@ -3,7 +3,7 @@
 // Layer arrays run bottom to top. Modules inside this folder are private to it.
 export { ThermalInputError } from './errors.js';
 
-export { if97Region1, waterDensity, waterCp, waterEnthalpy, CYLINDER_PRESSURE_MPA } from './water.js';
+export { if97Region1, waterDensity, waterCp, waterEnthalpy } from './water.js';
 export type { If97Region1 } from './water.js';
 
 export { storedEnergyKWh, mixedWaterLitres, stateOfCharge } from './energy.js';
@@ -62,13 +62,9 @@ export {
 export type { TankGeometry, TankFigures, FiguresQuality, FiguresStatus, FigureOptions } from './figures.js';
 
 export {
-  sensorFaults,
-  implausible,
-  inverted,
   stepStuck,
   initialStuck,
   stuckSensors,
-  DEFAULT_SENSOR_LIMITS,
   DEFAULT_STUCK_LIMITS,
 } from './sensor-check.js';
 export type { SensorFault, SensorLimits, StuckLimits, StuckState } from './sensor-check.js';

@@ -17,16 +17,12 @@ export const DEFAULT_SENSOR_LIMITS: SensorLimits = { minC: 1, maxC: 99, inversio
 export type SensorFault = 'missing' | 'out_of_range' | 'stuck' | 'out_of_order';
 
 /** True when a value is missing or outside the plausible range. */
-export function implausible(v: number | null | undefined, limits: SensorLimits): boolean {
+function implausible(v: number | null | undefined, limits: SensorLimits): boolean {
   return v === null || v === undefined || !Number.isFinite(v) || v < limits.minC || v > limits.maxC;
 }
 
 /** True when the lower of two adjacent readings is warmer than the upper beyond the limit. */
-export function inverted(
-  below: number | null | undefined,
-  above: number | null | undefined,
-  limits: SensorLimits,
-): boolean {
+function inverted(below: number | null | undefined, above: number | null | undefined, limits: SensorLimits): boolean {
   return below != null && above != null && below - above > limits.inversionK;
 }
 

@@ -3,8 +3,8 @@
 import { ThermalInputError } from './errors.js';
 
 /** Lowest and highest layer temperature accepted, °C (liquid water in a cylinder). */
-export const MIN_WATER_C = 0;
-export const MAX_WATER_C = 100;
+const MIN_WATER_C = 0;
+const MAX_WATER_C = 100;
 
 function describe(value: unknown): string {
   if (typeof value === 'number') return Number.isNaN(value) ? 'NaN' : String(value);

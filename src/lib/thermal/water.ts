@@ -121,7 +121,7 @@ export function if97Region1(temperatureK: number, pressureMPa: number): If97Regi
  * a typical unvented-cylinder working pressure (common practice). Between 0.1 and 0.3 MPa
  * density changes by under 0.01 %, so vented cylinders are served as well.
  */
-export const CYLINDER_PRESSURE_MPA = 0.3;
+const CYLINDER_PRESSURE_MPA = 0.3;
 
 // Liquid properties are tabulated once at 0.1 K steps over 0–100 °C and interpolated
 // linearly: the hot paths (fleet state of charge, V40) then cost a lookup, not 34 powers.

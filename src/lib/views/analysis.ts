@@ -10,9 +10,9 @@ import { figuresOverTime, pointQuality, windowQuality } from './figures-over-tim
  * Air around an indoor cylinder, °C, assumed for the cooling fit: the ambient of the standing-loss
  * test in EN 12897 (20 °C, from memory). The page shows the assumption.
  */
-export const ASSUMED_AMBIENT_C = 20;
+const ASSUMED_AMBIENT_C = 20;
 /** Shortest quiet stretch worth fitting, hours (the thermal core's default is 4). */
-export const MIN_QUIET_H = 4;
+const MIN_QUIET_H = 4;
 
 /** Stretches with no heating and no draw and every sensor reading, longest first. */
 export function quietPeriods(rows: readonly SeriesRow[], maxGapMs = 15 * 60_000): SeriesRow[][] {

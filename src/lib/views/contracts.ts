@@ -9,7 +9,7 @@ import type { ColumnFigures, FiguresQuality } from './layers';
 import type { FiguresStatus } from '../thermal';
 import type { AlertSeverity } from '../alerts/types';
 
-export const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
+const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
 export type TankSortKey = (typeof tankSortKeys)[number];
 
 const optionalText = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`).optional().transform((v) => (v ? v : undefined));
@@ -29,13 +29,11 @@ export type TanksQuery = z.infer<typeof tanksQuerySchema>;
 
 export const resolutions = ['raw', '15m', '1h'] as const;
 export type Resolution = (typeof resolutions)[number];
-/** Seconds a rollup step spans. */
-export const resolutionStepS: Record<Exclude<Resolution, 'raw'>, number> = { '15m': 900, '1h': 3600 };
 /** Longest span each resolution serves, so one answer stays small (raw: about 11,500 readings at one a minute). */
-export const maxSpanMs: Record<Resolution, number> = { raw: 8 * 86_400_000, '15m': 62 * 86_400_000, '1h': 400 * 86_400_000 };
+const maxSpanMs: Record<Resolution, number> = { raw: 8 * 86_400_000, '15m': 62 * 86_400_000, '1h': 400 * 86_400_000 };
 
 /** The step that keeps a range to a few hundred to a couple of thousand points. */
-export function autoResolution(spanMs: number): Resolution {
+function autoResolution(spanMs: number): Resolution {
   if (spanMs <= 36 * 3_600_000) return 'raw';
   if (spanMs <= 10 * 86_400_000) return '15m';
   return '1h';
@@ -90,10 +88,10 @@ export const eventsQuerySchema = z.object({ from: isoTime('from').optional(), to
 });
 
 /** Longest range a link may open (the custom range's limit, and what the events endpoint serves). */
-export const maxLinkSpanMs = 62 * 86_400_000;
+const maxLinkSpanMs = 62 * 86_400_000;
 
 /** `?from=&to=` on a tank page (alert links carry them): both ISO 8601 with a zone, from before to. */
-export const linkRangeSchema = z.object({
+const linkRangeSchema = z.object({
   from: z.string(messages('from is missing (the link gives to without it).')).pipe(isoTime('from')),
   to: z.string(messages('to is missing (the link gives from without it).')).pipe(isoTime('to')),
 }).transform((v, ctx) => {

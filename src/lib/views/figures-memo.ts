@@ -11,7 +11,7 @@ import { geometryOf, type TankShape } from './layers';
 
 interface Memo { shape: string; first: number; last: number; check: StuckState; at: Map<number, PointFigures | null> }
 
-/** Raw readings are served for at most 36 h; older figures are let go. */
+/** The tank page's live raw windows reach back 24 h (raw is chosen up to 36 h); older figures are let go. */
 const KEEP_MS = 36 * 3_600_000;
 /** About 300 kB a tank with a 36-hour window: tanks staff have open, most recently used kept. */
 const MAX_TANKS = 100;

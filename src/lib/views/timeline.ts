@@ -46,7 +46,7 @@ export function timelineBars(items: readonly TimelineEvent[], from: number, to: 
   return out;
 }
 
-export function describeEvent(e: TimelineEvent): string {
+function describeEvent(e: TimelineEvent): string {
   const at = new Date(e.startedAt);
   const mins = e.endedAt ? Math.round((Date.parse(e.endedAt) - at.getTime()) / 60000) : null;
   const time = at.toISOString().slice(11, 16);

@@ -18,14 +18,14 @@ export const HOUR = 60 * MIN;
 export const DAY = 24 * HOUR;
 
 /** Demo tanks by index within Kestrel Vale (the scenario is deterministic). */
-export const demo = (i: number): DemoTank => demoTanks().filter((t) => t.companySlug === 'kestrel-vale')[i]!;
+const demo = (i: number): DemoTank => demoTanks().filter((t) => t.companySlug === 'kestrel-vale')[i]!;
 
 /**
  * Healthy tanks for these tests: demo tanks set to store at 60 °C, as HSE HSG274 Part 2 (2014) asks
  * (a healthy tank kept at 50 °C is, by that guidance, a legionella risk, so it cannot serve as a
  * tank that should raise nothing). Air-source with plate and coil, and immersion-only.
  */
-export const HEALTHY = [3, 18, 27, 15] as const;
+const HEALTHY = [3, 18, 27, 15] as const;
 
 export interface SimTankRow { id: string; serial: string; homeId: string; sim: SimTank; demo: DemoTank; offlineWindows: boolean }
 export interface AlertCompany { id: string; slug: string; name: string; operator: { id: string; email: string }; householder: { id: string; email: string } }

@@ -8,7 +8,7 @@ import { baseUrl } from '../../support/browser';
 import { query } from '../../support/db';
 import { signIn } from '../../support/session';
 
-export const roles = ['admin', 'operator', 'engineer', 'householder'] as const satisfies readonly Role[];
+const roles = ['admin', 'operator', 'engineer', 'householder'] as const satisfies readonly Role[];
 
 export interface Playground {
   companyId: string;

@@ -89,3 +89,39 @@ describe('import boundaries', () => {
     );
   });
 });
+
+// knip follows imports from the entry points in knip.json (scripts, pages, tests, benches) and
+// fails on an export nothing imports, a file nothing reaches, or one thing exported twice.
+describe('knip', () => {
+  const knip = join(root, 'node_modules/.bin/knip');
+  const runKnip = (cwd: string) => {
+    const r = spawnSync(knip, ['--no-progress', '--no-config-hints'], { cwd, encoding: 'utf8' });
+    return { status: r.status, out: `${r.stdout}${r.stderr}` };
+  };
+
+  it('finds no unused export or file in the project', () => {
+    const r = runKnip(root);
+    expect(r.status, r.out).toBe(0);
+  });
+
+  it('fails on an export nothing imports', () => {
+    const scratch = mkdtempSync(join(tmpdir(), 'heatlayer-knip-'));
+    try {
+      writeFileSync(join(scratch, 'package.json'), '{ "name": "probe", "private": true, "type": "module" }');
+      cpSync(join(root, 'knip.json'), join(scratch, 'knip.json'));
+      mkdirSync(join(scratch, 'scripts'));
+      mkdirSync(join(scratch, 'src/lib'), { recursive: true });
+      writeFileSync(
+        join(scratch, 'scripts/probe.ts'),
+        "import { used } from '../src/lib/probe';\nconsole.log(used);\n",
+      );
+      writeFileSync(join(scratch, 'src/lib/probe.ts'), 'export const used = 1;\nexport const forgotten = 2;\n');
+      const r = runKnip(scratch);
+      expect(r.status).not.toBe(0);
+      expect(r.out).toMatch(/forgotten/);
+      expect(r.out).not.toMatch(/\bused\b/);
+    } finally {
+      rmSync(scratch, { recursive: true, force: true });
+    }
+  });
+});

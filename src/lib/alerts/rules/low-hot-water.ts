@@ -61,7 +61,7 @@ export function learnFromBatch(
 
 const priors = new Map<number, number[]>();
 
-export function demandModel(s: LowHotWaterState, occupants: number): DemandModel {
+function demandModel(s: LowHotWaterState, occupants: number): DemandModel {
   let prior = priors.get(occupants);
   if (!prior) priors.set(occupants, (prior = demandPrior(occupants)));
   return {
