@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
+import { lazy, Suspense, useEffect, useState } from 'react';
 import { ApiError } from '../lib/query/client';
 import { commandsQuery, isSettled, sendCommand, type CommandView } from '../lib/query/commands.queries';
 import { withQuery } from '../lib/query/provider';
@@ -13,6 +13,9 @@ import { HotWaterCost } from './energy/HotWaterCost';
 import { cn } from './ui/cn';
 import { ErrorNotice, Loading, OfflineBanner } from './ui/States';
 import { useNow } from './ui/useOnline';
+
+// The sizes form (react-hook-form and zod) loads when its section is opened, not with the page.
+const AssumptionsForm = lazy(() => import('./home/AssumptionsForm'));
 
 const ASSUMPTIONS_KEY = 'heatlayer.home.assumptions.v1';
 const standard = defaultAssumptions();
@@ -90,18 +93,11 @@ function HomeHotWater({ tankId, initialSchedule }: { tankId: string; initialSche
         <details className="mt-3 text-sm" open={editing} onToggle={(e) => setEditing((e.target as HTMLDetailsElement).open)}>
           <summary className="cursor-pointer text-dusk underline-offset-2 hover:underline">How we count showers and baths</summary>
           <p className="mt-2 text-ink-soft">A shower here uses {assumptions.showerL} litres of warm water and a bath {assumptions.bathL} litres. The standard sizes ({standard.showerL} and {standard.bathL} litres) come from the test cycles in EN 16147. Change them to match your home:</p>
-          <form className="mt-2 grid grid-cols-2 gap-3" onSubmit={(e) => {
-            e.preventDefault();
-            const data = new FormData(e.currentTarget);
-            const showerL = Number(data.get('showerL'));
-            const bathL = Number(data.get('bathL'));
-            if (showerL >= 5 && showerL <= 300 && bathL >= 20 && bathL <= 400) setAssumptions({ showerL, bathL });
-          }}>
-            <div><label className="label" htmlFor="shower-l">Litres per shower</label><input id="shower-l" name="showerL" type="number" min={5} max={300} defaultValue={assumptions.showerL} className="field" required /></div>
-            <div><label className="label" htmlFor="bath-l">Litres per bath</label><input id="bath-l" name="bathL" type="number" min={20} max={400} defaultValue={assumptions.bathL} className="field" required /></div>
-            <button type="submit" className="btn-primary">Save</button>
-            <button type="button" className="btn-quiet" onClick={() => setAssumptions(standard)}>Use standard sizes</button>
-          </form>
+          {editing && (
+            <Suspense fallback={<p className="mt-2 text-ink-muted">Loading…</p>}>
+              <AssumptionsForm value={assumptions} standard={standard} onSave={setAssumptions} />
+            </Suspense>
+          )}
         </details>
         <p className="mt-3 text-xs text-ink-muted">Last heard from your cylinder {fmtAgo(t.latest?.lastSeenAt, now)}.</p>
       </section>

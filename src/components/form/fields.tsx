@@ -131,7 +131,7 @@ function Below({ id, name, hint, error }: { id: string; name: string; hint?: Rea
 interface FieldProps {
   name: string;
   label: string;
-  type?: 'text' | 'email' | 'password' | 'number' | 'tel' | 'date';
+  type?: 'text' | 'email' | 'password' | 'number' | 'tel' | 'date' | 'datetime-local';
   hint?: ReactNode;
   unit?: string;
   inputMode?: 'numeric' | 'decimal' | 'text' | 'email' | 'tel';

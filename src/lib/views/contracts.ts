@@ -88,7 +88,7 @@ export const eventsQuerySchema = z.object({ from: isoTime('from').optional(), to
 });
 
 /** Longest range a link may open (the custom range's limit, and what the events endpoint serves). */
-const maxLinkSpanMs = 62 * 86_400_000;
+export const maxLinkSpanMs = 62 * 86_400_000;
 
 /** `?from=&to=` on a tank page (alert links carry them): both ISO 8601 with a zone, from before to. */
 const linkRangeSchema = z.object({

@@ -13,17 +13,6 @@ export function rangeBounds(choice: RangeChoice, now: number): { from: number; t
   return { from: to - presetMs[choice.preset], to };
 }
 
-/** A custom range from two datetime-local strings, or an error naming the field. */
-export function parseCustomRange(fromLocal: string, toLocal: string): { from: number; to: number } | { field: 'from' | 'to'; message: string } {
-  const from = Date.parse(fromLocal);
-  const to = Date.parse(toLocal);
-  if (!Number.isFinite(from)) return { field: 'from', message: 'Enter a start date and time.' };
-  if (!Number.isFinite(to)) return { field: 'to', message: 'Enter an end date and time.' };
-  if (to <= from) return { field: 'to', message: 'The end must be after the start.' };
-  if (to - from > 62 * 86_400_000) return { field: 'to', message: 'Choose at most 62 days.' };
-  return { from, to };
-}
-
 /** The span an alert opens on: six hours either side of the time its evidence points at (as alert links do). */
 export function aroundEvidence(at: number): { from: number; to: number } {
   return { from: at - 6 * 3_600_000, to: at + 6 * 3_600_000 };

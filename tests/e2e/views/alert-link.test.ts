@@ -74,6 +74,15 @@ describe('a tank opened from an alert link', () => {
     await page.reload();
     await waitForIslands(page);
     await page.getByText('720 points, every reading').waitFor();
+
+    // A range that ends before it starts is refused beside its field, and the range shown stays.
+    await page.getByLabel('To', { exact: true }).fill(localInput(at - 7 * HOUR));
+    await page.getByRole('button', { name: 'Show', exact: true }).click();
+    await expect(page.locator('#f-range-to-error').textContent()).resolves.toBe('The end must be after the start.');
+    expect(await page.getByLabel('To', { exact: true }).getAttribute('aria-invalid')).toBe('true');
+    expect(Object.fromEntries(new URL(page.url()).searchParams)).toEqual({ from, to });
+    await page.getByText('720 points, every reading').waitFor();
+    await screenshot(page, 'views-tank-range-refused');
     await context.close();
   });
 

@@ -54,9 +54,16 @@ describe('householder in Chromium, phone width', () => {
 
     // The assumptions are shown and can be changed.
     await page.getByText('How we count showers and baths').click();
+    // A size no shower has is refused beside its field, and the count stays as it was.
+    await page.getByLabel('Litres per shower').fill('2');
+    await page.getByRole('button', { name: 'Save' }).click();
+    await expect(page.locator('#f-home-showerL-error').textContent()).resolves.toBe('A shower uses at least 5 litres here.');
+    await expect(page.getByTestId('everyday').textContent()).resolves.toBe('That is about 3 showers or 1 bath.');
+    await screenshot(page, 'views-home-sizes-refused');
     await page.getByLabel('Litres per shower').fill('60');
     await page.getByRole('button', { name: 'Save' }).click();
     await expect(page.getByTestId('everyday').textContent()).resolves.toBe('That is about 2 showers or 1 bath.');
+    await page.getByTestId('assumptions-saved').waitFor();
     await context.close();
   });
 });

@@ -3,7 +3,7 @@ import { analyseTank, quietPeriods } from '../../../src/lib/views/analysis';
 import { rangeQuerySchema, tanksQuerySchema } from '../../../src/lib/views/contracts';
 import { readingsCsv } from '../../../src/lib/views/csv';
 import { litreBins, shareBins } from '../../../src/lib/views/distribution';
-import { parseCustomRange } from '../../../src/lib/views/range';
+import { customRangeSchema } from '../../../src/lib/views/range-form';
 import { cellSpans, columnAt, nearestIndex, rawToRow, toSeries, type SeriesRow } from '../../../src/lib/views/series';
 import { markShortCycles, timelineBars } from '../../../src/lib/views/timeline';
 import { waterCp, waterDensity } from '../../../src/lib/thermal';
@@ -185,9 +185,16 @@ describe('query strings', () => {
     expect(rangeQuerySchema.safeParse({ from: to, to: '2026-03-01T00:00:00Z' }).error!.issues[0]!.path).toEqual(['to']);
     expect(rangeQuerySchema.safeParse({ from: 'yesterday' }).error!.issues[0]!.path).toEqual(['from']);
   });
-  it('checks a custom range', () => {
-    expect(parseCustomRange('2026-03-01T10:00', '2026-03-01T09:00')).toMatchObject({ field: 'to' });
-    expect(parseCustomRange('', '2026-03-01T09:00')).toMatchObject({ field: 'from' });
+  it('checks a custom range, naming the field', () => {
+    const issues = (from: string, to: string) =>
+      customRangeSchema.safeParse({ from, to }).error?.issues.map((i) => [i.path.join('.'), i.message]);
+    expect(issues('2026-03-01T10:00', '2026-03-01T09:00')).toEqual([['to', 'The end must be after the start.']]);
+    expect(issues('', '2026-03-01T09:00')).toEqual([['from', 'Enter a start date and time.']]);
+    expect(issues('2026-01-01T00:00', '2026-03-05T00:00')).toEqual([['to', 'Choose at most 62 days.']]);
+    expect(customRangeSchema.parse({ from: '2026-03-01T10:00Z', to: '2026-03-01T12:00Z' })).toEqual({
+      from: Date.UTC(2026, 2, 1, 10),
+      to: Date.UTC(2026, 2, 1, 12),
+    });
   });
 });
 
