@@ -5,6 +5,7 @@ import { thresholdChanges, thresholdOverridesSchema } from '@/lib/alerts/thresho
 import { partsOf, visitBody, visitFormSchema, visitSchema } from '@/lib/commissioning/visit-form';
 import { emptyTariffForm, tariffFormSchema, tariffOf } from '@/lib/energy/tariff-form';
 import { parseTariff } from '@/lib/energy/tariff';
+import { assumptionsSchema } from '@/lib/views/assumptions-form';
 
 const paths = (r: { success: boolean; error?: { issues: { path: PropertyKey[] }[] } }) =>
   (r.error?.issues ?? []).map((i) => i.path.join('.'));
@@ -90,5 +91,20 @@ describe('the visit form', () => {
     expect(visitSchema.safeParse({ ...body, readings: { ...(body.readings as object), topC: '61' } }).success).toBe(
       true,
     );
+  });
+});
+
+describe("the householder's shower and bath sizes", () => {
+  // Bounds: a short shower to a large bath, litres at 40 °C (common practice).
+  it('reads litres as typed, a decimal comma as a point', () => {
+    expect(assumptionsSchema.parse({ showerL: ' 60 ', bathL: '120,5' })).toEqual({ showerL: 60, bathL: 120.5 });
+  });
+  it('refuses a size no shower or bath has, or no number at all, at its field', () => {
+    const r = assumptionsSchema.safeParse({ showerL: '2', bathL: 'lots' });
+    expect(r.error?.issues.map((i) => [i.path.join('.'), i.message])).toEqual([
+      ['showerL', 'A shower uses at least 5 litres here.'],
+      ['bathL', 'Enter the litres per bath as a number, such as 80.'],
+    ]);
+    expect(paths(assumptionsSchema.safeParse({ showerL: '', bathL: '900' }))).toEqual(['showerL', 'bathL']);
   });
 });
