@@ -8,7 +8,10 @@ import { pageCspDirectives } from './src/lib/server/security-headers.ts';
 // Hostnames the server answers for. Astro 5.14+ treats every request as coming to
 // http://localhost/ unless the host is listed here, which breaks the origin check on form posts
 // and the links written into e-mails. Extra names come from ALLOWED_HOSTS at build time.
-const extraHosts = (process.env.ALLOWED_HOSTS ?? '').split(',').map((h) => h.trim()).filter(Boolean);
+const extraHosts = (process.env.ALLOWED_HOSTS ?? '')
+  .split(',')
+  .map((h) => h.trim())
+  .filter(Boolean);
 
 export default defineConfig({
   output: 'server',

@@ -33,7 +33,11 @@ if (!existsSync(marker) || readFileSync(marker, 'utf8') !== lockHash) {
 const PG_BIN = '/usr/lib/postgresql/15/bin/postgres';
 const needs = [
   { what: 'PostgreSQL 15 server', file: PG_BIN, pkgs: ['postgresql-common', 'postgresql-15'] },
-  { what: 'pg_partman extension', file: '/usr/share/postgresql/15/extension/pg_partman.control', pkgs: ['postgresql-15-partman'] },
+  {
+    what: 'pg_partman extension',
+    file: '/usr/share/postgresql/15/extension/pg_partman.control',
+    pkgs: ['postgresql-15-partman'],
+  },
 ];
 if (forTests) {
   needs.push({ what: 'Chromium (browser tests)', file: '/usr/bin/chromium', pkgs: ['chromium'] });
@@ -44,8 +48,10 @@ if (missing.length > 0) {
   const isRoot = process.getuid?.() === 0;
   const hasApt = existsSync('/usr/bin/apt-get');
   if (!isRoot || !hasApt) {
-    console.error(`[bootstrap] Missing: ${missing.map((m) => m.what).join(', ')}.\n` +
-      `Install as root: apt-get install -y ${missing.flatMap((m) => m.pkgs).join(' ')}`);
+    console.error(
+      `[bootstrap] Missing: ${missing.map((m) => m.what).join(', ')}.\n` +
+        `Install as root: apt-get install -y ${missing.flatMap((m) => m.pkgs).join(' ')}`,
+    );
     process.exit(1);
   }
   say(`installing from Debian: ${missing.map((m) => m.what).join(', ')}…`);
@@ -56,7 +62,10 @@ if (missing.length > 0) {
     writeFileSync('/etc/postgresql-common/createcluster.d/heatlayer.conf', 'create_main_cluster = false\n');
   }
   run('apt-get', ['update', '-qq'], { env: aptEnv });
-  run('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...new Set(missing.flatMap((m) => m.pkgs))], { env: aptEnv });
+  run('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...new Set(missing.flatMap((m) => m.pkgs))], {
+    env: aptEnv,
+  });
   // Mosquitto's package starts a system broker on 1883; the tests start their own.
-  if (missing.some((m) => m.pkgs.includes('mosquitto'))) spawnSync('service', ['mosquitto', 'stop'], { stdio: 'ignore' });
+  if (missing.some((m) => m.pkgs.includes('mosquitto')))
+    spawnSync('service', ['mosquitto', 'stop'], { stdio: 'ignore' });
 }

@@ -9,8 +9,11 @@ import { servicePassword } from '../src/lib/telemetry/device-token';
 async function main(): Promise<void> {
   const e = env();
   const broker = await startBroker({
-    host: '127.0.0.1', port: e.MQTT_PORT, servicePassword: servicePassword(e),
-    lookupTokenHash: findDeviceTokenHash, concurrency: e.BROKER_CONCURRENCY,
+    host: '127.0.0.1',
+    port: e.MQTT_PORT,
+    servicePassword: servicePassword(e),
+    lookupTokenHash: findDeviceTokenHash,
+    concurrency: e.BROKER_CONCURRENCY,
   });
   console.log(`[broker] MQTT 3.1.1 on 127.0.0.1:${broker.port} (concurrency ${e.BROKER_CONCURRENCY})`);
   let stopping = false;

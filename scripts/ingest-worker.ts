@@ -16,11 +16,17 @@ const DEAD_LETTER_DAYS = 30;
 async function main(): Promise<void> {
   const e = env();
   const worker = new IngestWorker({
-    mqttUrl: e.MQTT_URL, username: SERVICE_USERNAME, password: servicePassword(e), pool: getPool(), retentionDays: e.READINGS_RETENTION_DAYS,
+    mqttUrl: e.MQTT_URL,
+    username: SERVICE_USERNAME,
+    password: servicePassword(e),
+    pool: getPool(),
+    retentionDays: e.READINGS_RETENTION_DAYS,
   });
   // Alert rules run on each committed batch's tanks, and on a clock for the time-based ones.
   const alerts = new BatchEvaluator();
-  worker.on('committed', (info: { inserted: number; topics: string[] }) => { if (info.inserted > 0) alerts.evaluateOnBatch(info.topics); });
+  worker.on('committed', (info: { inserted: number; topics: string[] }) => {
+    if (info.inserted > 0) alerts.evaluateOnBatch(info.topics);
+  });
   const alertClock = new AlertClock(e.ALERTS_CLOCK_MS);
   alertClock.start();
   worker.start();
@@ -34,7 +40,10 @@ async function main(): Promise<void> {
     if (running) return;
     running = true;
     try {
-      if (!retentionSet) { await setReadingsRetention(e.READINGS_RETENTION_DAYS); retentionSet = true; }
+      if (!retentionSet) {
+        await setReadingsRetention(e.READINGS_RETENTION_DAYS);
+        retentionSet = true;
+      }
       if (Date.now() - lastRetention > RETENTION_EVERY_MS) {
         await runRetention({ rollupDays: e.ROLLUPS_RETENTION_DAYS, deadLetterDays: DEAD_LETTER_DAYS });
         await pruneEnergyDays(ENERGY_DAYS_KEPT);
@@ -55,7 +64,10 @@ async function main(): Promise<void> {
 
   const report = setInterval(() => {
     const s = worker.stats;
-    if (s.messages > 0) console.log(`[ingest] ${s.messages} messages, ${s.inserted} readings stored, ${s.duplicates} duplicates, ${s.deadLetters} dead letters, ${worker.buffered} buffered`);
+    if (s.messages > 0)
+      console.log(
+        `[ingest] ${s.messages} messages, ${s.inserted} readings stored, ${s.duplicates} duplicates, ${s.deadLetters} dead letters, ${worker.buffered} buffered`,
+      );
   }, 60_000);
 
   let stopping = false;

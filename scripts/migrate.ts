@@ -9,6 +9,9 @@ export async function runMigrations(): Promise<void> {
 if (import.meta.url === `file://${process.argv[1]}`) {
   runMigrations()
     .then(() => console.log('[migrate] database is up to date'))
-    .catch((err) => { console.error('[migrate] failed:', err); process.exitCode = 1; })
+    .catch((err) => {
+      console.error('[migrate] failed:', err);
+      process.exitCode = 1;
+    })
     .finally(() => closeDb());
 }

@@ -21,6 +21,8 @@ const server = new S3rver({
 await server.run();
 console.log(`fake S3 on http://127.0.0.1:${e.S3_PORT}, bucket ${e.S3_BUCKET}, objects in ${directory}`);
 
-const stop = () => { server.close().finally(() => process.exit(0)); };
+const stop = () => {
+  server.close().finally(() => process.exit(0));
+};
 process.on('SIGTERM', stop);
 process.on('SIGINT', stop);

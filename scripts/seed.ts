@@ -3,7 +3,18 @@
 import { randomUUID } from 'node:crypto';
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { closeDb, db } from '../src/db';
-import { commissionings, companies, homeMembers, homes, memberships, serviceVisits, tanks, tariffs, uploads, users } from '../src/db/schema';
+import {
+  commissionings,
+  companies,
+  homeMembers,
+  homes,
+  memberships,
+  serviceVisits,
+  tanks,
+  tariffs,
+  uploads,
+  users,
+} from '../src/db/schema';
 import { recordPdfKey, recordView, type SignedRecord } from '../src/lib/commissioning/record';
 import { demoSignedRecord } from '../src/lib/demo/commissioning';
 import { dataPlatePhoto, installationPhoto } from '../src/lib/demo/photos.server';
@@ -37,8 +48,27 @@ async function provisionDemoDeviceTokens(): Promise<void> {
  */
 function demoDefaultTariffs(): Tariff[] {
   const inputs = [
-    { kind: 'flat', name: 'Wendmoor Standard (demo)', unit: 'p/kWh', import: 24.5, export: 15, validFrom: '2025-01-01T00:00:00Z', validTo: '2026-04-01T00:00:00Z' },
-    { kind: 'day_night', name: 'Wendmoor Night Saver (demo)', unit: 'p/kWh', timeZone: 'Europe/London', nightStart: '00:30', nightEnd: '05:30', dayImport: 27, nightImport: 8.5, export: 15, validFrom: '2026-04-01T00:00:00Z' },
+    {
+      kind: 'flat',
+      name: 'Wendmoor Standard (demo)',
+      unit: 'p/kWh',
+      import: 24.5,
+      export: 15,
+      validFrom: '2025-01-01T00:00:00Z',
+      validTo: '2026-04-01T00:00:00Z',
+    },
+    {
+      kind: 'day_night',
+      name: 'Wendmoor Night Saver (demo)',
+      unit: 'p/kWh',
+      timeZone: 'Europe/London',
+      nightStart: '00:30',
+      nightEnd: '05:30',
+      dayImport: 27,
+      nightImport: 8.5,
+      export: 15,
+      validFrom: '2026-04-01T00:00:00Z',
+    },
   ];
   return inputs.map((i) => {
     const r = parseTariff(i);
@@ -57,17 +87,31 @@ export async function seedIfEmpty(): Promise<boolean> {
   await d.transaction(async (tx) => {
     const companyIds = new Map<string, string>();
     for (const c of demoCompanies) {
-      const [row] = await tx.insert(companies).values({ slug: c.slug, name: c.name, emailDomain: c.emailDomain }).returning();
+      const [row] = await tx
+        .insert(companies)
+        .values({ slug: c.slug, name: c.name, emailDomain: c.emailDomain })
+        .returning();
       companyIds.set(c.slug, row.id);
     }
     for (const t of demoDefaultTariffs()) {
-      await tx.insert(tariffs).values({ companyId: companyIds.get('kestrel-vale')!, homeId: null, kind: t.kind, name: t.name ?? null, validFrom: new Date(t.validFromMs), validTo: t.validToMs === null ? null : new Date(t.validToMs), prices: t });
+      await tx.insert(tariffs).values({
+        companyId: companyIds.get('kestrel-vale')!,
+        homeId: null,
+        kind: t.kind,
+        name: t.name ?? null,
+        validFrom: new Date(t.validFromMs),
+        validTo: t.validToMs === null ? null : new Date(t.validToMs),
+        prices: t,
+      });
     }
     // Accounts first: the demo engineer signed the records and made the visits.
     const passwordHash = await hashPassword(env().DEMO_PASSWORD);
     const accounts: (ReturnType<typeof demoAccounts>[number] & { id: string })[] = [];
     for (const a of demoAccounts()) {
-      const [u] = await tx.insert(users).values({ email: a.email, name: a.name, passwordHash, emailVerified: new Date() }).returning({ id: users.id });
+      const [u] = await tx
+        .insert(users)
+        .values({ email: a.email, name: a.name, passwordHash, emailVerified: new Date() })
+        .returning({ id: users.id });
       await tx.insert(memberships).values({ userId: u.id, companyId: companyIds.get(a.companySlug)!, role: a.role });
       accounts.push({ ...a, id: u.id });
     }
@@ -80,51 +124,106 @@ export async function seedIfEmpty(): Promise<boolean> {
     for (const t of demoTanks()) {
       const companyId = companyIds.get(t.companySlug)!;
       const engineer = engineerOf(t.companySlug);
-      const [home] = await tx.insert(homes).values({
-        companyId, reference: t.homeRef, addressLine: t.addressLine, town: t.town, postcode: t.postcode,
-        occupants: t.occupants, hasSolar: t.hasSolar, contactName: t.contactName, contactEmail: t.contactEmail,
-      }).returning({ id: homes.id });
+      const [home] = await tx
+        .insert(homes)
+        .values({
+          companyId,
+          reference: t.homeRef,
+          addressLine: t.addressLine,
+          town: t.town,
+          postcode: t.postcode,
+          occupants: t.occupants,
+          hasSolar: t.hasSolar,
+          contactName: t.contactName,
+          contactEmail: t.contactEmail,
+        })
+        .returning({ id: homes.id });
       if (!firstHome.has(t.companySlug)) firstHome.set(t.companySlug, home.id);
       const commissionedAt = daysAgo(t.commissionedDaysAgo);
-      const [tank] = await tx.insert(tanks).values({
-        companyId, homeId: home.id, serial: t.serial, model: t.model, volumeL: t.volumeL, heightM: t.heightM,
-        sensorCount: t.sensorCount, heatSource: t.heatSource, hpOutputW: t.hpOutputW, immersionW: t.immersionW,
-        declaredLossW: t.declaredLossW, targetC: t.targetC, hysteresisK: t.hysteresisK, commissionedAt,
-        deviceTokenHash: demoTokenHash(t.serial),
-      }).returning({ id: tanks.id });
+      const [tank] = await tx
+        .insert(tanks)
+        .values({
+          companyId,
+          homeId: home.id,
+          serial: t.serial,
+          model: t.model,
+          volumeL: t.volumeL,
+          heightM: t.heightM,
+          sensorCount: t.sensorCount,
+          heatSource: t.heatSource,
+          hpOutputW: t.hpOutputW,
+          immersionW: t.immersionW,
+          declaredLossW: t.declaredLossW,
+          targetC: t.targetC,
+          hysteresisK: t.hysteresisK,
+          commissionedAt,
+          deviceTokenHash: demoTokenHash(t.serial),
+        })
+        .returning({ id: tanks.id });
       for (const d of t.inspectionsDaysAgo) {
         visits.push({
-          companyId, tankId: tank.id, kind: 'annual_inspection', visitedAt: daysAgo(d), engineerUserId: engineer.id,
-          findings: 'Annual inspection (demo record): relief valves operated, expansion provision checked, no faults found.',
+          companyId,
+          tankId: tank.id,
+          kind: 'annual_inspection',
+          visitedAt: daysAgo(d),
+          engineerUserId: engineer.id,
+          findings:
+            'Annual inspection (demo record): relief valves operated, expansion provision checked, no faults found.',
           readings: { reliefValveTested: true, dischargeChecked: true, inletPressureBar: 3, vesselPrechargeBar: 3 },
         });
       }
       if (t.commissioning) {
         const id = randomUUID();
-        const record = demoSignedRecord(t, t.commissioning, { recordId: id, companyName: companyName.get(t.companySlug)!, engineer: { name: engineer.name, email: engineer.email }, signedAt: commissionedAt });
+        const record = demoSignedRecord(t, t.commissioning, {
+          recordId: id,
+          companyName: companyName.get(t.companySlug)!,
+          engineer: { name: engineer.name, email: engineer.email },
+          signedAt: commissionedAt,
+        });
         records.push({
-          id, companyId, engineerUserId: engineer.id, status: 'signed', step: 'signoff', data: record.answers as unknown as Record<string, unknown>,
-          homeId: home.id, tankId: tank.id, record: record as unknown as Record<string, unknown>, signedAt: commissionedAt, signedBy: engineer.id,
+          id,
+          companyId,
+          engineerUserId: engineer.id,
+          status: 'signed',
+          step: 'signoff',
+          data: record.answers as unknown as Record<string, unknown>,
+          homeId: home.id,
+          tankId: tank.id,
+          record: record as unknown as Record<string, unknown>,
+          signedAt: commissionedAt,
+          signedBy: engineer.id,
           // Handed over on the day; the PDF is stored by seedDemoDocuments() once object storage is up.
-          handoverSentAt: commissionedAt, createdAt: new Date(commissionedAt.getTime() - 3 * 3_600_000), updatedAt: commissionedAt,
+          handoverSentAt: commissionedAt,
+          createdAt: new Date(commissionedAt.getTime() - 3 * 3_600_000),
+          updatedAt: commissionedAt,
         });
       }
     }
     if (visits.length > 0) await tx.insert(serviceVisits).values(visits);
     if (records.length > 0) await tx.insert(commissionings).values(records);
     for (const a of accounts) {
-      if (a.role === 'householder') await tx.insert(homeMembers).values({ homeId: firstHome.get(a.companySlug)!, userId: a.id });
+      if (a.role === 'householder')
+        await tx.insert(homeMembers).values({ homeId: firstHome.get(a.companySlug)!, userId: a.id });
     }
   });
   return true;
 }
 
 /** Runs `work` over `items`, `limit` at a time. */
-async function eachLimited<T>(items: readonly T[], limit: number, work: (item: T, index: number) => Promise<void>): Promise<void> {
+async function eachLimited<T>(
+  items: readonly T[],
+  limit: number,
+  work: (item: T, index: number) => Promise<void>,
+): Promise<void> {
   let next = 0;
-  await Promise.all(Array.from({ length: Math.min(limit, items.length) }, async () => {
-    while (next < items.length) { const i = next++; await work(items[i]!, i); }
-  }));
+  await Promise.all(
+    Array.from({ length: Math.min(limit, items.length) }, async () => {
+      while (next < items.length) {
+        const i = next++;
+        await work(items[i]!, i);
+      }
+    }),
+  );
 }
 
 /**
@@ -134,9 +233,26 @@ async function eachLimited<T>(items: readonly T[], limit: number, work: (item: T
  */
 export async function seedDemoDocuments(): Promise<number> {
   const demo = new Map(demoTanks().map((t) => [t.serial, t]));
-  const rows = await db().select({ id: commissionings.id, companyId: commissionings.companyId, tankId: commissionings.tankId, engineerUserId: commissionings.engineerUserId, record: commissionings.record })
-    .from(commissionings).innerJoin(companies, eq(companies.id, commissionings.companyId))
-    .where(and(eq(commissionings.status, 'signed'), isNull(commissionings.pdfKey), inArray(companies.slug, demoCompanies.map((c) => c.slug))));
+  const rows = await db()
+    .select({
+      id: commissionings.id,
+      companyId: commissionings.companyId,
+      tankId: commissionings.tankId,
+      engineerUserId: commissionings.engineerUserId,
+      record: commissionings.record,
+    })
+    .from(commissionings)
+    .innerJoin(companies, eq(companies.id, commissionings.companyId))
+    .where(
+      and(
+        eq(commissionings.status, 'signed'),
+        isNull(commissionings.pdfKey),
+        inArray(
+          companies.slug,
+          demoCompanies.map((c) => c.slug),
+        ),
+      ),
+    );
   let stored = 0;
   await eachLimited(rows, 8, async (row, i) => {
     const record = row.record as unknown as SignedRecord;
@@ -147,11 +263,25 @@ export async function seedDemoDocuments(): Promise<number> {
       const photo = kind === 'data_plate' ? await dataPlatePhoto(t) : await installationPhoto(i);
       const storageKey = `${row.companyId}/commissioning/${row.id}/${photo.filename}`;
       await putObject(storageKey, photo.body, 'image/jpeg');
-      await db().insert(uploads).values({
-        companyId: row.companyId, commissioningId: row.id, tankId: row.tankId, visitId: null, kind: 'photo', filename: photo.filename,
-        contentType: 'image/jpeg', bytes: photo.body.length, width: photo.width, height: photo.height, downscaled: false,
-        storageKey, uploadedBy: row.engineerUserId, createdAt: new Date(signedMs - 3_600_000),
-      }).onConflictDoNothing();
+      await db()
+        .insert(uploads)
+        .values({
+          companyId: row.companyId,
+          commissioningId: row.id,
+          tankId: row.tankId,
+          visitId: null,
+          kind: 'photo',
+          filename: photo.filename,
+          contentType: 'image/jpeg',
+          bytes: photo.body.length,
+          width: photo.width,
+          height: photo.height,
+          downscaled: false,
+          storageKey,
+          uploadedBy: row.engineerUserId,
+          createdAt: new Date(signedMs - 3_600_000),
+        })
+        .onConflictDoNothing();
     }
     const key = recordPdfKey(row.companyId, row.id);
     await putObject(key, Buffer.from(await commissioningPdf(recordView(record))), 'application/pdf');
@@ -166,7 +296,10 @@ export async function storeDemoDocuments(): Promise<void> {
   const t0 = performance.now();
   try {
     const n = await seedDemoDocuments();
-    if (n > 0) console.log(`[seed] documents of ${n} demo commissioning records stored (${((performance.now() - t0) / 1000).toFixed(1)} s)`);
+    if (n > 0)
+      console.log(
+        `[seed] documents of ${n} demo commissioning records stored (${((performance.now() - t0) / 1000).toFixed(1)} s)`,
+      );
   } finally {
     await closeDb();
   }
@@ -176,7 +309,12 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   seedIfEmpty()
     .then((did) => console.log(did ? '[seed] demo scenario seeded' : '[seed] database already has data; left as it is'))
     .then(() => seedDemoDocuments())
-    .then((n) => { if (n > 0) console.log(`[seed] documents of ${n} demo commissioning records stored`); })
-    .catch((err) => { console.error('[seed] failed:', err); process.exitCode = 1; })
+    .then((n) => {
+      if (n > 0) console.log(`[seed] documents of ${n} demo commissioning records stored`);
+    })
+    .catch((err) => {
+      console.error('[seed] failed:', err);
+      process.exitCode = 1;
+    })
     .finally(() => closeDb());
 }

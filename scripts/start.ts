@@ -34,7 +34,9 @@ async function main(): Promise<void> {
   }
   // The demo's commissioning documents, once object storage is up (scripts/seed.ts; only what is
   // missing). In the background: the product is usable meanwhile, the records' rows are already there.
-  storeDemoDocuments().catch((err) => console.error('[seed] demo documents not stored:', err instanceof Error ? err.message : err));
+  storeDemoDocuments().catch((err) =>
+    console.error('[seed] demo documents not stored:', err instanceof Error ? err.message : err),
+  );
 
   const url = `http://localhost:${c.webPort}`;
   console.log(`\nHeatlayer is running at ${url}\n`);

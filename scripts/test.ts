@@ -14,13 +14,20 @@ import { testServices } from './lib/services';
 
 const root = new URL('..', import.meta.url).pathname;
 
-interface VitestJson { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number; success: boolean }
+interface VitestJson {
+  numPassedTests: number;
+  numFailedTests: number;
+  numPendingTests: number;
+  numTodoTests: number;
+  success: boolean;
+}
 
 async function main(): Promise<number> {
   const c = testConfig();
   // A run on another port block (beside the default one) builds into a folder of its own, so that
   // one run rebuilding never pulls the files from under another run's web server.
-  if (c.pgPort !== DEFAULT_TEST_PORT_BASE && !process.env.HEATLAYER_BUILD_DIR) process.env.HEATLAYER_BUILD_DIR = join(root, '.data', `build-${c.pgPort}`);
+  if (c.pgPort !== DEFAULT_TEST_PORT_BASE && !process.env.HEATLAYER_BUILD_DIR)
+    process.env.HEATLAYER_BUILD_DIR = join(root, '.data', `build-${c.pgPort}`);
   rmSync(c.dataDir, { recursive: true, force: true });
   mkdirSync(c.dataDir, { recursive: true });
   const pgServer = await prepare(c, { throwaway: true });
@@ -31,11 +38,24 @@ async function main(): Promise<number> {
     // The demo's commissioning documents, once object storage is up (scripts/seed.ts).
     await storeDemoDocuments();
     const report = join(c.dataDir, 'vitest.json');
-    const args = ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...process.argv.slice(2)];
+    const args = [
+      'vitest',
+      'run',
+      '--reporter=default',
+      '--reporter=json',
+      `--outputFile.json=${report}`,
+      ...process.argv.slice(2),
+    ];
     const r = spawnSync('npx', args, {
       cwd: root,
       stdio: 'inherit',
-      env: { ...process.env, ...env, TEST_BASE_URL: `http://localhost:${c.webPort}`, HEATLAYER_TEST: '1', HEATLAYER_TEST_PORT_BASE: String(c.pgPort) },
+      env: {
+        ...process.env,
+        ...env,
+        TEST_BASE_URL: `http://localhost:${c.webPort}`,
+        HEATLAYER_TEST: '1',
+        HEATLAYER_TEST_PORT_BASE: String(c.pgPort),
+      },
     });
     if (!existsSync(report)) {
       console.error('Vitest wrote no results.');
@@ -54,9 +74,11 @@ async function main(): Promise<number> {
   }
 }
 
-main().then((code) => process.exit(code)).catch(async (err) => {
-  console.error('[test] set-up failed:', err instanceof Error ? err.stack : err);
-  await stopServices();
-  console.log('0 passed, 1 failed');
-  process.exit(1);
-});
+main()
+  .then((code) => process.exit(code))
+  .catch(async (err) => {
+    console.error('[test] set-up failed:', err instanceof Error ? err.stack : err);
+    await stopServices();
+    console.log('0 passed, 1 failed');
+    process.exit(1);
+  });

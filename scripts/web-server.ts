@@ -26,7 +26,9 @@ async function main(): Promise<void> {
     handler(req, res);
   });
   server.listen(e.PORT, e.HOST, () => {
-    const proxies = e.TRUSTED_PROXIES.length ? `trusting forwarded headers from ${e.TRUSTED_PROXIES.join(', ')}` : 'no trusted proxies';
+    const proxies = e.TRUSTED_PROXIES.length
+      ? `trusting forwarded headers from ${e.TRUSTED_PROXIES.join(', ')}`
+      : 'no trusted proxies';
     console.log(`Heatlayer web server on http://${e.HOST}:${e.PORT} (${proxies})`);
   });
   const stop = () => {

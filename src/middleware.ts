@@ -32,7 +32,11 @@ const guardRoute = defineMiddleware(async (context, next) => {
   // posts; this covers JSON too). Devices authenticate with a bearer token, not cookies.
   const method = context.request.method.toUpperCase();
   if (isApi && rule !== 'device' && !['GET', 'HEAD', 'OPTIONS'].includes(method) && isCrossSite(context)) {
-    return problem(403, 'CrossSiteRequest', 'This request came from another site and was refused. Use Heatlayer from its own pages.');
+    return problem(
+      403,
+      'CrossSiteRequest',
+      'This request came from another site and was refused. Use Heatlayer from its own pages.',
+    );
   }
   const role = context.locals.viewer?.role;
   if (!allows(rule, role)) {

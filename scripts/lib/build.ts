@@ -27,7 +27,8 @@ export function ensureBuild(): void {
   for (const i of inputs) hashTree(join(root, i), h);
   const digest = h.digest('hex');
   const marker = join(buildDir(), '.heatlayer-build-hash');
-  if (existsSync(marker) && readFileSync(marker, 'utf8') === digest && existsSync(join(buildDir(), 'server/entry.mjs'))) return;
+  if (existsSync(marker) && readFileSync(marker, 'utf8') === digest && existsSync(join(buildDir(), 'server/entry.mjs')))
+    return;
   console.log('[build] building the web app…');
   const r = spawnSync('npx', ['astro', 'build'], { cwd: root, stdio: 'inherit' });
   if (r.status !== 0) throw new Error('astro build failed; see the output above.');

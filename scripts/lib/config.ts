@@ -82,7 +82,11 @@ export function testConfig(): RunConfig {
 }
 
 /** The environment every process of this copy gets. */
-export function processEnv(c: RunConfig, pgUrl: string, mode: 'development' | 'production' | 'test'): Record<string, string> {
+export function processEnv(
+  c: RunConfig,
+  pgUrl: string,
+  mode: 'development' | 'production' | 'test',
+): Record<string, string> {
   return {
     NODE_ENV: mode,
     HOST: c.host,

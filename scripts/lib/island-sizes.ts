@@ -5,7 +5,13 @@ import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
 import { gzipSync } from 'node:zlib';
 
-export interface PageScripts { page: string; islands: string[]; files: number; bytes: number; gzipBytes: number }
+export interface PageScripts {
+  page: string;
+  islands: string[];
+  files: number;
+  bytes: number;
+  gzipBytes: number;
+}
 
 const staticImports = (code: string): string[] =>
   [...code.matchAll(/(?:import|export)\s*(?:[\w*{}\s,$]*?from\s*)?["']([^"']+\.m?js)["']/g)].map((m) => m[1]!);
@@ -22,7 +28,14 @@ function closure(entry: string, seen = new Set<string>()): Set<string> {
 
 function pageModules(dir: string): string[] {
   return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
-    e.isDirectory() ? (e.name === 'api' ? [] : pageModules(join(dir, e.name))) : e.name.endsWith('.astro.mjs') ? [join(dir, e.name)] : []);
+    e.isDirectory()
+      ? e.name === 'api'
+        ? []
+        : pageModules(join(dir, e.name))
+      : e.name.endsWith('.astro.mjs')
+        ? [join(dir, e.name)]
+        : [],
+  );
 }
 
 export function pageScriptSizes(dist: string): PageScripts[] {
@@ -33,18 +46,35 @@ export function pageScriptSizes(dist: string): PageScripts[] {
   const entries = JSON.parse(manifest.match(/"entryModules":(\{[^}]*\})/)![1]!) as Record<string, string>;
   const renderer = Object.entries(entries).find(([k]) => k.includes('@astrojs/react/client'))?.[1];
 
-  return pageModules(join(server, 'pages')).map((file) => {
-    const components = new Set<string>();
-    for (const mod of closure(file)) {
-      for (const m of readFileSync(mod, 'utf8').matchAll(/"client:component-path":\s*"([^"]+)"/g)) components.add(m[1]!);
-    }
-    const clientEntries = [...components].map((c) => entries[c]).filter((x): x is string => !!x);
-    if (clientEntries.length && renderer) clientEntries.push(renderer);
-    const files = new Set<string>();
-    for (const e of clientEntries) for (const f of closure(join(dist, 'client', e))) files.add(f);
-    let bytes = 0, gzipBytes = 0;
-    for (const f of files) { const b = readFileSync(f); bytes += b.length; gzipBytes += gzipSync(b).length; }
-    const page = `/${relative(join(server, 'pages'), file).replace(/\.astro\.mjs$/, '').replace(/(^|\/)index$/, '').replace(/_([a-z]+)_/g, '[$1]')}`;
-    return { page, islands: [...components].map((c) => c.split('/').pop()!).sort(), files: files.size, bytes, gzipBytes };
-  }).sort((a, b) => a.page.localeCompare(b.page));
+  return pageModules(join(server, 'pages'))
+    .map((file) => {
+      const components = new Set<string>();
+      for (const mod of closure(file)) {
+        for (const m of readFileSync(mod, 'utf8').matchAll(/"client:component-path":\s*"([^"]+)"/g))
+          components.add(m[1]!);
+      }
+      const clientEntries = [...components].map((c) => entries[c]).filter((x): x is string => !!x);
+      if (clientEntries.length && renderer) clientEntries.push(renderer);
+      const files = new Set<string>();
+      for (const e of clientEntries) for (const f of closure(join(dist, 'client', e))) files.add(f);
+      let bytes = 0,
+        gzipBytes = 0;
+      for (const f of files) {
+        const b = readFileSync(f);
+        bytes += b.length;
+        gzipBytes += gzipSync(b).length;
+      }
+      const page = `/${relative(join(server, 'pages'), file)
+        .replace(/\.astro\.mjs$/, '')
+        .replace(/(^|\/)index$/, '')
+        .replace(/_([a-z]+)_/g, '[$1]')}`;
+      return {
+        page,
+        islands: [...components].map((c) => c.split('/').pop()!).sort(),
+        files: files.size,
+        bytes,
+        gzipBytes,
+      };
+    })
+    .sort((a, b) => a.page.localeCompare(b.page));
 }

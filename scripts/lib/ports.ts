@@ -30,15 +30,20 @@ export function portBlockProblem(base: number, range: PortRange | null): string 
     return `HEATLAYER_TEST_PORT_BASE=${base}: the test ports ${base}–${last} must lie between 1024 and 65535.`;
   }
   if (range && base <= range[1] && last >= range[0]) {
-    return `HEATLAYER_TEST_PORT_BASE=${base}: the test ports ${base}–${last} overlap the kernel's ephemeral range ` +
+    return (
+      `HEATLAYER_TEST_PORT_BASE=${base}: the test ports ${base}–${last} overlap the kernel's ephemeral range ` +
       `${range[0]}–${range[1]} (outgoing connections take ports there at random, so a test server would fail with ` +
-      `EADDRINUSE now and then). Choose a base below ${range[0] - TEST_PORT_BLOCK + 1}, e.g. ${DEFAULT_TEST_PORT_BASE}.`;
+      `EADDRINUSE now and then). Choose a base below ${range[0] - TEST_PORT_BLOCK + 1}, e.g. ${DEFAULT_TEST_PORT_BASE}.`
+    );
   }
   return null;
 }
 
 /** This run's base: HEATLAYER_TEST_PORT_BASE or the default; throws when the block cannot be used. */
-export function testPortBase(env: NodeJS.ProcessEnv = process.env, range: PortRange | null = ephemeralPortRange()): number {
+export function testPortBase(
+  env: NodeJS.ProcessEnv = process.env,
+  range: PortRange | null = ephemeralPortRange(),
+): number {
   const raw = env.HEATLAYER_TEST_PORT_BASE;
   const base = raw === undefined || raw === '' ? DEFAULT_TEST_PORT_BASE : Number(raw);
   const problem = portBlockProblem(base, range);

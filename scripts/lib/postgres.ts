@@ -8,7 +8,11 @@ import pg from 'pg';
 
 const BIN = '/usr/lib/postgresql/15/bin';
 
-export interface PgServer { port: number; dataDir: string; url: string }
+export interface PgServer {
+  port: number;
+  dataDir: string;
+  url: string;
+}
 
 const isRoot = () => process.getuid?.() === 0;
 
@@ -25,7 +29,9 @@ export function defaultDataDir(port: number, throwaway: boolean): string {
 
 function isRunning(dataDir: string): boolean {
   if (!existsSync(join(dataDir, 'postmaster.pid'))) return false;
-  const full = isRoot() ? ['runuser', '-u', 'postgres', '--', join(BIN, 'pg_ctl'), 'status', '-D', dataDir] : [join(BIN, 'pg_ctl'), 'status', '-D', dataDir];
+  const full = isRoot()
+    ? ['runuser', '-u', 'postgres', '--', join(BIN, 'pg_ctl'), 'status', '-D', dataDir]
+    : [join(BIN, 'pg_ctl'), 'status', '-D', dataDir];
   return spawnSync(full[0], full.slice(1)).status === 0;
 }
 
@@ -43,7 +49,17 @@ export async function startPostgres(opts: { port: number; dataDir: string; fresh
     if (isRoot()) execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
     // Local socket trusted (only `postgres` can reach it: it lives inside the data directory);
     // TCP on loopback needs the password.
-    asPostgres('initdb', ['-D', dataDir, '-U', 'postgres', '--auth-local=trust', '--auth-host=scram-sha-256', '-E', 'UTF8', '--locale=C.UTF-8']);
+    asPostgres('initdb', [
+      '-D',
+      dataDir,
+      '-U',
+      'postgres',
+      '--auth-local=trust',
+      '--auth-host=scram-sha-256',
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
+    ]);
     const conf = [
       `listen_addresses = '127.0.0.1'`,
       `port = ${port}`,

@@ -4,7 +4,11 @@ import { ensureBuild } from './build';
 import type { RunConfig } from './config';
 
 export async function prepare(c: RunConfig, opts: { throwaway: boolean }): Promise<PgServer> {
-  const server = await startPostgres({ port: c.pgPort, dataDir: defaultDataDir(c.pgPort, opts.throwaway), fresh: opts.throwaway });
+  const server = await startPostgres({
+    port: c.pgPort,
+    dataDir: defaultDataDir(c.pgPort, opts.throwaway),
+    fresh: opts.throwaway,
+  });
   process.env.DATABASE_URL = server.url;
   process.env.DEMO_PASSWORD = c.demoPassword;
   process.env.DEVICE_TOKEN_SEED = c.deviceTokenSeed;
@@ -17,7 +21,9 @@ export async function prepare(c: RunConfig, opts: { throwaway: boolean }): Promi
   await runMigrations();
   const seeded = await seedIfEmpty();
   await closeDb();
-  console.log(`[db] PostgreSQL on 127.0.0.1:${c.pgPort} (data in ${server.dataDir})${seeded ? ', demo scenario seeded' : ''}`);
+  console.log(
+    `[db] PostgreSQL on 127.0.0.1:${c.pgPort} (data in ${server.dataDir})${seeded ? ', demo scenario seeded' : ''}`,
+  );
   ensureBuild();
   return server;
 }

@@ -18,7 +18,10 @@ function prefixLines(name: string, chunk: Buffer, out: NodeJS.WriteStream): void
   for (const line of chunk.toString().split('\n')) if (line.trim()) out.write(`[${name}] ${line}\n`);
 }
 
-export async function startService(spec: ServiceSpec, onExit?: (name: string, code: number | null) => void): Promise<ChildProcess> {
+export async function startService(
+  spec: ServiceSpec,
+  onExit?: (name: string, code: number | null) => void,
+): Promise<ChildProcess> {
   const proc = spawn(spec.command, spec.args, {
     env: { ...process.env, ...spec.env },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -26,7 +29,9 @@ export async function startService(spec: ServiceSpec, onExit?: (name: string, co
   });
   proc.stdout?.on('data', (c: Buffer) => prefixLines(spec.name, c, process.stdout));
   proc.stderr?.on('data', (c: Buffer) => prefixLines(spec.name, c, process.stderr));
-  proc.on('exit', (code) => { if (!stopping) onExit?.(spec.name, code); });
+  proc.on('exit', (code) => {
+    if (!stopping) onExit?.(spec.name, code);
+  });
   children.push({ name: spec.name, proc });
   if (spec.ready) await spec.ready();
   return proc;
@@ -35,12 +40,20 @@ export async function startService(spec: ServiceSpec, onExit?: (name: string, co
 /** Stops every child: SIGTERM, then SIGKILL after a grace period. */
 export async function stopServices(graceMs = 5000): Promise<void> {
   stopping = true;
-  await Promise.all(children.reverse().map(({ proc }) => new Promise<void>((resolve) => {
-    if (proc.exitCode !== null || proc.signalCode !== null) return resolve();
-    const timer = setTimeout(() => proc.kill('SIGKILL'), graceMs);
-    proc.once('exit', () => { clearTimeout(timer); resolve(); });
-    proc.kill('SIGTERM');
-  })));
+  await Promise.all(
+    children.reverse().map(
+      ({ proc }) =>
+        new Promise<void>((resolve) => {
+          if (proc.exitCode !== null || proc.signalCode !== null) return resolve();
+          const timer = setTimeout(() => proc.kill('SIGKILL'), graceMs);
+          proc.once('exit', () => {
+            clearTimeout(timer);
+            resolve();
+          });
+          proc.kill('SIGTERM');
+        }),
+    ),
+  );
   children.length = 0;
 }
 
@@ -48,7 +61,11 @@ export async function stopServices(graceMs = 5000): Promise<void> {
 export async function waitFor(what: string, probe: () => Promise<boolean>, timeoutMs = 60_000): Promise<void> {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
-    try { if (await probe()) return; } catch { /* not up yet */ }
+    try {
+      if (await probe()) return;
+    } catch {
+      /* not up yet */
+    }
     await new Promise((r) => setTimeout(r, 200));
   }
   throw new Error(`${what} did not become ready within ${timeoutMs / 1000} s.`);

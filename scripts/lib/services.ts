@@ -13,7 +13,10 @@ import { brokerAcceptsService, ingestWorkerOnline, tankOnline } from '../../src/
 function tcpOpen(port: number): Promise<boolean> {
   return new Promise((resolve) => {
     const socket = createConnection({ host: '127.0.0.1', port });
-    socket.once('connect', () => { socket.end(); resolve(true); });
+    socket.once('connect', () => {
+      socket.end();
+      resolve(true);
+    });
     socket.once('error', () => resolve(false));
   });
 }
@@ -50,24 +53,39 @@ function webService(c: RunConfig): ServiceSpec {
   };
 }
 
-const tsxProcess = (name: string, script: string) => ({ name, command: process.execPath, args: ['--import', 'tsx', script] });
+const tsxProcess = (name: string, script: string) => ({
+  name,
+  command: process.execPath,
+  args: ['--import', 'tsx', script],
+});
 const mqttUrl = (c: RunConfig) => `mqtt://127.0.0.1:${c.mqttPort}`;
 
 /** The MQTT broker (aedes), ready when it accepts the service account. */
 function brokerService(c: RunConfig): ServiceSpec {
-  return { ...tsxProcess('broker', 'scripts/broker.ts'), ready: () => waitFor('The MQTT broker', () => brokerAcceptsService(mqttUrl(c), servicePassword(process.env))) };
+  return {
+    ...tsxProcess('broker', 'scripts/broker.ts'),
+    ready: () => waitFor('The MQTT broker', () => brokerAcceptsService(mqttUrl(c), servicePassword(process.env))),
+  };
 }
 
 /** The ingest worker, ready when it has subscribed and says so on its retained status topic. */
 function ingestService(c: RunConfig): ServiceSpec {
-  return { ...tsxProcess('ingest', 'scripts/ingest-worker.ts'), ready: () => waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env))) };
+  return {
+    ...tsxProcess('ingest', 'scripts/ingest-worker.ts'),
+    ready: () => waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env))),
+  };
 }
 
 /** The demo fleet simulator, ready when its first tank is online (its backfill then runs on, with progress lines). */
 function simulatorService(c: RunConfig): ServiceSpec[] {
   if (c.simulatorTanks <= 0) return [];
   const first = demoTanks()[0].serial;
-  return [{ ...tsxProcess('simulator', 'simulator/index.ts'), ready: () => waitFor('The fleet simulator', () => tankOnline(mqttUrl(c), servicePassword(process.env), first)) }];
+  return [
+    {
+      ...tsxProcess('simulator', 'simulator/index.ts'),
+      ready: () => waitFor('The fleet simulator', () => tankOnline(mqttUrl(c), servicePassword(process.env), first)),
+    },
+  ];
 }
 
 /** Every process `npm start` runs, in order. */
@@ -80,5 +98,11 @@ export function testServices(c: RunConfig): ServiceSpec[] {
   // TRUSTED_PROXIES=loopback: tests stand in for a proxy on this machine, acting as several client
   // addresses through X-Forwarded-For (sign-in throttle). ALERTS_CLOCK_MS=0: alert tests run the
   // alert clock on simulated time themselves.
-  return [...fakeMail(c), ...fakeS3(c), brokerService(c), { ...ingestService(c), env: { ALERTS_CLOCK_MS: '0' } }, { ...webService(c), env: { TRUSTED_PROXIES: 'loopback' } }];
+  return [
+    ...fakeMail(c),
+    ...fakeS3(c),
+    brokerService(c),
+    { ...ingestService(c), env: { ALERTS_CLOCK_MS: '0' } },
+    { ...webService(c), env: { TRUSTED_PROXIES: 'loopback' } },
+  ];
 }

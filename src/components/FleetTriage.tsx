@@ -18,7 +18,9 @@ function FleetTriage({ towns }: { towns: string[] }) {
         <h1 className="mr-auto text-2xl font-semibold tracking-tight">Fleet</h1>
         {summary.data && <Freshness updatedAt={summary.dataUpdatedAt} fetching={summary.isFetching} />}
       </div>
-      {summary.isPending ? <Loading label="Working out which cylinders need attention…" /> : summary.isError && !summary.data ? (
+      {summary.isPending ? (
+        <Loading label="Working out which cylinders need attention…" />
+      ) : summary.isError && !summary.data ? (
         <ErrorNotice what="the fleet summary" error={summary.error} onRetry={() => summary.refetch()} />
       ) : summary.data ? (
         <>

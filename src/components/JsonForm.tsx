@@ -48,17 +48,36 @@ function specSchema(fields: FieldSpec[]) {
       fields.map((f) => {
         let s = z.string().trim();
         if (f.required) s = s.min(1, `${f.label} must be given.`);
-        const field = f.type === 'email' ? s.refine((v) => v === '' || /^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(v), `${f.label} must be an e-mail address (name@example.com).`) : s;
+        const field =
+          f.type === 'email'
+            ? s.refine(
+                (v) => v === '' || /^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(v),
+                `${f.label} must be an e-mail address (name@example.com).`,
+              )
+            : s;
         return [f.name, field];
       }),
     ),
   );
 }
 
-export default function JsonForm({ action, method = 'POST', fields, hidden = {}, submitLabel, successMessage, reload, confirm, tone = 'primary', inline }: Props) {
+export default function JsonForm({
+  action,
+  method = 'POST',
+  fields,
+  hidden = {},
+  submitLabel,
+  successMessage,
+  reload,
+  confirm,
+  tone = 'primary',
+  inline,
+}: Props) {
   const [done, setDone] = useState<string | null>(null);
   const form = useForm<Values>({
-    defaultValues: Object.fromEntries(fields.map((f) => [f.name, f.defaultValue ?? (f.type === 'select' ? (f.options?.[0]?.value ?? '') : '')])),
+    defaultValues: Object.fromEntries(
+      fields.map((f) => [f.name, f.defaultValue ?? (f.type === 'select' ? (f.options?.[0]?.value ?? '') : '')]),
+    ),
     resolver: zodResolver(specSchema(fields), undefined, { raw: true }),
   });
 
@@ -68,7 +87,10 @@ export default function JsonForm({ action, method = 'POST', fields, hidden = {},
     const body: Record<string, string> = { ...hidden };
     for (const f of fields) if (values[f.name] !== '' || f.required) body[f.name] = values[f.name] ?? '';
     try {
-      const answer = await fetchJson<{ message?: string; redirect?: string } | null>(action, { method, body: method === 'DELETE' ? undefined : JSON.stringify(body) });
+      const answer = await fetchJson<{ message?: string; redirect?: string } | null>(action, {
+        method,
+        body: method === 'DELETE' ? undefined : JSON.stringify(body),
+      });
       if (answer?.redirect) return window.location.assign(answer.redirect);
       if (reload) return window.location.reload();
       form.reset();
@@ -80,13 +102,36 @@ export default function JsonForm({ action, method = 'POST', fields, hidden = {},
 
   const button = tone === 'primary' ? 'btn-primary' : 'btn-quiet';
   return (
-    <Form form={form} onSubmit={submit} scope={action.replace(/\W+/g, '-')} className={inline ? 'flex flex-wrap items-end gap-2' : 'space-y-4'}>
+    <Form
+      form={form}
+      onSubmit={submit}
+      scope={action.replace(/\W+/g, '-')}
+      className={inline ? 'flex flex-wrap items-end gap-2' : 'space-y-4'}
+    >
       {done && <Saved>{done}</Saved>}
       {fields.map((f) =>
         f.type === 'select' ? (
-          <Select key={f.name} name={f.name} label={f.label} options={f.options ?? []} hint={f.hint} choose={null} quietLabel={inline} className={inline ? '' : undefined} />
+          <Select
+            key={f.name}
+            name={f.name}
+            label={f.label}
+            options={f.options ?? []}
+            hint={f.hint}
+            choose={null}
+            quietLabel={inline}
+            className={inline ? '' : undefined}
+          />
         ) : (
-          <Field key={f.name} name={f.name} label={f.label} type={f.type ?? 'text'} autoComplete={f.autoComplete} hint={f.hint} quietLabel={inline} className={inline ? '' : undefined} />
+          <Field
+            key={f.name}
+            name={f.name}
+            label={f.label}
+            type={f.type ?? 'text'}
+            autoComplete={f.autoComplete}
+            hint={f.hint}
+            quietLabel={inline}
+            className={inline ? '' : undefined}
+          />
         ),
       )}
       <button type="submit" disabled={form.formState.isSubmitting} className={`${button} ${inline ? '' : 'w-full'}`}>

@@ -20,17 +20,46 @@ export interface HeatSourceCapabilities {
 }
 
 const table: Record<HeatSource, HeatSourceCapabilities & { label: string; description: string }> = {
-  hp_plate: { heatPump: true, boiler: false, immersion: 'backup', exchanger: 'plate_ports', electricMain: true,
-    label: 'Heat pump, plate exchanger', description: 'Heat pump through a plate heat exchanger' },
-  hp_coil: { heatPump: true, boiler: false, immersion: 'backup', exchanger: 'coil', electricMain: true,
-    label: 'Heat pump, coil', description: 'Heat pump through the cylinder’s coil' },
-  immersion_only: { heatPump: false, boiler: false, immersion: 'only', exchanger: null, electricMain: true,
-    label: 'Immersion only', description: 'Immersion heater only' },
-  boiler_coil: { heatPump: false, boiler: true, immersion: 'backup', exchanger: 'coil', electricMain: false,
-    label: 'Boiler, coil', description: 'Boiler through the cylinder’s coil' },
+  hp_plate: {
+    heatPump: true,
+    boiler: false,
+    immersion: 'backup',
+    exchanger: 'plate_ports',
+    electricMain: true,
+    label: 'Heat pump, plate exchanger',
+    description: 'Heat pump through a plate heat exchanger',
+  },
+  hp_coil: {
+    heatPump: true,
+    boiler: false,
+    immersion: 'backup',
+    exchanger: 'coil',
+    electricMain: true,
+    label: 'Heat pump, coil',
+    description: 'Heat pump through the cylinder’s coil',
+  },
+  immersion_only: {
+    heatPump: false,
+    boiler: false,
+    immersion: 'only',
+    exchanger: null,
+    electricMain: true,
+    label: 'Immersion only',
+    description: 'Immersion heater only',
+  },
+  boiler_coil: {
+    heatPump: false,
+    boiler: true,
+    immersion: 'backup',
+    exchanger: 'coil',
+    electricMain: false,
+    label: 'Boiler, coil',
+    description: 'Boiler through the cylinder’s coil',
+  },
 };
 
-export const isHeatSource = (v: unknown): v is HeatSource => typeof v === 'string' && (heatSourceKinds as readonly string[]).includes(v);
+export const isHeatSource = (v: unknown): v is HeatSource =>
+  typeof v === 'string' && (heatSourceKinds as readonly string[]).includes(v);
 
 export function capabilities(kind: HeatSource): HeatSourceCapabilities {
   const c = table[kind];
@@ -44,9 +73,14 @@ export const hasHeatPump = (kind: HeatSource): boolean => capabilities(kind).hea
 export const hasMainSource = (kind: HeatSource): boolean => capabilities(kind).heatPump || capabilities(kind).boiler;
 
 /** Short words for lists and headings. */
-export const heatSourceLabels = Object.fromEntries(heatSourceKinds.map((k) => [k, table[k].label])) as Record<HeatSource, string>;
+export const heatSourceLabels = Object.fromEntries(heatSourceKinds.map((k) => [k, table[k].label])) as Record<
+  HeatSource,
+  string
+>;
 /** A fuller phrase for forms and the signed record. */
-export const heatSourceDescriptions = Object.fromEntries(heatSourceKinds.map((k) => [k, table[k].description])) as Record<HeatSource, string>;
+export const heatSourceDescriptions = Object.fromEntries(
+  heatSourceKinds.map((k) => [k, table[k].description]),
+) as Record<HeatSource, string>;
 
 /** The kinds with a heat pump (for SQL `in (…)` lists and filters). */
 export const heatPumpKinds: readonly HeatSource[] = heatSourceKinds.filter((k) => table[k].heatPump);

@@ -1,7 +1,11 @@
 import type { Role } from '../db/schema/companies';
 import { staffRoles } from '@/db/schema/companies';
 
-export interface NavItem { href: string; label: string; roles: readonly Role[] }
+export interface NavItem {
+  href: string;
+  label: string;
+  roles: readonly Role[];
+}
 
 /** The app shell's navigation: each person sees the parts of the product their role uses. */
 const navItems: readonly NavItem[] = [
@@ -22,6 +26,8 @@ export function navFor(role: Role | undefined): NavItem[] {
 /** The item the page at `path` belongs to: the longest href it starts with (so /fleet/energy is Energy, not Fleet). */
 export function currentHref(items: readonly NavItem[], path: string): string | null {
   let best: string | null = null;
-  for (const n of items) if ((path === n.href || path.startsWith(`${n.href}/`)) && (best === null || n.href.length > best.length)) best = n.href;
+  for (const n of items)
+    if ((path === n.href || path.startsWith(`${n.href}/`)) && (best === null || n.href.length > best.length))
+      best = n.href;
   return best;
 }

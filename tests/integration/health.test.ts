@@ -36,17 +36,26 @@ describe('migrations and demo seed', () => {
     await client.connect();
     try {
       // Other tests add companies and tanks of their own; count only the scenario's serials.
-      const serials = demoTanks().filter((t) => t.companySlug === 'kestrel-vale').map((t) => t.serial);
+      const serials = demoTanks()
+        .filter((t) => t.companySlug === 'kestrel-vale')
+        .map((t) => t.serial);
       const { rows } = await client.query(
         `select c.slug, count(t.id)::int as tanks from companies c left join tanks t on t.company_id = c.id and t.serial = any($1)
-          where c.slug in ('kestrel-vale', 'orrin-bay') group by c.slug order by c.slug`, [serials]);
+          where c.slug in ('kestrel-vale', 'orrin-bay') group by c.slug order by c.slug`,
+        [serials],
+      );
       expect(rows.map((r) => r.slug)).toEqual(['kestrel-vale', 'orrin-bay']);
       expect(rows.find((r) => r.slug === 'kestrel-vale').tanks).toBe(240);
       // One demo sign-in per role in each company, each with its role (other tests add people of their own).
       const accounts = await client.query(
         `select u.email, m.role from "user" u join memberships m on m.user_id = u.id where u.email = any($1) order by u.email`,
-        [demoAccounts().map((a) => a.email)]);
-      expect(accounts.rows).toEqual(demoAccounts().map((a) => ({ email: a.email, role: a.role })).sort((a, b) => a.email.localeCompare(b.email)));
+        [demoAccounts().map((a) => a.email)],
+      );
+      expect(accounts.rows).toEqual(
+        demoAccounts()
+          .map((a) => ({ email: a.email, role: a.role }))
+          .sort((a, b) => a.email.localeCompare(b.email)),
+      );
     } finally {
       await client.end();
     }

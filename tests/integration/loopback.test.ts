@@ -8,7 +8,11 @@ function listeners(): { addr: string; port: number }[] {
   const out: { addr: string; port: number }[] = [];
   for (const file of ['/proc/net/tcp', '/proc/net/tcp6']) {
     let text = '';
-    try { text = readFileSync(file, 'utf8'); } catch { continue; }
+    try {
+      text = readFileSync(file, 'utf8');
+    } catch {
+      continue;
+    }
     for (const line of text.trim().split('\n').slice(1)) {
       const cols = line.trim().split(/\s+/);
       if (cols[3] !== '0A') continue;

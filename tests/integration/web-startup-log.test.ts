@@ -14,7 +14,10 @@ import { signInAs } from '../support/session';
 const port = Number(process.env.PG_PORT) + 50;
 const url = `http://127.0.0.1:${port}`;
 let web: ChildProcess | undefined;
-afterAll(async () => { web?.kill('SIGKILL'); await closeTestDb(); });
+afterAll(async () => {
+  web?.kill('SIGKILL');
+  await closeTestDb();
+});
 
 describe('web server log', () => {
   it('has no warnings from start to stop', async () => {
@@ -24,9 +27,22 @@ describe('web server log', () => {
       env: { ...process.env, PORT: String(port), AUTH_URL: url },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
-    web.stdout!.on('data', (d) => { out += d; });
-    web.stderr!.on('data', (d) => { err += d; });
-    await eventually(() => fetch(`${url}/api/health`).then((r) => r.ok, () => false), (ok) => ok, 30_000, `the web server (log: ${out}${err})`);
+    web.stdout!.on('data', (d) => {
+      out += d;
+    });
+    web.stderr!.on('data', (d) => {
+      err += d;
+    });
+    await eventually(
+      () =>
+        fetch(`${url}/api/health`).then(
+          (r) => r.ok,
+          () => false,
+        ),
+      (ok) => ok,
+      30_000,
+      `the web server (log: ${out}${err})`,
+    );
 
     const api = { base: url, cookie: await signInAs(url, 'engineer') };
     expect((await fetch(`${url}/commissioning`, { headers: { cookie: api.cookie } })).status).toBe(200);
@@ -35,7 +51,11 @@ describe('web server log', () => {
     const form = new FormData();
     form.set('file', new Blob([new Uint8Array(await jpegPhoto(64, 48))], { type: 'image/jpeg' }), 'plate.jpg');
     form.set('commissioningId', draft.body.id);
-    const up = await fetch(`${url}/api/uploads`, { method: 'POST', headers: { origin: url, cookie: api.cookie }, body: form });
+    const up = await fetch(`${url}/api/uploads`, {
+      method: 'POST',
+      headers: { origin: url, cookie: api.cookie },
+      body: form,
+    });
     expect(up.status).toBe(201);
     const { upload } = (await up.json()) as { upload: { id: string } };
     expect((await fetch(`${url}/api/uploads/${upload.id}`, { headers: { cookie: api.cookie } })).status).toBe(200);

@@ -15,13 +15,24 @@ export function launchBrowser(extraArgs: string[] = []): Promise<Browser> {
     executablePath: '/usr/bin/chromium',
     headless: true,
     // The machine's network is closed: keep Chromium from phoning home at every start.
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', ...extraArgs],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      ...extraArgs,
+    ],
   });
 }
 
 /** Waits until every React island on the page has hydrated, so typing and clicks reach React. */
 export async function waitForIslands(page: Page): Promise<void> {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 20_000 });
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, {
+    timeout: 20_000,
+  });
 }
 
 const shotDir = new URL('../../test-results/screenshots', import.meta.url).pathname;

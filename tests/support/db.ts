@@ -8,7 +8,10 @@ function testDb(): pg.Pool {
   return pool;
 }
 
-export async function query<T extends pg.QueryResultRow = pg.QueryResultRow>(text: string, values: unknown[] = []): Promise<T[]> {
+export async function query<T extends pg.QueryResultRow = pg.QueryResultRow>(
+  text: string,
+  values: unknown[] = [],
+): Promise<T[]> {
   return (await testDb().query<T>(text, values)).rows;
 }
 

@@ -12,7 +12,12 @@ export function mailTo(address: string): CapturedMail[] {
 }
 
 /** Waits for a new message to `address` (received after `since`) whose subject matches. */
-export async function waitForMail(address: string, subject: RegExp, since: Date, timeoutMs = 10_000): Promise<CapturedMail> {
+export async function waitForMail(
+  address: string,
+  subject: RegExp,
+  since: Date,
+  timeoutMs = 10_000,
+): Promise<CapturedMail> {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
     const found = mailTo(address).find((m) => subject.test(m.subject) && new Date(m.receivedAt) >= since);

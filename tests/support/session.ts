@@ -31,7 +31,10 @@ export function cookiesFrom(res: Response): Map<string, string> {
 export const cookieHeader = (jar: Map<string, string>): string => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
 
 /** Auth.js's CSRF token and the cookie that goes with it. */
-export async function csrf(baseUrl: string, extraHeaders: Record<string, string> = {}): Promise<{ token: string; jar: Map<string, string> }> {
+export async function csrf(
+  baseUrl: string,
+  extraHeaders: Record<string, string> = {},
+): Promise<{ token: string; jar: Map<string, string> }> {
   const res = await fetch(`${baseUrl}/api/auth/csrf`, { headers: extraHeaders });
   if (!res.ok) throw new Error(`GET /api/auth/csrf answered ${res.status}`);
   const { csrfToken } = (await res.json()) as { csrfToken: string };
@@ -42,12 +45,22 @@ export async function csrf(baseUrl: string, extraHeaders: Record<string, string>
  * Attempts a password sign-in and returns the raw answer (a redirect) and the cookie jar.
  * `headers` lets a test act from another address (X-Forwarded-For) or over HTTPS (X-Forwarded-Proto).
  */
-export async function attemptSignIn(baseUrl: string, email: string, password: string, headers: Record<string, string> = {}): Promise<{ res: Response; jar: Map<string, string> }> {
+export async function attemptSignIn(
+  baseUrl: string,
+  email: string,
+  password: string,
+  headers: Record<string, string> = {},
+): Promise<{ res: Response; jar: Map<string, string> }> {
   const { token, jar } = await csrf(baseUrl, headers);
   const res = await fetch(`${baseUrl}/api/auth/callback/credentials`, {
     method: 'POST',
     redirect: 'manual',
-    headers: { 'content-type': 'application/x-www-form-urlencoded', origin: baseUrl, cookie: cookieHeader(jar), ...headers },
+    headers: {
+      'content-type': 'application/x-www-form-urlencoded',
+      origin: baseUrl,
+      cookie: cookieHeader(jar),
+      ...headers,
+    },
     body: new URLSearchParams({ csrfToken: token, email, password, callbackUrl: '/' }),
   });
   for (const [k, v] of cookiesFrom(res)) jar.set(k, v);
@@ -74,7 +87,11 @@ export async function signOut(baseUrl: string, sessionCookie: string): Promise<R
   return fetch(`${baseUrl}/api/auth/signout`, {
     method: 'POST',
     redirect: 'manual',
-    headers: { 'content-type': 'application/x-www-form-urlencoded', origin: baseUrl, cookie: `${sessionCookie}; ${cookieHeader(jar)}` },
+    headers: {
+      'content-type': 'application/x-www-form-urlencoded',
+      origin: baseUrl,
+      cookie: `${sessionCookie}; ${cookieHeader(jar)}`,
+    },
     body: new URLSearchParams({ csrfToken: token, callbackUrl: '/signin?signedOut=1' }),
   });
 }

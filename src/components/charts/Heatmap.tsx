@@ -25,7 +25,17 @@ function layerBounds(positions: readonly number[], heightM: number): { lower: nu
  * Height (y) against time (x), each cell coloured by its layer's temperature. The cursor (mouse,
  * touch, or the keyboard slider the parent renders) picks a reading; `onIndex` reports it.
  */
-export function Heatmap({ s, heightM, selected, onIndex }: { s: ReadingsResponse; heightM: number; selected: number; onIndex: (i: number) => void }) {
+export function Heatmap({
+  s,
+  heightM,
+  selected,
+  onIndex,
+}: {
+  s: ReadingsResponse;
+  heightM: number;
+  selected: number;
+  onIndex: (i: number) => void;
+}) {
   const [ref, width] = useWidth<HTMLDivElement>();
   const selectedRef = useRef(selected);
   selectedRef.current = selected;
@@ -33,7 +43,9 @@ export function Heatmap({ s, heightM, selected, onIndex }: { s: ReadingsResponse
   onIndexRef.current = onIndex;
   const chartRef = useRef<uPlot | null>(null);
   // biome-ignore lint/correctness/useExhaustiveDependencies: the draw hook reads the selection from a ref; a new selection only asks for a redraw
-  useEffect(() => { chartRef.current?.redraw(false, false); }, [selected]);
+  useEffect(() => {
+    chartRef.current?.redraw(false, false);
+  }, [selected]);
 
   const data = useMemo<uPlot.AlignedData>(() => [s.t.map((t) => t / 1000), s.t.map(() => heightM / 2)], [s, heightM]);
   const options = useMemo<uPlot.Options>(() => {
@@ -65,31 +77,59 @@ export function Heatmap({ s, heightM, selected, onIndex }: { s: ReadingsResponse
         const x = u.valToPos(s.t[sel]! / 1000, 'x', true);
         ctx.strokeStyle = tokens.paper.raised;
         ctx.lineWidth = 2 * uPlot.pxRatio;
-        ctx.beginPath(); ctx.moveTo(x, top); ctx.lineTo(x, top + h); ctx.stroke();
+        ctx.beginPath();
+        ctx.moveTo(x, top);
+        ctx.lineTo(x, top + h);
+        ctx.stroke();
         ctx.strokeStyle = tokens.ink.DEFAULT;
         ctx.lineWidth = 1 * uPlot.pxRatio;
-        ctx.beginPath(); ctx.moveTo(x, top); ctx.lineTo(x, top + h); ctx.stroke();
+        ctx.beginPath();
+        ctx.moveTo(x, top);
+        ctx.lineTo(x, top + h);
+        ctx.stroke();
       }
       ctx.restore();
     };
     const span = s.t.length ? s.t[s.t.length - 1]! - s.t[0]! : 0;
     return {
-      width: Math.max(280, width), height: 260,
-      scales: { x: { time: true, range: [Date.parse(s.from) / 1000, Date.parse(s.to) / 1000] }, y: { range: [0, heightM] } },
-      axes: [timeAxis(span), axis({ label: 'Height above bottom (m)', values: (_u, splits) => splits.map((v) => v.toFixed(1)), size: 50 })],
+      width: Math.max(280, width),
+      height: 260,
+      scales: {
+        x: { time: true, range: [Date.parse(s.from) / 1000, Date.parse(s.to) / 1000] },
+        y: { range: [0, heightM] },
+      },
+      axes: [
+        timeAxis(span),
+        axis({ label: 'Height above bottom (m)', values: (_u, splits) => splits.map((v) => v.toFixed(1)), size: 50 }),
+      ],
       series: [{}, { label: 'cursor', paths: () => null, points: { show: false }, stroke: 'transparent' }],
       legend: { show: false },
       cursor: { y: false, points: { show: false }, drag: { x: false, y: false } },
       hooks: {
         draw: [draw],
-        setCursor: [(u) => { if (u.cursor.idx !== null && u.cursor.idx !== undefined) onIndexRef.current(u.cursor.idx); }],
+        setCursor: [
+          (u) => {
+            if (u.cursor.idx !== null && u.cursor.idx !== undefined) onIndexRef.current(u.cursor.idx);
+          },
+        ],
       },
     };
   }, [s, heightM, width]);
 
   return (
     <div ref={ref} className="w-full min-w-0 overflow-hidden" aria-hidden="true">
-      {width > 0 && <UplotReact options={options} data={data} onCreate={(u) => { chartRef.current = u; }} onDelete={() => { chartRef.current = null; }} />}
+      {width > 0 && (
+        <UplotReact
+          options={options}
+          data={data}
+          onCreate={(u) => {
+            chartRef.current = u;
+          }}
+          onDelete={() => {
+            chartRef.current = null;
+          }}
+        />
+      )}
     </div>
   );
 }

@@ -3,6 +3,9 @@
 import config from '../../../tailwind.config.mjs';
 
 type Shade = { DEFAULT: string } & Record<string, string>;
-const c = config.theme!.extend!.colors as unknown as Record<'ink' | 'paper' | 'line' | 'kiln' | 'tide' | 'ochre' | 'brick' | 'dusk', Shade>;
+const c = config.theme!.extend!.colors as unknown as Record<
+  'ink' | 'paper' | 'line' | 'kiln' | 'tide' | 'ochre' | 'brick' | 'dusk',
+  Shade
+>;
 export const tokens = c;
 export const fontMono = '12px "IBM Plex Mono", ui-monospace, monospace';

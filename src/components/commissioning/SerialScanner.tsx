@@ -28,25 +28,49 @@ export function SerialScanner({ onSerial }: { onSerial: (serial: string) => void
         camera.setAttribute('aria-label', 'Camera view for scanning the serial');
         frame.current.replaceChildren(camera);
         const controls = await new BrowserMultiFormatReader().decodeFromVideoDevice(undefined, camera, (result) => {
-          if (result) { onSerial(result.getText().trim()); setOpen(false); }
+          if (result) {
+            onSerial(result.getText().trim());
+            setOpen(false);
+          }
         });
-        stop = () => { controls.stop(); camera.remove(); };
+        stop = () => {
+          controls.stop();
+          camera.remove();
+        };
         if (cancelled) stop();
       } catch (err) {
-        setMessage(err instanceof Error && /Permission|NotAllowed/i.test(err.name + err.message)
-          ? 'The camera was not allowed. Allow it in the browser’s site settings, or type the serial.'
-          : 'No camera could be opened on this device. Type the serial from the data plate instead.');
+        setMessage(
+          err instanceof Error && /Permission|NotAllowed/i.test(err.name + err.message)
+            ? 'The camera was not allowed. Allow it in the browser’s site settings, or type the serial.'
+            : 'No camera could be opened on this device. Type the serial from the data plate instead.',
+        );
         setOpen(false);
       }
     })();
-    return () => { cancelled = true; stop?.(); };
+    return () => {
+      cancelled = true;
+      stop?.();
+    };
   }, [open, onSerial]);
 
   return (
     <div>
-      <button type="button" className="btn-quiet" onClick={() => { setMessage(null); setOpen((o) => !o); }}>{open ? 'Stop scanning' : 'Scan the code'}</button>
+      <button
+        type="button"
+        className="btn-quiet"
+        onClick={() => {
+          setMessage(null);
+          setOpen((o) => !o);
+        }}
+      >
+        {open ? 'Stop scanning' : 'Scan the code'}
+      </button>
       {open && <div ref={frame} className="mt-2 w-full max-w-sm" />}
-      {message && <p role="status" className="mt-1 text-sm text-ochre">{message}</p>}
+      {message && (
+        <p role="status" className="mt-1 text-sm text-ochre">
+          {message}
+        </p>
+      )}
     </div>
   );
 }

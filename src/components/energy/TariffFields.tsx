@@ -12,10 +12,28 @@ export function TariffFields() {
   const [kind, unit] = watch(['kind', 'unit']);
   return (
     <>
-      <Select name="kind" label="Kind" choose={null} options={[{ value: 'flat', label: 'Flat (one price)' }, { value: 'day_night', label: 'Day and night' }]} />
+      <Select
+        name="kind"
+        label="Kind"
+        choose={null}
+        options={[
+          { value: 'flat', label: 'Flat (one price)' },
+          { value: 'day_night', label: 'Day and night' },
+        ]}
+      />
       <Field name="name" label="Name" hint="Optional, e.g. the supplier's plan name." maxLength={120} />
-      <Select name="unit" label="Unit" choose={null} options={[{ value: 'p/kWh', label: 'p/kWh' }, { value: '£/kWh', label: '£/kWh' }]} />
-      {kind === 'flat' ? price('import', 'Import price', unit) : (
+      <Select
+        name="unit"
+        label="Unit"
+        choose={null}
+        options={[
+          { value: 'p/kWh', label: 'p/kWh' },
+          { value: '£/kWh', label: '£/kWh' },
+        ]}
+      />
+      {kind === 'flat' ? (
+        price('import', 'Import price', unit)
+      ) : (
         <>
           {price('dayImport', 'Day import price', unit)}
           {price('nightImport', 'Night import price', unit)}
@@ -25,7 +43,12 @@ export function TariffFields() {
       )}
       {price('export', 'Export price', unit)}
       <Field name="validFrom" label="First day" type="date" hint="From the start of this day at the home." />
-      <Field name="validTo" label="Last day" type="date" hint="Optional: the last day it applies. Leave empty while it runs on." />
+      <Field
+        name="validTo"
+        label="Last day"
+        type="date"
+        hint="Optional: the last day it applies. Leave empty while it runs on."
+      />
     </>
   );
 }

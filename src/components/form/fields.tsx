@@ -40,7 +40,15 @@ interface FormProps<T extends FieldValues, R extends FieldValues> {
   scope?: string;
 }
 
-export function Form<T extends FieldValues, R extends FieldValues>({ form, onSubmit, children, className, refusal, summaryTestId, scope = '' }: FormProps<T, R>) {
+export function Form<T extends FieldValues, R extends FieldValues>({
+  form,
+  onSubmit,
+  children,
+  className,
+  refusal,
+  summaryTestId,
+  scope = '',
+}: FormProps<T, R>) {
   // Kept across renders: the summary renders before the fields, which fill it on their first render.
   const labels = useRef(new Map<string, string>()).current;
   return (
@@ -82,16 +90,29 @@ function FormSummary({ refusal, testId }: { refusal?: string; testId?: string })
   if (!server && all.length === 0) return null;
   // The server's problems that name no field here sit beside its message under errors.root.
   const extra = Object.entries(formState.errors.root ?? {})
-    .filter(([k, e]) => k !== SERVER_ERROR && k !== 'type' && k !== 'message' && typeof (e as FieldError)?.message === 'string')
+    .filter(
+      ([k, e]) =>
+        k !== SERVER_ERROR && k !== 'type' && k !== 'message' && typeof (e as FieldError)?.message === 'string',
+    )
     .map(([, e]) => String((e as FieldError).message));
   return (
-    <div role="alert" data-testid={testId} className="col-span-full w-full rounded-card border border-brick bg-brick-pale p-3 text-sm text-brick">
-      <p className="font-semibold">{server?.message ?? refusal ?? `Not saved. Correct ${onForm.length === 1 ? 'this field' : 'these fields'} and save again.`}</p>
+    <div
+      role="alert"
+      data-testid={testId}
+      className="col-span-full w-full rounded-card border border-brick bg-brick-pale p-3 text-sm text-brick"
+    >
+      <p className="font-semibold">
+        {server?.message ??
+          refusal ??
+          `Not saved. Correct ${onForm.length === 1 ? 'this field' : 'these fields'} and save again.`}
+      </p>
       {(onForm.length > 0 || elsewhere.length > 0 || extra.length > 0) && (
         <ul className="mt-1 list-disc pl-5">
           {onForm.map((e) => (
             <li key={e.name}>
-              <a className="underline" href={`#${fieldId(e.name, scope)}`}>{labels.get(e.name)}</a>
+              <a className="underline" href={`#${fieldId(e.name, scope)}`}>
+                {labels.get(e.name)}
+              </a>
             </li>
           ))}
           {[...elsewhere.map((e) => worded(e.name, e.message)), ...extra].map((m, i) => (
@@ -118,7 +139,11 @@ function useField(name: string, label: string, hint?: ReactNode) {
 function Below({ id, name, hint, error }: { id: string; name: string; hint?: ReactNode; error?: string }) {
   return (
     <>
-      {hint && <p id={`${id}-hint`} className="mt-1 text-xs text-ink-muted">{hint}</p>}
+      {hint && (
+        <p id={`${id}-hint`} className="mt-1 text-xs text-ink-muted">
+          {hint}
+        </p>
+      )}
       {error && (
         <p id={`${id}-error`} className="mt-1 text-sm text-brick" data-field-error={name}>
           {error}
@@ -145,7 +170,20 @@ interface FieldProps {
 }
 
 /** A text input; numbers are typed as text (inputMode decimal) so the schema, not the browser, names the problem. */
-export function Field({ name, label, type = 'text', hint, unit, inputMode, autoComplete, readOnly, placeholder, maxLength, quietLabel, className }: FieldProps) {
+export function Field({
+  name,
+  label,
+  type = 'text',
+  hint,
+  unit,
+  inputMode,
+  autoComplete,
+  readOnly,
+  placeholder,
+  maxLength,
+  quietLabel,
+  className,
+}: FieldProps) {
   const { ctx, id, error, aria } = useField(name, label, hint);
   return (
     <div className={className ?? 'min-w-0'}>
@@ -170,12 +208,30 @@ export function Field({ name, label, type = 'text', hint, unit, inputMode, autoC
   );
 }
 
-export function TextArea({ name, label, hint, rows = 3 }: { name: string; label: string; hint?: ReactNode; rows?: number }) {
+export function TextArea({
+  name,
+  label,
+  hint,
+  rows = 3,
+}: {
+  name: string;
+  label: string;
+  hint?: ReactNode;
+  rows?: number;
+}) {
   const { ctx, id, error, aria } = useField(name, label, hint);
   return (
     <div>
-      <label htmlFor={id} className="label">{label}</label>
-      <textarea id={id} rows={rows} {...aria} className={`field ${error ? 'border-brick' : ''}`} {...ctx.register(name)} />
+      <label htmlFor={id} className="label">
+        {label}
+      </label>
+      <textarea
+        id={id}
+        rows={rows}
+        {...aria}
+        className={`field ${error ? 'border-brick' : ''}`}
+        {...ctx.register(name)}
+      />
       <Below id={id} name={name} hint={hint} error={error} />
     </div>
   );
@@ -196,11 +252,15 @@ export function Select({ name, label, options, hint, choose = 'Choose…', quiet
   const { ctx, id, error, aria } = useField(name, label, hint);
   return (
     <div className={className ?? 'min-w-0'}>
-      <label htmlFor={id} className={quietLabel ? 'sr-only' : 'label'}>{label}</label>
+      <label htmlFor={id} className={quietLabel ? 'sr-only' : 'label'}>
+        {label}
+      </label>
       <select id={id} {...aria} className={`field ${error ? 'border-brick' : ''}`} {...ctx.register(name)}>
         {choose !== null && <option value="">{choose}</option>}
         {options.map((o) => (
-          <option key={o.value} value={o.value}>{o.label}</option>
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
         ))}
       </select>
       <Below id={id} name={name} hint={hint} error={error} />
@@ -224,7 +284,11 @@ export function Check({ name, label }: { name: string; label: string }) {
 /** A confirmation after a save, announced politely. */
 export function Saved({ children, testId }: { children: ReactNode; testId?: string }) {
   return (
-    <p role="status" data-testid={testId} className="rounded-md border border-tide bg-tide-pale px-3 py-2 text-sm text-tide-deep">
+    <p
+      role="status"
+      data-testid={testId}
+      className="rounded-md border border-tide bg-tide-pale px-3 py-2 text-sm text-tide-deep"
+    >
       {children}
     </p>
   );

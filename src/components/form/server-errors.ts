@@ -6,7 +6,8 @@ import { ApiError } from '../../lib/query/client';
 /** The key under `errors.root` that holds the server's refusal. */
 export const SERVER_ERROR = 'server';
 
-const OFFLINE_MESSAGE = 'Could not reach Heatlayer. Your answers are still here; try again when the connection is back.';
+const OFFLINE_MESSAGE =
+  'Could not reach Heatlayer. Your answers are still here; try again when the connection is back.';
 
 /** Dotted names of every value the form holds (nested objects included). */
 function names(values: unknown, prefix = ''): string[] {

@@ -6,24 +6,58 @@ import { useForm } from 'react-hook-form';
 import { assumptionsSchema, type AssumptionsTyped, BATH_L, SHOWER_L } from '../../lib/views/assumptions-form';
 import { Field, Form, Saved } from '../form/fields';
 
-interface Assumptions { showerL: number; bathL: number }
+interface Assumptions {
+  showerL: number;
+  bathL: number;
+}
 const typed = (a: Assumptions): AssumptionsTyped => ({ showerL: String(a.showerL), bathL: String(a.bathL) });
 
-export default function AssumptionsForm({ value, standard, onSave }: { value: Assumptions; standard: Assumptions; onSave: (a: Assumptions) => void }) {
-  const form = useForm<AssumptionsTyped, unknown, Assumptions>({ defaultValues: typed(value), resolver: zodResolver(assumptionsSchema) });
+export default function AssumptionsForm({
+  value,
+  standard,
+  onSave,
+}: {
+  value: Assumptions;
+  standard: Assumptions;
+  onSave: (a: Assumptions) => void;
+}) {
+  const form = useForm<AssumptionsTyped, unknown, Assumptions>({
+    defaultValues: typed(value),
+    resolver: zodResolver(assumptionsSchema),
+  });
   const [saved, setSaved] = useState(false);
   const save = (a: Assumptions) => {
     onSave(a);
     setSaved(true);
   };
   return (
-    <Form form={form} scope="home" className="mt-2 grid grid-cols-2 gap-3" refusal="Not changed. Correct the sizes and save again."
-      onSubmit={save}>
+    <Form
+      form={form}
+      scope="home"
+      className="mt-2 grid grid-cols-2 gap-3"
+      refusal="Not changed. Correct the sizes and save again."
+      onSubmit={save}
+    >
       <Field name="showerL" label="Litres per shower" inputMode="decimal" hint={`${SHOWER_L.min} to ${SHOWER_L.max}`} />
       <Field name="bathL" label="Litres per bath" inputMode="decimal" hint={`${BATH_L.min} to ${BATH_L.max}`} />
-      <button type="submit" className="btn-primary">Save</button>
-      <button type="button" className="btn-quiet" onClick={() => { form.reset(typed(standard)); save(standard); }}>Use standard sizes</button>
-      {saved && !form.formState.isDirty && <div className="col-span-2"><Saved testId="assumptions-saved">Saved on this phone.</Saved></div>}
+      <button type="submit" className="btn-primary">
+        Save
+      </button>
+      <button
+        type="button"
+        className="btn-quiet"
+        onClick={() => {
+          form.reset(typed(standard));
+          save(standard);
+        }}
+      >
+        Use standard sizes
+      </button>
+      {saved && !form.formState.isDirty && (
+        <div className="col-span-2">
+          <Saved testId="assumptions-saved">Saved on this phone.</Saved>
+        </div>
+      )}
     </Form>
   );
 }

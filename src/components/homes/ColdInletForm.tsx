@@ -19,7 +19,13 @@ const typedSchema = z
   })
   .pipe(homeSettingsBody);
 
-interface HomeWater { id: string; label: string; coldInletC: number | null; coldWaterC: number; coldWaterFrom: 'home' | 'EN 16147' }
+interface HomeWater {
+  id: string;
+  label: string;
+  coldInletC: number | null;
+  coldWaterC: number;
+  coldWaterFrom: 'home' | 'EN 16147';
+}
 
 /**
  * The cold water a home's figures count from: the temperature measured at its cold inlet, or
@@ -29,35 +35,77 @@ function ColdInletForm({ homeId, canChange }: { homeId: string; canChange: boole
   const client = useQueryClient();
   const key = ['home', homeId];
   const home = useQuery({ queryKey: key, queryFn: () => fetchJson<HomeWater>(`/api/homes/${homeId}`) });
-  const form = useForm<{ coldInletC: string }, unknown, { coldInletC: number | null }>({ defaultValues: { coldInletC: '' }, resolver: zodResolver(typedSchema) });
+  const form = useForm<{ coldInletC: string }, unknown, { coldInletC: number | null }>({
+    defaultValues: { coldInletC: '' },
+    resolver: zodResolver(typedSchema),
+  });
   const stored = home.data?.coldInletC;
-  useEffect(() => { if (stored !== undefined) form.reset({ coldInletC: stored === null ? '' : String(stored) }); }, [stored, form]);
+  useEffect(() => {
+    if (stored !== undefined) form.reset({ coldInletC: stored === null ? '' : String(stored) });
+  }, [stored, form]);
   const save = useMutation({
-    mutationFn: (coldInletC: number | null) => fetchJson<{ tanksUpdated: number }>(`/api/homes/${homeId}`, { method: 'PATCH', body: JSON.stringify({ coldInletC }) }),
+    mutationFn: (coldInletC: number | null) =>
+      fetchJson<{ tanksUpdated: number }>(`/api/homes/${homeId}`, {
+        method: 'PATCH',
+        body: JSON.stringify({ coldInletC }),
+      }),
     onSuccess: () => client.invalidateQueries({ queryKey: key }),
     onError: (err) => showServerErrors(form, err),
   });
-  const send = (coldInletC: number | null) => save.mutateAsync(coldInletC).then(() => undefined, () => undefined);
+  const send = (coldInletC: number | null) =>
+    save.mutateAsync(coldInletC).then(
+      () => undefined,
+      () => undefined,
+    );
 
   if (home.isPending) return <Loading label="Loading the home's cold water supply…" />;
-  if (home.isError) return <ErrorNotice error={home.error} onRetry={() => home.refetch()} what="the home's cold water supply" />;
+  if (home.isError)
+    return <ErrorNotice error={home.error} onRetry={() => home.refetch()} what="the home's cold water supply" />;
   const h = home.data;
 
   return (
     <section className="card max-w-prose" aria-labelledby="cold-water-heading">
-      <h2 id="cold-water-heading" className="text-lg font-semibold">Cold water supply</h2>
+      <h2 id="cold-water-heading" className="text-lg font-semibold">
+        Cold water supply
+      </h2>
       <p className="mt-1 text-sm text-ink-soft">
-        Every figure of this home's cylinders (state of charge, litres at 40 °C, stored heat) counts from the cold water that refills them.
-        Now: <strong>{h.coldWaterC} °C</strong> {h.coldWaterFrom === 'home' ? '(measured at this home)' : '(EN 16147’s standard 10 °C; none measured here)'}.
+        Every figure of this home's cylinders (state of charge, litres at 40 °C, stored heat) counts from the cold water
+        that refills them. Now: <strong>{h.coldWaterC} °C</strong>{' '}
+        {h.coldWaterFrom === 'home' ? '(measured at this home)' : '(EN 16147’s standard 10 °C; none measured here)'}.
       </p>
       {canChange ? (
         <Form form={form} className="mt-4 space-y-3" onSubmit={(v) => send(v.coldInletC)}>
-          <Field name="coldInletC" label="Measured at the cold inlet, °C" inputMode="decimal" className="w-32"
-            hint={`Between ${COLD_INLET_MIN_C} and ${COLD_INLET_MAX_C} °C, read at a cold tap after it has run. Leave empty for 10 °C.`} />
-          {save.isSuccess && <Saved>Saved. The figures of {save.data.tanksUpdated === 1 ? 'its cylinder' : `its ${save.data.tanksUpdated} cylinders`} now count from it.</Saved>}
+          <Field
+            name="coldInletC"
+            label="Measured at the cold inlet, °C"
+            inputMode="decimal"
+            className="w-32"
+            hint={`Between ${COLD_INLET_MIN_C} and ${COLD_INLET_MAX_C} °C, read at a cold tap after it has run. Leave empty for 10 °C.`}
+          />
+          {save.isSuccess && (
+            <Saved>
+              Saved. The figures of{' '}
+              {save.data.tanksUpdated === 1 ? 'its cylinder' : `its ${save.data.tanksUpdated} cylinders`} now count from
+              it.
+            </Saved>
+          )}
           <div className="flex gap-2">
-            <button type="submit" className="btn-primary" disabled={save.isPending}>{save.isPending ? 'Saving…' : 'Save'}</button>
-            {h.coldInletC !== null && <button type="button" className="btn-quiet" disabled={save.isPending} onClick={() => { form.clearErrors(); void send(null); }}>Use 10 °C again</button>}
+            <button type="submit" className="btn-primary" disabled={save.isPending}>
+              {save.isPending ? 'Saving…' : 'Save'}
+            </button>
+            {h.coldInletC !== null && (
+              <button
+                type="button"
+                className="btn-quiet"
+                disabled={save.isPending}
+                onClick={() => {
+                  form.clearErrors();
+                  void send(null);
+                }}
+              >
+                Use 10 °C again
+              </button>
+            )}
           </div>
         </Form>
       ) : (

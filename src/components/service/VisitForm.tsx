@@ -8,7 +8,12 @@ import { type UploadItem, UploadPanel } from '../commissioning/UploadPanel';
 import { Check, Field, Form, Select, TextArea } from '../form/fields';
 import { showServerErrors } from '../form/server-errors';
 
-export interface OpenAlert { id: string; label: string; summary: string; since: string }
+export interface OpenAlert {
+  id: string;
+  label: string;
+  summary: string;
+  since: string;
+}
 
 const alertField = (id: string) => `alert-${id}`;
 
@@ -31,7 +36,10 @@ export default function VisitForm({ tankId, openAlerts = [] }: { tankId: string;
       await fetchJson('/api/visits', { method: 'POST', body: JSON.stringify(body) });
       window.location.reload();
     } catch (err) {
-      showServerErrors(form, err, { fieldOf: (f) => f.replace(/^readings\./, ''), offline: 'Could not reach Heatlayer. Your notes are still here; try again.' });
+      showServerErrors(form, err, {
+        fieldOf: (f) => f.replace(/^readings\./, ''),
+        offline: 'Could not reach Heatlayer. Your notes are still here; try again.',
+      });
     }
   }
 
@@ -39,7 +47,11 @@ export default function VisitForm({ tankId, openAlerts = [] }: { tankId: string;
   return (
     <Form form={form} onSubmit={submit} className="space-y-4">
       <div className="grid gap-4 sm:grid-cols-2">
-        <Select name="kind" label="Kind of visit" options={visitKinds.map((k) => ({ value: k, label: visitKindLabels[k] }))} />
+        <Select
+          name="kind"
+          label="Kind of visit"
+          options={visitKinds.map((k) => ({ value: k, label: visitKindLabels[k] }))}
+        />
         <Field name="visitedAt" label="Date" type="date" />
       </div>
       <TextArea name="findings" label="Findings and work done" rows={4} />

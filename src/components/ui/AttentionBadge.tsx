@@ -12,5 +12,11 @@ const tone: Record<AttentionKind, string> = {
 };
 
 export function AttentionBadge({ kind }: { kind: AttentionKind }) {
-  return <span className={cn('inline-flex items-center whitespace-nowrap rounded px-1.5 py-0.5 text-xs font-medium', tone[kind])}>{attentionLabels[kind]}</span>;
+  return (
+    <span
+      className={cn('inline-flex items-center whitespace-nowrap rounded px-1.5 py-0.5 text-xs font-medium', tone[kind])}
+    >
+      {attentionLabels[kind]}
+    </span>
+  );
 }

@@ -7,7 +7,12 @@ type Quality = Pick<FiguresQuality, 'status' | 'leftOut' | 'reason'>;
 /** A figure in a table: the value, marked when estimated; the short reason instead when withheld. */
 export function QualifiedFigure({ value, q, testId }: { value: string; q: Quality; testId?: string }) {
   const mark = qualityMark(q);
-  if (q.status === 'withheld') return <span className="text-xs text-ochre" title={q.reason ?? undefined} data-quality="withheld" data-testid={testId}>{mark}</span>;
+  if (q.status === 'withheld')
+    return (
+      <span className="text-xs text-ochre" title={q.reason ?? undefined} data-quality="withheld" data-testid={testId}>
+        {mark}
+      </span>
+    );
   return (
     <span data-quality={q.status} data-testid={testId} title={q.reason ?? undefined}>
       <span className="figure">{value}</span>
@@ -20,7 +25,15 @@ export function QualifiedFigure({ value, q, testId }: { value: string; q: Qualit
 export function QualityNote({ q, className }: { q: Quality; className?: string }) {
   if (q.status === 'measured' || !q.reason) return null;
   return (
-    <p className={cn('rounded border px-3 py-2 text-sm', q.status === 'withheld' ? 'border-brick bg-brick-pale' : 'border-ochre bg-ochre-pale', className)} data-testid="figures-quality" data-quality={q.status}>
+    <p
+      className={cn(
+        'rounded border px-3 py-2 text-sm',
+        q.status === 'withheld' ? 'border-brick bg-brick-pale' : 'border-ochre bg-ochre-pale',
+        className,
+      )}
+      data-testid="figures-quality"
+      data-quality={q.status}
+    >
       {q.reason}
     </p>
   );

@@ -7,17 +7,29 @@ import type { Tx } from '..';
 import type { HeatSource } from '../../lib/heat-sources';
 import type { AlertEvidence, AlertKind, AlertSeverity } from '../../lib/alerts/types';
 
-
 export type AlertTankRow = {
-  id: string; company_id: string; volume_l: number; sensor_count: number; heat_source: HeatSource; declared_loss_w: number | null; occupants: number | null;
-  height_m: number; sensor_heights_m: number[] | null; target_c: number; cold_inlet_c: number | null;
+  id: string;
+  company_id: string;
+  volume_l: number;
+  sensor_count: number;
+  heat_source: HeatSource;
+  declared_loss_w: number | null;
+  occupants: number | null;
+  height_m: number;
+  sensor_heights_m: number[] | null;
+  target_c: number;
+  cold_inlet_c: number | null;
   /** The rules' carried state (the engine's EngineState, stored as JSON). */ state: unknown;
-  evaluated_ms: string | null; latest_ms: string | null; seen_ms: string | null;
+  evaluated_ms: string | null;
+  latest_ms: string | null;
+  seen_ms: string | null;
 };
 
 /** The tank, its facts and its rule state, the state row locked (made on first use). */
 export async function lockAlertTank(tx: Tx, tankId: string): Promise<AlertTankRow | null> {
-  await tx.execute(sql`insert into alert_tank_state (tank_id) select id from tanks where id = ${tankId} on conflict do nothing`);
+  await tx.execute(
+    sql`insert into alert_tank_state (tank_id) select id from tanks where id = ${tankId} on conflict do nothing`,
+  );
   const res = await tx.execute<AlertTankRow>(sql`
     select t.id, t.company_id, t.volume_l, t.sensor_count, t.heat_source, t.declared_loss_w, h.occupants,
       t.height_m, t.sensor_heights_m, t.target_c, h.cold_inlet_c,
@@ -31,14 +43,33 @@ export async function lockAlertTank(tx: Tx, tankId: string): Promise<AlertTankRo
 }
 
 export async function openAlertKinds(tx: Tx, tankId: string): Promise<Set<AlertKind>> {
-  const res = await tx.execute<{ kind: AlertKind }>(sql`select kind from alerts where tank_id = ${tankId} and state <> 'resolved'`);
+  const res = await tx.execute<{ kind: AlertKind }>(
+    sql`select kind from alerts where tank_id = ${tankId} and state <> 'resolved'`,
+  );
   return new Set(res.rows.map((r) => r.kind));
 }
 
 /** A stored reading as the database keeps it (centi-degrees, decilitres a minute). */
-export type StoredReadingRow = { ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null; solar_surplus_w: number | null };
+export type StoredReadingRow = {
+  ts_ms: string;
+  seq: number | null;
+  layers_cc: (number | null)[];
+  flow_cc: number | null;
+  return_cc: number | null;
+  compressor: boolean | null;
+  immersion_w: number | null;
+  power_w: number | null;
+  pump_pct: number | null;
+  draw_dlpm: number | null;
+  solar_surplus_w: number | null;
+};
 
-export async function storedReadingsAfter(tx: Tx, tankId: string, afterMs: number, limit: number): Promise<StoredReadingRow[]> {
+export async function storedReadingsAfter(
+  tx: Tx,
+  tankId: string,
+  afterMs: number,
+  limit: number,
+): Promise<StoredReadingRow[]> {
   const res = await tx.execute<StoredReadingRow>(sql`
     select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w
     from readings where tank_id = ${tankId} and ts > ${new Date(afterMs).toISOString()}::timestamptz order by ts limit ${limit}`);
@@ -46,7 +77,14 @@ export async function storedReadingsAfter(tx: Tx, tankId: string, afterMs: numbe
 }
 
 /** Opens an alert of `kind` unless one is unresolved (the partial unique index decides, whatever races); its id, or null. */
-export async function openAlert(tx: Tx, tank: { id: string; companyId: string }, kind: AlertKind, severity: AlertSeverity, evidence: AlertEvidence, at: number): Promise<string | null> {
+export async function openAlert(
+  tx: Tx,
+  tank: { id: string; companyId: string },
+  kind: AlertKind,
+  severity: AlertSeverity,
+  evidence: AlertEvidence,
+  at: number,
+): Promise<string | null> {
   const res = await tx.execute<{ id: string }>(sql`
     insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at)
     values (${tank.companyId}, ${tank.id}, ${kind}, ${severity}, 'open', ${JSON.stringify(evidence)}::jsonb, ${new Date(at).toISOString()}::timestamptz)

@@ -27,12 +27,19 @@ export async function recordAudit(entry: AuditRecord, tx: Pick<ReturnType<typeof
   });
 }
 
-export type AuditRow = AuditEntry & { actorEmail: string | null; actorName: string | null; subjectEmail: string | null };
+export type AuditRow = AuditEntry & {
+  actorEmail: string | null;
+  actorName: string | null;
+  subjectEmail: string | null;
+};
 
 const subjectUser = alias(users, 'subject_user');
 
 /** A company's audit log, newest first, `limit` entries older than `beforeId`. */
-export async function listAudit(companyId: string, opts: { limit?: number; beforeId?: number } = {}): Promise<AuditRow[]> {
+export async function listAudit(
+  companyId: string,
+  opts: { limit?: number; beforeId?: number } = {},
+): Promise<AuditRow[]> {
   const rows = await db()
     .select({ entry: auditLog, actorEmail: users.email, actorName: users.name, subjectEmail: subjectUser.email })
     .from(auditLog)
@@ -41,5 +48,10 @@ export async function listAudit(companyId: string, opts: { limit?: number; befor
     .where(and(eq(auditLog.companyId, companyId), opts.beforeId ? lt(auditLog.id, opts.beforeId) : undefined))
     .orderBy(desc(auditLog.id))
     .limit(Math.min(opts.limit ?? 50, 500));
-  return rows.map((r) => ({ ...r.entry, actorEmail: r.actorEmail, actorName: r.actorName, subjectEmail: r.subjectEmail }));
+  return rows.map((r) => ({
+    ...r.entry,
+    actorEmail: r.actorEmail,
+    actorName: r.actorName,
+    subjectEmail: r.subjectEmail,
+  }));
 }

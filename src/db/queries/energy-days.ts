@@ -7,15 +7,21 @@ import type { StoredTariff } from '../../lib/tank-energy/tariff-layers';
 import type { EnergyTankFacts } from '../../lib/tank-energy/inputs';
 import { heatPumpKinds } from '../../lib/heat-sources';
 
-const heatPumpSql = sql.join(heatPumpKinds.map((k) => sql`${k}::heat_source`), sql`, `);
-
+const heatPumpSql = sql.join(
+  heatPumpKinds.map((k) => sql`${k}::heat_source`),
+  sql`, `,
+);
 
 /**
  * Runs `work` in one transaction on up to `limit` queued hours that started before `beforeMs`,
  * taken off the queue (SKIP LOCKED, so several workers share it). If `work` throws, the hours stay
  * queued. Returns what `work` returns, or null when the queue held nothing due.
  */
-export async function withDirtyEnergyHours<T>(beforeMs: number, limit: number, work: (tx: Tx, hours: { tankId: string; hourMs: number }[]) => Promise<T>): Promise<T | null> {
+export async function withDirtyEnergyHours<T>(
+  beforeMs: number,
+  limit: number,
+  work: (tx: Tx, hours: { tankId: string; hourMs: number }[]) => Promise<T>,
+): Promise<T | null> {
   return db().transaction(async (tx) => {
     const taken = await tx.execute<{ tank_id: string; hour_ms: string }>(sql`
       delete from energy_day_dirty where (tank_id, hour) in (
@@ -23,7 +29,10 @@ export async function withDirtyEnergyHours<T>(beforeMs: number, limit: number, w
         order by tank_id, hour limit ${limit} for update skip locked)
       returning tank_id, (extract(epoch from hour) * 1000)::int8 as hour_ms`);
     if (taken.rows.length === 0) return null;
-    return work(tx, taken.rows.map((r) => ({ tankId: r.tank_id, hourMs: Number(r.hour_ms) })));
+    return work(
+      tx,
+      taken.rows.map((r) => ({ tankId: r.tank_id, hourMs: Number(r.hour_ms) })),
+    );
   });
 }
 
@@ -31,38 +40,95 @@ export type EnergyDayTank = EnergyTankFacts & { id: string; companyId: string; h
 
 /** What the accounting needs of these tanks (the job's view: no viewer, no scope). */
 export async function energyTanksById(tx: Tx, ids: readonly string[]): Promise<EnergyDayTank[]> {
-  const res = await tx.execute<{ id: string; company_id: string; home_id: string | null; volume_l: number; height_m: number; sensor_count: number; heat_source: EnergyTankFacts['heatSource']; hp_output_w: number; immersion_w: number; declared_loss_w: number | null; target_c: number; sensor_heights_m: number[] | null; cold_inlet_c: number | null }>(sql`
+  const res = await tx.execute<{
+    id: string;
+    company_id: string;
+    home_id: string | null;
+    volume_l: number;
+    height_m: number;
+    sensor_count: number;
+    heat_source: EnergyTankFacts['heatSource'];
+    hp_output_w: number;
+    immersion_w: number;
+    declared_loss_w: number | null;
+    target_c: number;
+    sensor_heights_m: number[] | null;
+    cold_inlet_c: number | null;
+  }>(sql`
     select t.id, t.company_id, t.home_id, t.volume_l, t.height_m, t.sensor_count, t.heat_source, t.hp_output_w, t.immersion_w, t.declared_loss_w, t.target_c,
       t.sensor_heights_m, h.cold_inlet_c
     from tanks t left join homes h on h.id = t.home_id where t.id = any(${`{${ids.join(',')}}`}::uuid[])`);
   return res.rows.map((r) => ({
-    id: r.id, companyId: r.company_id, homeId: r.home_id, volumeL: r.volume_l, heightM: r.height_m, sensorCount: r.sensor_count,
-    heatSource: r.heat_source, hpOutputW: r.hp_output_w, immersionW: r.immersion_w, declaredLossW: r.declared_loss_w, targetC: r.target_c,
-    sensorHeightsM: r.sensor_heights_m, coldInletC: r.cold_inlet_c,
+    id: r.id,
+    companyId: r.company_id,
+    homeId: r.home_id,
+    volumeL: r.volume_l,
+    heightM: r.height_m,
+    sensorCount: r.sensor_count,
+    heatSource: r.heat_source,
+    hpOutputW: r.hp_output_w,
+    immersionW: r.immersion_w,
+    declaredLossW: r.declared_loss_w,
+    targetC: r.target_c,
+    sensorHeightsM: r.sensor_heights_m,
+    coldInletC: r.cold_inlet_c,
   }));
 }
 
 /** Every tariff of these companies (defaults and homes' own), for choosing per home. */
-export async function tariffsOfCompanies(tx: Tx, companyIds: readonly string[]): Promise<(StoredTariff & { companyId: string })[]> {
-  const res = await tx.execute<{ company_id: string; home_id: string | null; prices: StoredTariff['prices']; valid_from: string; created_at: string }>(sql`
+export async function tariffsOfCompanies(
+  tx: Tx,
+  companyIds: readonly string[],
+): Promise<(StoredTariff & { companyId: string })[]> {
+  const res = await tx.execute<{
+    company_id: string;
+    home_id: string | null;
+    prices: StoredTariff['prices'];
+    valid_from: string;
+    created_at: string;
+  }>(sql`
     select company_id, home_id, prices, valid_from, created_at from tariffs where company_id = any(${`{${companyIds.join(',')}}`}::uuid[])`);
-  return res.rows.map((r) => ({ companyId: r.company_id, homeId: r.home_id, prices: r.prices, validFrom: new Date(r.valid_from), createdAt: new Date(r.created_at) }));
+  return res.rows.map((r) => ({
+    companyId: r.company_id,
+    homeId: r.home_id,
+    prices: r.prices,
+    validFrom: new Date(r.valid_from),
+    createdAt: new Date(r.created_at),
+  }));
 }
 
 /** A tank's readings in [from, to), oldest first, in the shape the accounting takes. */
 export async function energyReadingsIn(tx: Tx, tankId: string, fromMs: number, toMs: number) {
-  const res = await tx.execute<{ ts_ms: string; layers_cc: (number | null)[]; compressor: boolean | null; immersion_w: number | null; power_w: number | null; draw_dlpm: number | null; solar_surplus_w: number | null }>(sql`
+  const res = await tx.execute<{
+    ts_ms: string;
+    layers_cc: (number | null)[];
+    compressor: boolean | null;
+    immersion_w: number | null;
+    power_w: number | null;
+    draw_dlpm: number | null;
+    solar_surplus_w: number | null;
+  }>(sql`
     select (extract(epoch from ts) * 1000)::int8 as ts_ms, layers_cc, compressor, immersion_w, power_w, draw_dlpm, solar_surplus_w
     from readings where tank_id = ${tankId} and ts >= ${new Date(fromMs).toISOString()}::timestamptz and ts < ${new Date(toMs).toISOString()}::timestamptz
     order by ts`);
   return res.rows.map((r) => ({
-    ts: new Date(Number(r.ts_ms)), layersCc: r.layers_cc, compressor: r.compressor, immersionW: r.immersion_w,
-    powerW: r.power_w, drawDlpm: r.draw_dlpm, solarSurplusW: r.solar_surplus_w,
+    ts: new Date(Number(r.ts_ms)),
+    layersCc: r.layers_cc,
+    compressor: r.compressor,
+    immersionW: r.immersion_w,
+    powerW: r.power_w,
+    drawDlpm: r.draw_dlpm,
+    solarSurplusW: r.solar_surplus_w,
   }));
 }
 
 /** Stores one tank-day's figures (replacing what was there), or removes the day when `day` is null (no readings left). */
-export async function saveEnergyDay(tx: Tx, tank: { id: string; companyId: string }, date: string, day: DayEnergy | null): Promise<void> {
+export async function saveEnergyDay(
+  tx: Tx,
+  tank: { id: string; companyId: string },
+  date: string,
+  day: DayEnergy | null,
+): Promise<void> {
   if (!day) {
     await tx.execute(sql`delete from energy_days where tank_id = ${tank.id} and day = ${date}::date`);
     return;
@@ -85,7 +151,13 @@ export async function saveEnergyDay(tx: Tx, tank: { id: string; companyId: strin
  * default, every home's) days from the local day before its start to the day after its end.
  * Each day is queued by its local noon, in `timeZone`.
  */
-export async function queueDaysForTariff(input: { companyId: string; homeId: string | null; validFromMs: number; validToMs: number | null; timeZone: string }): Promise<void> {
+export async function queueDaysForTariff(input: {
+  companyId: string;
+  homeId: string | null;
+  validFromMs: number;
+  validToMs: number | null;
+  timeZone: string;
+}): Promise<void> {
   const to = input.validToMs === null ? null : new Date(input.validToMs + 86_400_000).toISOString();
   await db().execute(sql`
     insert into energy_day_dirty (tank_id, hour)
@@ -104,14 +176,43 @@ export async function pruneEnergyDays(keepDays: number): Promise<void> {
   await db().execute(sql`delete from energy_days where day < current_date - ${keepDays}::int`);
 }
 
-export interface FleetEnergyRule { minDays: number; minLitres40PerDay: number; minHeatPumpKWhPerDay: number; k: number; minHomes: number; maxListed: number }
+export interface FleetEnergyRule {
+  minDays: number;
+  minLitres40PerDay: number;
+  minHeatPumpKWhPerDay: number;
+  k: number;
+  minHomes: number;
+  maxListed: number;
+}
 
 type FleetEnergyRow = {
   summary: {
-    homes: number; home_days: number | null; cost: number | null; litres: number | null; hp_heat: number | null; hp_elec: number | null;
-    solar: number | null; unpriced: number | null; n_cpl: number; q_cpl: [number, number, number] | null; n_cop: number; q_cop: [number, number, number] | null;
+    homes: number;
+    home_days: number | null;
+    cost: number | null;
+    litres: number | null;
+    hp_heat: number | null;
+    hp_elec: number | null;
+    solar: number | null;
+    unpriced: number | null;
+    n_cpl: number;
+    q_cpl: [number, number, number] | null;
+    n_cop: number;
+    q_cop: [number, number, number] | null;
   };
-  outliers: { tank_id: string; serial: string; reference: string | null; town: string | null; metric: 'cost_per_100l' | 'dhw_cop'; value: number; side: 'high' | 'low'; beyond_iqr: number | null; days: number }[] | null;
+  outliers:
+    | {
+        tank_id: string;
+        serial: string;
+        reference: string | null;
+        town: string | null;
+        metric: 'cost_per_100l' | 'dhw_cop';
+        value: number;
+        side: 'high' | 'low';
+        beyond_iqr: number | null;
+        days: number;
+      }[]
+    | null;
 };
 
 /**
@@ -121,7 +222,12 @@ type FleetEnergyRow = {
  * src/lib/tank-energy/fleet-outliers.ts). It reads one row per tank-day through the
  * (company_id, day) index, never readings.
  */
-export async function fleetEnergyFigures(companyId: string, from: string, to: string, rule: FleetEnergyRule): Promise<FleetEnergyRow> {
+export async function fleetEnergyFigures(
+  companyId: string,
+  from: string,
+  to: string,
+  rule: FleetEnergyRule,
+): Promise<FleetEnergyRow> {
   return db().transaction(async (tx) => {
     // Summing 50,000 homes in memory takes about 15 MB; PostgreSQL's default 4 MB would sort instead.
     await tx.execute(sql`set local work_mem = '64MB'`);

@@ -53,7 +53,9 @@ async function computeSummary(scope: Scope): Promise<FleetSummary> {
 }
 
 /** Heard-from tanks by the quality of their latest figures (rows from before it was kept: measured). */
-function qualityCounts(rows: readonly { heard: boolean; quality: FiguresStatus | null }[]): Record<FiguresStatus, number> {
+function qualityCounts(
+  rows: readonly { heard: boolean; quality: FiguresStatus | null }[],
+): Record<FiguresStatus, number> {
   const out: Record<FiguresStatus, number> = { measured: 0, estimated: 0, withheld: 0 };
   for (const r of rows) if (r.heard) out[r.quality ?? 'measured'] += 1;
   return out;
@@ -73,8 +75,16 @@ export async function fleetSummary(scope: Scope): Promise<FleetSummary> {
   const age = slot.value ? Date.now() - slot.at : Infinity;
   if (age < FRESH_MS) return slot.value!;
   slot.pending ??= computeSummary(scope).then(
-    (s) => { slot.value = s; slot.at = Date.parse(s.computedAt); slot.pending = undefined; return s; },
-    (err) => { slot.pending = undefined; throw err; },
+    (s) => {
+      slot.value = s;
+      slot.at = Date.parse(s.computedAt);
+      slot.pending = undefined;
+      return s;
+    },
+    (err) => {
+      slot.pending = undefined;
+      throw err;
+    },
   );
   return age < STALE_MS ? slot.value! : slot.pending;
 }

@@ -85,7 +85,9 @@ export async function refreshRollups(limit = 5000): Promise<number> {
  * are moved into their days first.
  */
 export async function setReadingsRetention(days: number): Promise<void> {
-  await db().execute(sql`update partman.part_config set retention = ${`${days} days`}, retention_keep_table = false where parent_table = 'public.readings'`);
+  await db().execute(
+    sql`update partman.part_config set retention = ${`${days} days`}, retention_keep_table = false where parent_table = 'public.readings'`,
+  );
   await db().execute(sql`select partman.partition_data_time('public.readings', p_batch_count => ${days + 8})`);
   await db().execute(sql`select partman.create_partition_time('public.readings', array(
     select generate_series(date_trunc('day', now()) - make_interval(days => ${days}), date_trunc('day', now()), interval '1 day')))`);
@@ -99,5 +101,7 @@ export async function runRetention(opts: { rollupDays: number; deadLetterDays: n
   await db().execute(sql`select partman.run_maintenance(p_parent_table => 'public.readings')`);
   await db().execute(sql`delete from rollups_15m where bucket < now() - make_interval(days => ${opts.rollupDays})`);
   await db().execute(sql`delete from rollups_1h where bucket < now() - make_interval(days => ${opts.rollupDays})`);
-  await db().execute(sql`delete from dead_letters where received_at < now() - make_interval(days => ${opts.deadLetterDays})`);
+  await db().execute(
+    sql`delete from dead_letters where received_at < now() - make_interval(days => ${opts.deadLetterDays})`,
+  );
 }

@@ -7,8 +7,13 @@ type Writer = Pick<ReturnType<typeof db>, 'delete'>;
 /** Records a new signed-in session and returns its id (the cookie's `sid`); drops the person's expired ones. */
 export async function createUserSession(userId: string, maxAgeS: number): Promise<string> {
   const now = Date.now();
-  await db().delete(userSessions).where(and(eq(userSessions.userId, userId), lt(userSessions.expiresAt, new Date(now))));
-  const [row] = await db().insert(userSessions).values({ userId, expiresAt: new Date(now + maxAgeS * 1000) }).returning({ id: userSessions.id });
+  await db()
+    .delete(userSessions)
+    .where(and(eq(userSessions.userId, userId), lt(userSessions.expiresAt, new Date(now))));
+  const [row] = await db()
+    .insert(userSessions)
+    .values({ userId, expiresAt: new Date(now + maxAgeS * 1000) })
+    .returning({ id: userSessions.id });
   return row.id;
 }
 

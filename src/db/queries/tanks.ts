@@ -52,10 +52,14 @@ async function filtersOf(tx: Exec, scope: Scope, q: TanksQuery): Promise<SQL[]> 
     const found = await tx.execute<{ id: string }>(sql`
       ${byTank} union all select tt.id from tanks tt where tt.home_id in (${byHome}) limit ${SEARCH_ID_LIMIT + 1}`);
     const ids = [...new Set(found.rows.map((r) => r.id))];
-    if (found.rows.length <= SEARCH_ID_LIMIT) where.push(sql`t.id = any(string_to_array(${ids.join(',')}, ',')::uuid[])`);
+    if (found.rows.length <= SEARCH_ID_LIMIT)
+      where.push(sql`t.id = any(string_to_array(${ids.join(',')}, ',')::uuid[])`);
     else where.push(sql`(t.id in (${byTank}) or t.home_id in (${byHome}))`);
   }
-  if (q.town) where.push(sql`t.home_id in (select ht.id from homes ht where ht.company_id = ${scope.companyId} and ht.town = ${q.town})`);
+  if (q.town)
+    where.push(
+      sql`t.home_id in (select ht.id from homes ht where ht.company_id = ${scope.companyId} and ht.town = ${q.town})`,
+    );
   if (q.heatSource) where.push(sql`t.heat_source = ${q.heatSource}`);
   if (q.status === 'offline') where.push(hasOpenAlert('offline'));
   if (q.status === 'attention') where.push(sql`${hasOpenAlert()} and not ${hasOpenAlert('offline')}`);
@@ -65,16 +69,31 @@ async function filtersOf(tx: Exec, scope: Scope, q: TanksQuery): Promise<SQL[]> 
 }
 
 /** Rows of one stretch of the order: `key` orders them (then the serial), null when only the serial does. */
-interface Segment { from: SQL; where?: SQL; key: SQL | null }
+interface Segment {
+  from: SQL;
+  where?: SQL;
+  key: SQL | null;
+}
 
 function segmentsOf(scope: Scope, q: TanksQuery, dir: 'asc' | 'desc'): Segment[] {
   const latest = (col: string): Segment[] => [
-    { from: sql`tanks t join tank_latest_state l on l.tank_id = t.id`, where: sql.raw(`l.${col} is not null`), key: sql.raw(`l.${col}`) },
-    { from: sql`tanks t`, where: sql.raw(`not exists (select 1 from tank_latest_state l where l.tank_id = t.id and l.${col} is not null)`), key: null },
+    {
+      from: sql`tanks t join tank_latest_state l on l.tank_id = t.id`,
+      where: sql.raw(`l.${col} is not null`),
+      key: sql.raw(`l.${col}`),
+    },
+    {
+      from: sql`tanks t`,
+      where: sql.raw(`not exists (select 1 from tank_latest_state l where l.tank_id = t.id and l.${col} is not null)`),
+      key: null,
+    },
   ];
   switch (q.sort) {
     case 'attention': {
-      const flagged: Segment = { from: sql`tanks t join ${flaggedTanks(scope)} a on a.tank_id = t.id`, key: sql`a.rank` };
+      const flagged: Segment = {
+        from: sql`tanks t join ${flaggedTanks(scope)} a on a.tank_id = t.id`,
+        key: sql`a.rank`,
+      };
       const rest: Segment = { from: sql`tanks t`, where: sql`not ${hasOpenAlert()}`, key: null };
       // A filter on problems leaves one of the two (walking the other would find nothing, slowly).
       if (q.alert || q.status === 'offline' || q.status === 'attention') return [flagged];
@@ -82,23 +101,41 @@ function segmentsOf(scope: Scope, q: TanksQuery, dir: 'asc' | 'desc'): Segment[]
       // Ascending is the most urgent first; descending puts the tanks with nothing wrong first.
       return dir === 'asc' ? [flagged, rest] : [rest, flagged];
     }
-    case 'serial': return [{ from: sql`tanks t`, key: sql`t.serial` }];
-    case 'volume': return [{ from: sql`tanks t`, key: sql`t.volume_l` }];
-    case 'town': return [
-      { from: sql`tanks t join homes h on h.id = t.home_id`, key: sql`h.town` },
-      { from: sql`tanks t`, where: sql`t.home_id is null`, key: null },
-    ];
-    case 'soc': return latest('soc');
-    case 'v40': return latest('v40_l');
-    case 'lastSeen': return latest('last_seen_at');
+    case 'serial':
+      return [{ from: sql`tanks t`, key: sql`t.serial` }];
+    case 'volume':
+      return [{ from: sql`tanks t`, key: sql`t.volume_l` }];
+    case 'town':
+      return [
+        { from: sql`tanks t join homes h on h.id = t.home_id`, key: sql`h.town` },
+        { from: sql`tanks t`, where: sql`t.home_id is null`, key: null },
+      ];
+    case 'soc':
+      return latest('soc');
+    case 'v40':
+      return latest('v40_l');
+    case 'lastSeen':
+      return latest('last_seen_at');
   }
 }
 
 type ListRow = {
-  id: string; serial: string; model: string; volume_l: number; heat_source: HeatSource;
-  home_id: string | null; reference: string | null; town: string | null; address_line: string | null;
-  last_seen_at: Date | null; soc: number | null; v40_l: number | null; figures_quality: FiguresQuality | null; top_cc: number | null; kinds: string | null;
-}
+  id: string;
+  serial: string;
+  model: string;
+  volume_l: number;
+  heat_source: HeatSource;
+  home_id: string | null;
+  reference: string | null;
+  town: string | null;
+  address_line: string | null;
+  last_seen_at: Date | null;
+  soc: number | null;
+  v40_l: number | null;
+  figures_quality: FiguresQuality | null;
+  top_cc: number | null;
+  kinds: string | null;
+};
 
 /** The columns of a list row for the tanks `t` of a page (homes `h`, latest state `l` joined). */
 const listColumns = sql`t.id, t.serial, t.model, t.volume_l, t.heat_source, h.id as home_id, h.reference, h.town, h.address_line,
@@ -113,28 +150,38 @@ const listJoins = sql`left join homes h on h.id = t.home_id left join tank_lates
 export async function listTanks(scope: Scope, q: TanksQuery): Promise<TankListResponse> {
   const dir = q.dir ?? (q.sort === 'lastSeen' ? 'desc' : 'asc');
   const offset = (q.page - 1) * q.pageSize;
-  return db().transaction(async (tx) => {
-    const where = await filtersOf(tx, scope, q);
-    // The page is cut from the segments one after the other: a later one is read only when the
-    // earlier ones end inside the page (a segment read to its end would cost a walk of the fleet).
-    const ids: string[] = [];
-    let skip = offset;
-    for (const segment of segmentsOf(scope, q, dir)) {
-      const got = await segmentIds(tx, segment, where, dir, skip, q.pageSize - ids.length);
-      ids.push(...got);
-      if (ids.length === q.pageSize) break;
-      skip = got.length > 0 ? 0 : Math.max(0, skip - (await countTanks(tx, segment, where)));
-    }
-    const items = await listTanksByIds(tx, ids);
-    // Counted apart from the page, and only when the page does not tell.
-    const full = items.length === q.pageSize || (items.length === 0 && q.page > 1);
-    const total = full ? await countTanks(tx, { from: sql`tanks t` }, where) : offset + items.length;
-    return { items, total, page: q.page, pageSize: q.pageSize };
-  }, { isolationLevel: 'repeatable read', accessMode: 'read only' });
+  return db().transaction(
+    async (tx) => {
+      const where = await filtersOf(tx, scope, q);
+      // The page is cut from the segments one after the other: a later one is read only when the
+      // earlier ones end inside the page (a segment read to its end would cost a walk of the fleet).
+      const ids: string[] = [];
+      let skip = offset;
+      for (const segment of segmentsOf(scope, q, dir)) {
+        const got = await segmentIds(tx, segment, where, dir, skip, q.pageSize - ids.length);
+        ids.push(...got);
+        if (ids.length === q.pageSize) break;
+        skip = got.length > 0 ? 0 : Math.max(0, skip - (await countTanks(tx, segment, where)));
+      }
+      const items = await listTanksByIds(tx, ids);
+      // Counted apart from the page, and only when the page does not tell.
+      const full = items.length === q.pageSize || (items.length === 0 && q.page > 1);
+      const total = full ? await countTanks(tx, { from: sql`tanks t` }, where) : offset + items.length;
+      return { items, total, page: q.page, pageSize: q.pageSize };
+    },
+    { isolationLevel: 'repeatable read', accessMode: 'read only' },
+  );
 }
 
 /** One segment's tank ids in its order, from `skip`, at most `limit`. */
-async function segmentIds(tx: Exec, s: Segment, where: SQL[], dir: 'asc' | 'desc', skip: number, limit: number): Promise<string[]> {
+async function segmentIds(
+  tx: Exec,
+  s: Segment,
+  where: SQL[],
+  dir: 'asc' | 'desc',
+  skip: number,
+  limit: number,
+): Promise<string[]> {
   const order = s.key ? sql`${s.key} ${sql.raw(dir)}, t.serial asc` : sql`t.serial asc`;
   const res = await tx.execute<{ id: string }>(sql`
     select t.id from ${s.from} where ${sql.join(s.where ? [...where, s.where] : where, sql` and `)}
@@ -160,10 +207,19 @@ async function listTanksByIds(tx: Exec, ids: readonly string[]): Promise<TankLis
 function toItem(r: ListRow): TankListItem {
   const attention = byUrgency((r.kinds ? r.kinds.split(' ') : []) as AttentionKind[]);
   return {
-    id: r.id, serial: r.serial, model: r.model, volumeL: r.volume_l, heatSource: r.heat_source,
+    id: r.id,
+    serial: r.serial,
+    model: r.model,
+    volumeL: r.volume_l,
+    heatSource: r.heat_source,
     home: r.home_id ? { id: r.home_id, reference: r.reference!, town: r.town!, addressLine: r.address_line! } : null,
     lastSeenAt: r.last_seen_at ? new Date(r.last_seen_at).toISOString() : null,
-    soc: r.soc, v40L: r.v40_l, quality: storedQuality(r.figures_quality, r.last_seen_at !== null), topC: ccToC(r.top_cc), status: statusOf(attention), attention,
+    soc: r.soc,
+    v40L: r.v40_l,
+    quality: storedQuality(r.figures_quality, r.last_seen_at !== null),
+    topC: ccToC(r.top_cc),
+    status: statusOf(attention),
+    attention,
   };
 }
 
@@ -185,32 +241,92 @@ export async function attentionQueue(scope: Scope, limit: number): Promise<TankL
 
 /** Towns the scope's homes are in, for the filter. */
 export async function listTowns(scope: Scope): Promise<string[]> {
-  const res = await db().execute<{ town: string }>(sql`select distinct h.town from tanks t join homes h on h.id = t.home_id where ${scopeWhere(scope)} order by 1`);
+  const res = await db().execute<{ town: string }>(
+    sql`select distinct h.town from tanks t join homes h on h.id = t.home_id where ${scopeWhere(scope)} order by 1`,
+  );
   return res.rows.map((r) => r.town);
 }
 
 export interface TankRecord {
-  id: string; serial: string; model: string; volumeL: number; heightM: number; sensorCount: number; sensorHeightsM: number[] | null;
-  heatSource: HeatSource; hpOutputW: number; immersionW: number; declaredLossW: number | null; targetC: number; hysteresisK: number;
+  id: string;
+  serial: string;
+  model: string;
+  volumeL: number;
+  heightM: number;
+  sensorCount: number;
+  sensorHeightsM: number[] | null;
+  heatSource: HeatSource;
+  hpOutputW: number;
+  immersionW: number;
+  declaredLossW: number | null;
+  targetC: number;
+  hysteresisK: number;
   commissionedAt: Date | null;
   /** The home's cold inlet, °C, where the company has set one. */ coldInletC: number | null;
-  home: { id: string; reference: string; addressLine: string; town: string; postcode: string; occupants: number; hasSolar: boolean } | null;
+  home: {
+    id: string;
+    reference: string;
+    addressLine: string;
+    town: string;
+    postcode: string;
+    occupants: number;
+    hasSolar: boolean;
+  } | null;
   latest: {
-    ts: Date | null; lastSeenAt: Date | null; online: boolean | null; layersC: (number | null)[]; flowC: number | null; returnC: number | null;
-    compressor: boolean | null; immersionW: number | null; powerW: number | null; drawLpm: number | null; soc: number | null; v40L: number | null;
+    ts: Date | null;
+    lastSeenAt: Date | null;
+    online: boolean | null;
+    layersC: (number | null)[];
+    flowC: number | null;
+    returnC: number | null;
+    compressor: boolean | null;
+    immersionW: number | null;
+    powerW: number | null;
+    drawLpm: number | null;
+    soc: number | null;
+    v40L: number | null;
     /** Sensors (0-based) the writer's stuck check holds stuck: the figures leave them out. */ stuck: number[];
   } | null;
 }
 
 type TankRow = {
-  id: string; serial: string; model: string; volume_l: number; height_m: number; sensor_count: number; sensor_heights_m: number[] | null;
-  heat_source: HeatSource; hp_output_w: number; immersion_w: number; declared_loss_w: number | null; target_c: number; hysteresis_k: number;
-  commissioned_at: Date | null; home_id: string | null; reference: string | null; address_line: string | null; town: string | null; postcode: string | null;
-  occupants: number | null; has_solar: boolean | null; cold_inlet_c: number | null;
-  l_tank: string | null; ts: Date | null; last_seen_at: Date | null; online: boolean | null; layers_cc: (number | null)[] | null; flow_cc: number | null;
-  return_cc: number | null; compressor: boolean | null; l_immersion_w: number | null; power_w: number | null; draw_dlpm: number | null; soc: number | null; v40_l: number | null;
+  id: string;
+  serial: string;
+  model: string;
+  volume_l: number;
+  height_m: number;
+  sensor_count: number;
+  sensor_heights_m: number[] | null;
+  heat_source: HeatSource;
+  hp_output_w: number;
+  immersion_w: number;
+  declared_loss_w: number | null;
+  target_c: number;
+  hysteresis_k: number;
+  commissioned_at: Date | null;
+  home_id: string | null;
+  reference: string | null;
+  address_line: string | null;
+  town: string | null;
+  postcode: string | null;
+  occupants: number | null;
+  has_solar: boolean | null;
+  cold_inlet_c: number | null;
+  l_tank: string | null;
+  ts: Date | null;
+  last_seen_at: Date | null;
+  online: boolean | null;
+  layers_cc: (number | null)[] | null;
+  flow_cc: number | null;
+  return_cc: number | null;
+  compressor: boolean | null;
+  l_immersion_w: number | null;
+  power_w: number | null;
+  draw_dlpm: number | null;
+  soc: number | null;
+  v40_l: number | null;
   sensor_check: StuckState | null;
-}
+};
 
 /** One tank in scope with its home and latest state, or null (also for a malformed id). */
 export async function getTank(scope: Scope, id: string): Promise<TankRecord | null> {
@@ -227,20 +343,56 @@ export async function getTank(scope: Scope, id: string): Promise<TankRecord | nu
   if (!r) return null;
   const date = (d: Date | null) => (d ? new Date(d) : null);
   return {
-    id: r.id, serial: r.serial, model: r.model, volumeL: r.volume_l, heightM: r.height_m, sensorCount: r.sensor_count, sensorHeightsM: r.sensor_heights_m,
-    heatSource: r.heat_source, hpOutputW: r.hp_output_w, immersionW: r.immersion_w, declaredLossW: r.declared_loss_w, targetC: r.target_c,
-    hysteresisK: r.hysteresis_k, commissionedAt: date(r.commissioned_at), coldInletC: r.cold_inlet_c,
-    home: r.home_id ? { id: r.home_id, reference: r.reference!, addressLine: r.address_line!, town: r.town!, postcode: r.postcode!, occupants: r.occupants!, hasSolar: r.has_solar! } : null,
-    latest: r.l_tank ? {
-      ts: date(r.ts), lastSeenAt: date(r.last_seen_at), online: r.online, layersC: layersFromCc(r.layers_cc), flowC: ccToC(r.flow_cc), returnC: ccToC(r.return_cc),
-      compressor: r.compressor, immersionW: r.l_immersion_w, powerW: r.power_w, drawLpm: r.draw_dlpm === null ? null : r.draw_dlpm / 10, soc: r.soc, v40L: r.v40_l,
-      stuck: stuckSensors(r.sensor_check),
-    } : null,
+    id: r.id,
+    serial: r.serial,
+    model: r.model,
+    volumeL: r.volume_l,
+    heightM: r.height_m,
+    sensorCount: r.sensor_count,
+    sensorHeightsM: r.sensor_heights_m,
+    heatSource: r.heat_source,
+    hpOutputW: r.hp_output_w,
+    immersionW: r.immersion_w,
+    declaredLossW: r.declared_loss_w,
+    targetC: r.target_c,
+    hysteresisK: r.hysteresis_k,
+    commissionedAt: date(r.commissioned_at),
+    coldInletC: r.cold_inlet_c,
+    home: r.home_id
+      ? {
+          id: r.home_id,
+          reference: r.reference!,
+          addressLine: r.address_line!,
+          town: r.town!,
+          postcode: r.postcode!,
+          occupants: r.occupants!,
+          hasSolar: r.has_solar!,
+        }
+      : null,
+    latest: r.l_tank
+      ? {
+          ts: date(r.ts),
+          lastSeenAt: date(r.last_seen_at),
+          online: r.online,
+          layersC: layersFromCc(r.layers_cc),
+          flowC: ccToC(r.flow_cc),
+          returnC: ccToC(r.return_cc),
+          compressor: r.compressor,
+          immersionW: r.l_immersion_w,
+          powerW: r.power_w,
+          drawLpm: r.draw_dlpm === null ? null : r.draw_dlpm / 10,
+          soc: r.soc,
+          v40L: r.v40_l,
+          stuck: stuckSensors(r.sensor_check),
+        }
+      : null,
   };
 }
 
 /** The first tank of each home a householder may see (the home page shows one cylinder). */
 export async function tanksOfScope(scope: Scope): Promise<{ id: string; serial: string; homeId: string | null }[]> {
-  const res = await db().execute<{ id: string; serial: string; home_id: string | null }>(sql`select t.id, t.serial, t.home_id from tanks t where ${scopeWhere(scope)} order by t.serial limit 20`);
+  const res = await db().execute<{ id: string; serial: string; home_id: string | null }>(
+    sql`select t.id, t.serial, t.home_id from tanks t where ${scopeWhere(scope)} order by t.serial limit 20`,
+  );
   return res.rows.map((r) => ({ id: r.id, serial: r.serial, homeId: r.home_id }));
 }

@@ -11,7 +11,9 @@ export const invitations = pgTable(
   'invitations',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     email: text('email').notNull(),
     name: text('name'),
     role: roleEnum('role').notNull(),
@@ -34,7 +36,9 @@ export const passwordResets = pgTable(
   'password_resets',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
     tokenHash: text('token_hash').notNull().unique(),
     expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
     usedAt: timestamp('used_at', { withTimezone: true }),

@@ -1,5 +1,14 @@
 import {
-  bigserial, boolean, index, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid,
+  bigserial,
+  boolean,
+  index,
+  jsonb,
+  pgEnum,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
 import { users } from './auth';
@@ -21,8 +30,12 @@ export const alerts = pgTable(
   'alerts',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     kind: alertKindEnum('kind').notNull(),
     severity: alertSeverityEnum('severity').notNull(),
     state: alertStateEnum('state').notNull().default('open'),
@@ -53,7 +66,9 @@ export type AlertRow = typeof alerts.$inferSelect;
 
 /** A company's own thresholds (only the values it changed; the rest are the defaults). */
 export const alertThresholds = pgTable('alert_thresholds', {
-  companyId: uuid('company_id').primaryKey().references(() => companies.id, { onDelete: 'cascade' }),
+  companyId: uuid('company_id')
+    .primaryKey()
+    .references(() => companies.id, { onDelete: 'cascade' }),
   settings: jsonb('settings').$type<Record<string, unknown>>().notNull().default({}),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
@@ -61,7 +76,9 @@ export const alertThresholds = pgTable('alert_thresholds', {
 
 /** Each tank's rule state, carried between batches so rules never rescan history. */
 export const alertTankState = pgTable('alert_tank_state', {
-  tankId: uuid('tank_id').primaryKey().references(() => tanks.id, { onDelete: 'cascade' }),
+  tankId: uuid('tank_id')
+    .primaryKey()
+    .references(() => tanks.id, { onDelete: 'cascade' }),
   /** Newest reading the rules have seen (telemetry time). */
   evaluatedTo: timestamp('evaluated_to', { withTimezone: true }),
   state: jsonb('state').$type<EngineState>(),
@@ -76,7 +93,9 @@ export const alertNotifications = pgTable(
   'alert_notifications',
   {
     id: bigserial('id', { mode: 'number' }).primaryKey(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     /** Null for a digest (it covers many). */
     alertId: uuid('alert_id').references(() => alerts.id, { onDelete: 'cascade' }),
     userId: text('user_id').references(() => users.id, { onDelete: 'set null' }),
@@ -86,13 +105,18 @@ export const alertNotifications = pgTable(
     subject: text('subject').notNull(),
     sentAt: timestamp('sent_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [uniqueIndex('alert_notifications_dedupe_uq').on(t.dedupeKey), index('alert_notifications_alert_idx').on(t.alertId)],
+  (t) => [
+    uniqueIndex('alert_notifications_dedupe_uq').on(t.dedupeKey),
+    index('alert_notifications_alert_idx').on(t.alertId),
+  ],
 );
 export type AlertNotification = typeof alertNotifications.$inferSelect;
 
 /** A person's choice about alert e-mails (householders may opt out of their notices). */
 export const notificationPreferences = pgTable('notification_preferences', {
-  userId: text('user_id').primaryKey().references(() => users.id, { onDelete: 'cascade' }),
+  userId: text('user_id')
+    .primaryKey()
+    .references(() => users.id, { onDelete: 'cascade' }),
   householderNotices: boolean('householder_notices').notNull().default(true),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });

@@ -1,4 +1,16 @@
-import { boolean, index, integer, jsonb, pgEnum, pgTable, real, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import {
+  boolean,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  real,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
 import { users } from './auth';
 import { companies } from './companies';
 import { homes, tanks } from './homes';
@@ -14,7 +26,9 @@ export const heatPumpModels = pgTable(
   'heat_pump_models',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     name: text('name').notNull(),
     outputW: integer('output_w').notNull(),
     /** The sensor input's NTC: resistance at 25 °C (Ω) and Beta constant (K). */
@@ -36,7 +50,9 @@ export const commissionings = pgTable(
   'commissionings',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     engineerUserId: text('engineer_user_id').references(() => users.id, { onDelete: 'set null' }),
     status: commissioningStatusEnum('status').notNull().default('draft'),
     /** The step the engineer last saved (the wizard resumes there). */
@@ -56,7 +72,10 @@ export const commissionings = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('commissionings_company_idx').on(t.companyId, t.updatedAt), uniqueIndex('commissionings_tank_uq').on(t.tankId)],
+  (t) => [
+    index('commissionings_company_idx').on(t.companyId, t.updatedAt),
+    uniqueIndex('commissionings_tank_uq').on(t.tankId),
+  ],
 );
 export type Commissioning = typeof commissionings.$inferSelect;
 
@@ -65,8 +84,12 @@ export const commissioningAmendments = pgTable(
   'commissioning_amendments',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    commissioningId: uuid('commissioning_id').notNull().references(() => commissionings.id, { onDelete: 'cascade' }),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    commissioningId: uuid('commissioning_id')
+      .notNull()
+      .references(() => commissionings.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     field: text('field').notNull(),
     oldValue: jsonb('old_value'),
     newValue: jsonb('new_value'),
@@ -82,7 +105,10 @@ import { visitKinds, type VisitKind } from '../../lib/commissioning/visit-kinds'
 export { visitKinds, type VisitKind };
 export const visitKindEnum = pgEnum('service_visit_kind', visitKinds);
 
-export interface VisitPart { name: string; quantity: number }
+export interface VisitPart {
+  name: string;
+  quantity: number;
+}
 export interface VisitReadings {
   topC?: number;
   bottomC?: number;
@@ -100,8 +126,12 @@ export const serviceVisits = pgTable(
   'service_visits',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     kind: visitKindEnum('kind').notNull(),
     visitedAt: timestamp('visited_at', { withTimezone: true }).notNull(),
     engineerUserId: text('engineer_user_id').references(() => users.id, { onDelete: 'set null' }),
@@ -112,7 +142,10 @@ export const serviceVisits = pgTable(
     resolvedAlerts: text('resolved_alerts').array().notNull().default([]),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('service_visits_tank_idx').on(t.tankId, t.visitedAt), index('service_visits_company_idx').on(t.companyId, t.visitedAt)],
+  (t) => [
+    index('service_visits_tank_idx').on(t.tankId, t.visitedAt),
+    index('service_visits_company_idx').on(t.companyId, t.visitedAt),
+  ],
 );
 export type ServiceVisit = typeof serviceVisits.$inferSelect;
 
@@ -124,7 +157,9 @@ export const uploads = pgTable(
   'uploads',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     commissioningId: uuid('commissioning_id').references(() => commissionings.id, { onDelete: 'cascade' }),
     tankId: uuid('tank_id').references(() => tanks.id, { onDelete: 'cascade' }),
     visitId: uuid('visit_id').references(() => serviceVisits.id, { onDelete: 'set null' }),
@@ -140,6 +175,10 @@ export const uploads = pgTable(
     uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('uploads_commissioning_idx').on(t.commissioningId), index('uploads_tank_idx').on(t.tankId), index('uploads_visit_idx').on(t.visitId)],
+  (t) => [
+    index('uploads_commissioning_idx').on(t.commissioningId),
+    index('uploads_tank_idx').on(t.tankId),
+    index('uploads_visit_idx').on(t.visitId),
+  ],
 );
 export type Upload = typeof uploads.$inferSelect;

@@ -21,8 +21,12 @@ export const roleEnum = pgEnum('role', roles);
 export const memberships = pgTable(
   'memberships',
   {
-    userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     role: roleEnum('role').notNull(),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },

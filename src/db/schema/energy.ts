@@ -21,7 +21,9 @@ export const tariffs = pgTable(
   'tariffs',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     homeId: uuid('home_id').references(() => homes.id, { onDelete: 'cascade' }),
     kind: tariffKindEnum('kind').notNull(),
     name: text('name'),
@@ -47,10 +49,14 @@ export type NewTariffRow = typeof tariffs.$inferInsert;
 export const energyDays = pgTable(
   'energy_days',
   {
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     /** Local calendar date at the home. */
     day: date('day', { mode: 'string' }).notNull(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     costPence: real('cost_pence').notNull(),
     heatPumpHeatKWh: real('heat_pump_heat_kwh').notNull(),
     heatPumpElectricityKWh: real('heat_pump_electricity_kwh').notNull(),
@@ -75,7 +81,11 @@ export type EnergyDayRow = typeof energyDays.$inferSelect;
  * accounted again once they have ended. Filled by triggers on rollups_1h (drizzle/0008), and for a
  * home's days when a tariff that prices them is added.
  */
-export const energyDayDirty = pgTable('energy_day_dirty', {
-  tankId: uuid('tank_id').notNull(),
-  hour: timestamp('hour', { withTimezone: true }).notNull(),
-}, (t) => [primaryKey({ columns: [t.tankId, t.hour] }), index('energy_day_dirty_hour_idx').on(t.hour)]);
+export const energyDayDirty = pgTable(
+  'energy_day_dirty',
+  {
+    tankId: uuid('tank_id').notNull(),
+    hour: timestamp('hour', { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.tankId, t.hour] }), index('energy_day_dirty_hour_idx').on(t.hour)],
+);

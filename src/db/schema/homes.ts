@@ -1,5 +1,16 @@
 import {
-  boolean, index, integer, pgEnum, pgTable, primaryKey, real, smallint, text, timestamp, uniqueIndex, uuid,
+  boolean,
+  index,
+  integer,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  smallint,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
 import { users } from './auth';
@@ -11,7 +22,9 @@ export const homes = pgTable(
   'homes',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     reference: text('reference').notNull(),
     addressLine: text('address_line').notNull(),
     town: text('town').notNull(),
@@ -28,10 +41,13 @@ export const homes = pgTable(
      * LIKE (much cheaper than ILIKE per row); fields apart by a unit separator (chr 31), so a match never
      * spans two of them. Trigram-indexed (pg_trgm).
      */
-    searchText: text('search_text').generatedAlwaysAs(sql`lower("reference" || chr(31) || "address_line" || chr(31) || "postcode" || chr(31) || "town" || chr(31) || coalesce("contact_name", ''))`),
+    searchText: text('search_text').generatedAlwaysAs(
+      sql`lower("reference" || chr(31) || "address_line" || chr(31) || "postcode" || chr(31) || "town" || chr(31) || coalesce("contact_name", ''))`,
+    ),
   },
   (t) => [
-    uniqueIndex('homes_company_reference_uq').on(t.companyId, t.reference), index('homes_company_town_idx').on(t.companyId, t.town),
+    uniqueIndex('homes_company_reference_uq').on(t.companyId, t.reference),
+    index('homes_company_town_idx').on(t.companyId, t.town),
     index('homes_search_trgm_idx').using('gin', t.searchText.op('gin_trgm_ops')),
   ],
 );
@@ -41,8 +57,12 @@ export type Home = typeof homes.$inferSelect;
 export const homeMembers = pgTable(
   'home_members',
   {
-    homeId: uuid('home_id').notNull().references(() => homes.id, { onDelete: 'cascade' }),
-    userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    homeId: uuid('home_id')
+      .notNull()
+      .references(() => homes.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.homeId, t.userId] }), index('home_members_user_idx').on(t.userId)],
@@ -58,7 +78,9 @@ export const tanks = pgTable(
   'tanks',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    companyId: uuid('company_id').notNull().references(() => companies.id, { onDelete: 'cascade' }),
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
     homeId: uuid('home_id').references(() => homes.id, { onDelete: 'set null' }),
     serial: text('serial').notNull().unique(),
     model: text('model').notNull(),
@@ -83,7 +105,8 @@ export const tanks = pgTable(
   },
   (t) => [
     // The tank list pages a company's tanks in serial order (and ties every other sort on serial).
-    index('tanks_company_serial_idx').on(t.companyId, t.serial), index('tanks_home_idx').on(t.homeId),
+    index('tanks_company_serial_idx').on(t.companyId, t.serial),
+    index('tanks_home_idx').on(t.homeId),
     index('tanks_search_trgm_idx').using('gin', t.searchText.op('gin_trgm_ops')),
   ],
 );

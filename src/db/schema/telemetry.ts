@@ -1,5 +1,18 @@
 import {
-  bigserial, boolean, customType, index, integer, jsonb, pgEnum, pgTable, primaryKey, real, smallint, text, timestamp, uuid,
+  bigserial,
+  boolean,
+  customType,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  smallint,
+  text,
+  timestamp,
+  uuid,
 } from 'drizzle-orm/pg-core';
 import { users } from './auth';
 import { tanks } from './homes';
@@ -50,40 +63,46 @@ export const readings = pgTable(
 export type ReadingRow = typeof readings.$inferSelect;
 
 /** The newest reading of each tank and what follows from it, so "now" never scans readings. */
-export const tankLatestState = pgTable('tank_latest_state', {
-  tankId: uuid('tank_id').primaryKey().references(() => tanks.id, { onDelete: 'cascade' }),
-  /** Time of the newest reading (device clock). */
-  ts: timestamp('ts', { withTimezone: true }),
-  /** When anything (reading or status) last arrived from the tank (server clock). */
-  lastSeenAt: timestamp('last_seen_at', { withTimezone: true }),
-  seq: integer('seq'),
-  layersCc: smallint('layers_cc').array(),
-  flowCc: smallint('flow_cc'),
-  returnCc: smallint('return_cc'),
-  compressor: boolean('compressor'),
-  immersionW: smallint('immersion_w'),
-  powerW: smallint('power_w'),
-  pumpPct: smallint('pump_pct'),
-  drawDlpm: smallint('draw_dlpm'),
-  /** State of charge 0–1 against the tank's target, from the home's cold inlet (else 10 °C); null when withheld. */
-  soc: real('soc'),
-  /** Litres of mixed water at 40 °C (EN 16147 V40, from the home's cold inlet, else 10 °C); null when withheld. */
-  v40L: real('v40_l'),
-  /** Whether soc and V40 were measured, estimated (sensors left out) or withheld, and why (thermal `tankFigures`). */
-  figuresQuality: jsonb('figures_quality').$type<FiguresQuality>(),
-  /** The stuck-sensor check carried between batches (thermal `stepStuck`). */
-  sensorCheck: jsonb('sensor_check').$type<StuckState>(),
-  /** From the retained status topic (the device's last will says offline). */
-  online: boolean('online'),
-  statusAt: timestamp('status_at', { withTimezone: true }),
-  /** Open runs the incremental event derivation carries between batches (src/lib/telemetry/events.ts). */
-  derive: jsonb('derive').$type<DeriveState>().notNull().default({ lastTs: null, open: {} }),
-}, (t) => [
-  // The tank list's sorts walk these in either direction and stop after one page.
-  index('tank_latest_state_soc_idx').on(t.soc),
-  index('tank_latest_state_v40_idx').on(t.v40L),
-  index('tank_latest_state_last_seen_idx').on(t.lastSeenAt),
-]);
+export const tankLatestState = pgTable(
+  'tank_latest_state',
+  {
+    tankId: uuid('tank_id')
+      .primaryKey()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
+    /** Time of the newest reading (device clock). */
+    ts: timestamp('ts', { withTimezone: true }),
+    /** When anything (reading or status) last arrived from the tank (server clock). */
+    lastSeenAt: timestamp('last_seen_at', { withTimezone: true }),
+    seq: integer('seq'),
+    layersCc: smallint('layers_cc').array(),
+    flowCc: smallint('flow_cc'),
+    returnCc: smallint('return_cc'),
+    compressor: boolean('compressor'),
+    immersionW: smallint('immersion_w'),
+    powerW: smallint('power_w'),
+    pumpPct: smallint('pump_pct'),
+    drawDlpm: smallint('draw_dlpm'),
+    /** State of charge 0–1 against the tank's target, from the home's cold inlet (else 10 °C); null when withheld. */
+    soc: real('soc'),
+    /** Litres of mixed water at 40 °C (EN 16147 V40, from the home's cold inlet, else 10 °C); null when withheld. */
+    v40L: real('v40_l'),
+    /** Whether soc and V40 were measured, estimated (sensors left out) or withheld, and why (thermal `tankFigures`). */
+    figuresQuality: jsonb('figures_quality').$type<FiguresQuality>(),
+    /** The stuck-sensor check carried between batches (thermal `stepStuck`). */
+    sensorCheck: jsonb('sensor_check').$type<StuckState>(),
+    /** From the retained status topic (the device's last will says offline). */
+    online: boolean('online'),
+    statusAt: timestamp('status_at', { withTimezone: true }),
+    /** Open runs the incremental event derivation carries between batches (src/lib/telemetry/events.ts). */
+    derive: jsonb('derive').$type<DeriveState>().notNull().default({ lastTs: null, open: {} }),
+  },
+  (t) => [
+    // The tank list's sorts walk these in either direction and stop after one page.
+    index('tank_latest_state_soc_idx').on(t.soc),
+    index('tank_latest_state_v40_idx').on(t.v40L),
+    index('tank_latest_state_last_seen_idx').on(t.lastSeenAt),
+  ],
+);
 export type TankLatestState = typeof tankLatestState.$inferSelect;
 
 export { eventKinds };
@@ -93,7 +112,9 @@ export const eventKindEnum = pgEnum('telemetry_event_kind', eventKinds);
 export const telemetryEvents = pgTable(
   'telemetry_events',
   {
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     kind: eventKindEnum('kind').notNull(),
     startedAt: timestamp('started_at', { withTimezone: true }).notNull(),
     /** Null while the run is still going. */
@@ -107,7 +128,10 @@ export const telemetryEvents = pgTable(
     /** False when the run was cut by a gap in the readings rather than seen to end. */
     complete: boolean('complete').notNull().default(true),
   },
-  (t) => [primaryKey({ columns: [t.tankId, t.kind, t.startedAt] }), index('telemetry_events_tank_time_idx').on(t.tankId, t.startedAt)],
+  (t) => [
+    primaryKey({ columns: [t.tankId, t.kind, t.startedAt] }),
+    index('telemetry_events_tank_time_idx').on(t.tankId, t.startedAt),
+  ],
 );
 export type TelemetryEvent = typeof telemetryEvents.$inferSelect;
 
@@ -123,7 +147,9 @@ export const commandStateEnum = pgEnum('command_state', commandStates);
 export const commands = pgTable(
   'commands',
   {
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     id: uuid('id').notNull().defaultRandom(),
     kind: commandKindEnum('kind').notNull(),
     params: jsonb('params').$type<Record<string, unknown>>().notNull(),
@@ -167,7 +193,9 @@ export type DeadLetter = typeof deadLetters.$inferSelect;
 /** Aggregates for long chart ranges; one shape for both resolutions. */
 function rollupColumns() {
   return {
-    tankId: uuid('tank_id').notNull().references(() => tanks.id, { onDelete: 'cascade' }),
+    tankId: uuid('tank_id')
+      .notNull()
+      .references(() => tanks.id, { onDelete: 'cascade' }),
     bucket: timestamp('bucket', { withTimezone: true }).notNull(),
     samples: integer('samples').notNull(),
     /** Mean of each layer over the bucket, centi-degrees, bottom to top. */
@@ -181,12 +209,18 @@ function rollupColumns() {
     drawAvgLpm: real('draw_avg_lpm'),
   };
 }
-export const rollups15m = pgTable('rollups_15m', rollupColumns(), (t) => [primaryKey({ columns: [t.tankId, t.bucket] })]);
+export const rollups15m = pgTable('rollups_15m', rollupColumns(), (t) => [
+  primaryKey({ columns: [t.tankId, t.bucket] }),
+]);
 export const rollups1h = pgTable('rollups_1h', rollupColumns(), (t) => [primaryKey({ columns: [t.tankId, t.bucket] })]);
 export type RollupRow = typeof rollups15m.$inferSelect;
 
 /** 15-minute buckets that received readings since the rollup job last ran (a work queue). */
-export const rollupDirty = pgTable('rollup_dirty', {
-  tankId: uuid('tank_id').notNull(),
-  bucket: timestamp('bucket', { withTimezone: true }).notNull(),
-}, (t) => [primaryKey({ columns: [t.tankId, t.bucket] })]);
+export const rollupDirty = pgTable(
+  'rollup_dirty',
+  {
+    tankId: uuid('tank_id').notNull(),
+    bucket: timestamp('bucket', { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.tankId, t.bucket] })],
+);

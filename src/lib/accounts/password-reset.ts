@@ -20,7 +20,16 @@ export async function requestPasswordReset(email: string, address: string): Prom
   if (!(await takeMailAllowance(email))) return;
   const { token, hash } = newLinkToken();
   await createPasswordReset(account.id, hash, new Date(Date.now() + RESET_MINUTES * 60_000));
-  await recordAudit({ companyId: account.companyId, actorUserId: null, action: 'password.reset_requested', subject: `user:${account.id}`, detail: { address } });
-  void sendMail({ to: account.email, companyId: account.companyId, ...passwordResetMail(siteUrl(`/reset-password?token=${token}`), RESET_MINUTES) })
-    .catch((err) => console.error('[accounts] could not send a reset link:', err));
+  await recordAudit({
+    companyId: account.companyId,
+    actorUserId: null,
+    action: 'password.reset_requested',
+    subject: `user:${account.id}`,
+    detail: { address },
+  });
+  void sendMail({
+    to: account.email,
+    companyId: account.companyId,
+    ...passwordResetMail(siteUrl(`/reset-password?token=${token}`), RESET_MINUTES),
+  }).catch((err) => console.error('[accounts] could not send a reset link:', err));
 }

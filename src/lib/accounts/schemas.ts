@@ -9,10 +9,19 @@ import { staffRoles } from '../../db/schema/companies';
  */
 export const PASSWORD_MIN_LENGTH = 12;
 
-const emailField = z.string(messages('Enter an e-mail address.')).trim().toLowerCase()
-  .email('Enter a valid e-mail address, like name@example.com.').max(320, 'That e-mail address is too long.');
-const nameField = z.string().trim().max(120, 'Keep the name under 120 characters.').transform((v) => v || null);
-const passwordField = z.string(messages('Choose a password.'))
+const emailField = z
+  .string(messages('Enter an e-mail address.'))
+  .trim()
+  .toLowerCase()
+  .email('Enter a valid e-mail address, like name@example.com.')
+  .max(320, 'That e-mail address is too long.');
+const nameField = z
+  .string()
+  .trim()
+  .max(120, 'Keep the name under 120 characters.')
+  .transform((v) => v || null);
+const passwordField = z
+  .string(messages('Choose a password.'))
   .min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
   .max(256, 'Keep the password under 256 characters.');
 
@@ -25,9 +34,16 @@ export type StaffInvitationInput = z.infer<typeof staffInvitationSchema>;
 export const householderInvitationSchema = z.object({ email: emailField, name: nameField.optional() });
 export type HouseholderInvitationInput = z.infer<typeof householderInvitationSchema>;
 
-const linkTokenField = z.string(messages('The link is missing its token.')).min(20, 'The link is incomplete.').max(200, 'The link is not valid.');
+const linkTokenField = z
+  .string(messages('The link is missing its token.'))
+  .min(20, 'The link is incomplete.')
+  .max(200, 'The link is not valid.');
 
-export const acceptInvitationSchema = z.object({ token: linkTokenField, name: nameField.optional(), password: passwordField.optional() });
+export const acceptInvitationSchema = z.object({
+  token: linkTokenField,
+  name: nameField.optional(),
+  password: passwordField.optional(),
+});
 export const resetRequestSchema = z.object({ email: emailField });
 export const resetCompleteSchema = z.object({ token: linkTokenField, password: passwordField });
 export const roleChangeSchema = z.object({ role: staffRoleField });

@@ -44,20 +44,34 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
     useSecureCookies: opts.secure,
     // The credentials provider only works with JWT sessions; the adapter still stores users and link tokens.
     session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_S },
-    adapter: DrizzleAdapter(db(), { usersTable: users, accountsTable: accounts, sessionsTable: sessions, verificationTokensTable: verificationTokens }),
+    adapter: DrizzleAdapter(db(), {
+      usersTable: users,
+      accountsTable: accounts,
+      sessionsTable: sessions,
+      verificationTokensTable: verificationTokens,
+    }),
     pages: { signIn: '/signin', error: '/signin', verifyRequest: '/signin' },
     logger: {
       // Wrong passwords and expired links are expected; they are in the audit log, not the server log.
       error(error) {
         const type = (error as { type?: string }).type;
-        if (type === 'CredentialsSignin' || type === 'Verification' || type === 'AccessDenied' || type === 'MissingCSRF') return;
+        if (
+          type === 'CredentialsSignin' ||
+          type === 'Verification' ||
+          type === 'AccessDenied' ||
+          type === 'MissingCSRF'
+        )
+          return;
         console.error('[auth]', error);
       },
       warn() {},
     },
     providers: [
       Credentials({
-        credentials: { email: { label: 'E-mail address', type: 'email' }, password: { label: 'Password', type: 'password' } },
+        credentials: {
+          email: { label: 'E-mail address', type: 'email' },
+          password: { label: 'Password', type: 'password' },
+        },
         async authorize(credentials, request) {
           const address = request.headers.get(clientAddressHeader) ?? 'unknown';
           const result = await checkPasswordSignIn(credentials, address);
@@ -73,9 +87,17 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
         async sendVerificationRequest({ identifier, url }) {
           const account = await findAccountByEmail(identifier);
           // Sent in the background: answering as fast for an unknown address as for a known one.
-          void sendMail({ to: identifier, companyId: account?.companyId ?? null, ...signInLinkMail(url, SIGN_IN_LINK_MINUTES) })
-            .catch((err) => console.error('[auth] could not send a sign-in link:', err));
-          await recordAudit({ companyId: account?.companyId ?? null, actorUserId: null, action: 'signin.link_sent', subject: identifier });
+          void sendMail({
+            to: identifier,
+            companyId: account?.companyId ?? null,
+            ...signInLinkMail(url, SIGN_IN_LINK_MINUTES),
+          }).catch((err) => console.error('[auth] could not send a sign-in link:', err));
+          await recordAudit({
+            companyId: account?.companyId ?? null,
+            actorUserId: null,
+            action: 'signin.link_sent',
+            subject: identifier,
+          });
         },
       }),
     ],
@@ -108,14 +130,25 @@ export function authConfig(opts: { secure: boolean }): AuthConfig {
       async signIn({ user, account }) {
         if (account?.provider !== 'nodemailer' || !user.id) return;
         const known = await findAccountByEmail(user.email ?? '');
-        await recordAudit({ companyId: known?.companyId ?? null, actorUserId: user.id, action: 'signin.succeeded', subject: `user:${user.id}`, detail: { method: 'link' } });
+        await recordAudit({
+          companyId: known?.companyId ?? null,
+          actorUserId: user.id,
+          action: 'signin.succeeded',
+          subject: `user:${user.id}`,
+          detail: { method: 'link' },
+        });
       },
       async signOut(message) {
         const token = 'token' in message ? message.token : null;
         if (!token?.sub) return;
         // Ends the session on the server too: a copy of the cookie stops working.
         if (typeof token.sid === 'string') await endUserSession(token.sid);
-        await recordAudit({ companyId: await companyOfUser(token.sub), actorUserId: token.sub, action: 'signout', subject: `user:${token.sub}` });
+        await recordAudit({
+          companyId: await companyOfUser(token.sub),
+          actorUserId: token.sub,
+          action: 'signout',
+          subject: `user:${token.sub}`,
+        });
       },
     },
   };

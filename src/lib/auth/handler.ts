@@ -15,7 +15,10 @@ export async function handleAuthRequest(context: APIContext): Promise<Response> 
   const address = clientAddress(context);
   headers.set(clientAddressHeader, address);
   const init: RequestInit = { method: context.request.method, headers };
-  const body = context.request.method !== 'GET' && context.request.method !== 'HEAD' ? await context.request.arrayBuffer() : undefined;
+  const body =
+    context.request.method !== 'GET' && context.request.method !== 'HEAD'
+      ? await context.request.arrayBuffer()
+      : undefined;
   if (body) init.body = body;
   const res = await Auth(new Request(context.request.url, init), authConfig({ secure: isHttps(context) }));
   return throttledCode(res) && body ? throttledAnswer(context, res, body, address) : res;
@@ -31,7 +34,12 @@ function throttledCode(res: Response): boolean {
  * A throttled sign-in says how long to wait: 429 with Retry-After for scripts; a browser's form
  * post keeps Auth.js's redirect to the sign-in page (which names the wait), with Retry-After too.
  */
-async function throttledAnswer(context: APIContext, res: Response, body: ArrayBuffer, address: string): Promise<Response> {
+async function throttledAnswer(
+  context: APIContext,
+  res: Response,
+  body: ArrayBuffer,
+  address: string,
+): Promise<Response> {
   const email = normaliseEmail(new URLSearchParams(new TextDecoder().decode(body)).get('email') ?? '');
   const verdict = await signInVerdict(email, address);
   const retryAfterS = verdict.blocked ? verdict.retryAfterS : 1;
@@ -45,7 +53,10 @@ async function throttledAnswer(context: APIContext, res: Response, body: ArrayBu
   }
   headers.delete('location');
   headers.set('content-type', 'application/json');
-  return new Response(JSON.stringify({ error: { code: 'TooManyAttempts', message: throttledMessage(retryAfterS), retryAfterS } }), { status: 429, headers });
+  return new Response(
+    JSON.stringify({ error: { code: 'TooManyAttempts', message: throttledMessage(retryAfterS), retryAfterS } }),
+    { status: 429, headers },
+  );
 }
 
 /** What a throttled person reads, on the sign-in page and in the 429 answer. */
@@ -58,9 +69,14 @@ export function throttledMessage(retryAfterS: number): string {
  * Auth.js's CSRF token for a form on one of our pages (sign-in, sign-out), issuing its cookie
  * when the browser has none yet. Asks Auth.js itself, so the token is exactly what it checks.
  */
-export async function csrfTokenFor(context: Pick<APIContext, 'request' | 'url' | 'cookies' | 'clientAddress'>): Promise<string> {
+export async function csrfTokenFor(
+  context: Pick<APIContext, 'request' | 'url' | 'cookies' | 'clientAddress'>,
+): Promise<string> {
   const url = new URL('/api/auth/csrf', context.url);
-  const res = await Auth(new Request(url, { headers: { cookie: context.request.headers.get('cookie') ?? '' } }), authConfig({ secure: isHttps(context) }));
+  const res = await Auth(
+    new Request(url, { headers: { cookie: context.request.headers.get('cookie') ?? '' } }),
+    authConfig({ secure: isHttps(context) }),
+  );
   const { csrfToken } = (await res.json()) as { csrfToken: string };
   for (const line of res.headers.getSetCookie()) {
     const [pair, ...attrs] = line.split(';');
@@ -69,7 +85,10 @@ export async function csrfTokenFor(context: Pick<APIContext, 'request' | 'url' |
     if (!name.endsWith('authjs.csrf-token')) continue;
     // Auth.js wrote the value URL-encoded; Astro encodes again on the way out, so decode it first.
     context.cookies.set(name, decodeURIComponent(pair.slice(eq + 1)), {
-      path: '/', httpOnly: true, sameSite: 'lax', secure: attrs.some((a) => a.trim().toLowerCase() === 'secure'),
+      path: '/',
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: attrs.some((a) => a.trim().toLowerCase() === 'secure'),
     });
   }
   return csrfToken;

@@ -30,7 +30,13 @@ export async function checkPasswordSignIn(input: unknown, address: string): Prom
   const verdict = await signInVerdict(email, address);
   if (verdict.blocked) {
     const account = await findAccountByEmail(email);
-    await recordAudit({ companyId: account?.companyId ?? null, actorUserId: null, action: 'signin.throttled', subject: email, detail: { address } });
+    await recordAudit({
+      companyId: account?.companyId ?? null,
+      actorUserId: null,
+      action: 'signin.throttled',
+      subject: email,
+      detail: { address },
+    });
     return { ok: false, reason: 'throttled', retryAfterS: verdict.retryAfterS };
   }
   const account = await findAccountByEmail(email);
@@ -39,10 +45,22 @@ export async function checkPasswordSignIn(input: unknown, address: string): Prom
   const matches = await verifyPassword(usable ? account.passwordHash! : await decoyHash, parsed.data.password);
   if (!usable || !matches) {
     await recordSignInFailure(email, address);
-    await recordAudit({ companyId: account?.companyId ?? null, actorUserId: null, action: 'signin.failed', subject: email, detail: { address, method: 'password' } });
+    await recordAudit({
+      companyId: account?.companyId ?? null,
+      actorUserId: null,
+      action: 'signin.failed',
+      subject: email,
+      detail: { address, method: 'password' },
+    });
     return { ok: false, reason: 'credentials' };
   }
   await clearSignInFailures(email, address);
-  await recordAudit({ companyId: account.companyId, actorUserId: account.id, action: 'signin.succeeded', subject: `user:${account.id}`, detail: { address, method: 'password' } });
+  await recordAudit({
+    companyId: account.companyId,
+    actorUserId: account.id,
+    action: 'signin.succeeded',
+    subject: `user:${account.id}`,
+    detail: { address, method: 'password' },
+  });
   return { ok: true, user: { id: account.id, email: account.email, name: account.name } };
 }

@@ -20,7 +20,10 @@ function sessionCookieName(secure: boolean): string {
 
 export function authSecret(): string {
   const secret = env().AUTH_SECRET;
-  if (!secret) throw new Error('AUTH_SECRET is not set: `npm start` generates one; set it (32+ characters) when running the server yourself.');
+  if (!secret)
+    throw new Error(
+      'AUTH_SECRET is not set: `npm start` generates one; set it (32+ characters) when running the server yourself.',
+    );
   return secret;
 }
 
@@ -29,7 +32,6 @@ export interface Session {
   /** The id of the server-side session record. */
   sessionId: string;
 }
-
 
 /** Starts a server-side session for a person signing in; its id goes into the token as `sid`. */
 export function startSession(userId: string): Promise<string> {
@@ -63,7 +65,11 @@ function sessionCookieOptions(secure: boolean) {
 }
 
 /** Signs the person in: the same token and cookie Auth.js issues after a password sign-in. */
-export async function issueSession(cookies: AstroCookies, user: { id: string; email: string; name: string | null }, secure: boolean): Promise<void> {
+export async function issueSession(
+  cookies: AstroCookies,
+  user: { id: string; email: string; name: string | null },
+  secure: boolean,
+): Promise<void> {
   const name = sessionCookieName(secure);
   const token = await encode({
     token: { sub: user.id, email: user.email, name: user.name, sid: await startSession(user.id) },
@@ -71,5 +77,8 @@ export async function issueSession(cookies: AstroCookies, user: { id: string; em
     salt: name,
     maxAge: SESSION_MAX_AGE_S,
   });
-  cookies.set(name, token, { ...sessionCookieOptions(secure), expires: new Date(Date.now() + SESSION_MAX_AGE_S * 1000) });
+  cookies.set(name, token, {
+    ...sessionCookieOptions(secure),
+    expires: new Date(Date.now() + SESSION_MAX_AGE_S * 1000),
+  });
 }

@@ -24,7 +24,10 @@ export const throttlePolicy = {
 export type ThrottleVerdict = { blocked: false } | { blocked: true; retryAfterS: number };
 
 const open: ThrottleVerdict = { blocked: false };
-const wait = (untilMs: number, nowMs: number): ThrottleVerdict => ({ blocked: true, retryAfterS: Math.max(1, Math.ceil((untilMs - nowMs) / 1000)) });
+const wait = (untilMs: number, nowMs: number): ThrottleVerdict => ({
+  blocked: true,
+  retryAfterS: Math.max(1, Math.ceil((untilMs - nowMs) / 1000)),
+});
 
 /** The wait after `failures` failures of one account from one address (0 while tries are free). */
 export function backOffMs(failures: number): number {

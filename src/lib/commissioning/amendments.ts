@@ -13,11 +13,29 @@ export interface AmendableField {
 }
 
 export const amendableFields = {
-  'target.targetC': { label: 'Target temperature (°C)', schema: z.coerce.number().min(40, 'At least 40 °C.').max(75, 'At most 75 °C.'), tankColumn: 'targetC' },
-  'target.hysteresisK': { label: 'Reheat differential (K)', schema: z.coerce.number().min(1, 'At least 1 K.').max(20, 'At most 20 K.'), tankColumn: 'hysteresisK' },
-  'target.belowSixtyPlan': { label: `Pasteurisation plan below ${LEGIONELLA_STORE_C} °C`, schema: z.string().trim().min(1, 'Describe the plan.').max(300) },
-  'cylinder.declaredLossW': { label: 'Declared standing loss (W)', schema: z.coerce.number().min(0).max(500), tankColumn: 'declaredLossW' },
-  'controls.externalControl': { label: 'External programmer or thermostat', schema: controlsStepSchema.shape.externalControl },
+  'target.targetC': {
+    label: 'Target temperature (°C)',
+    schema: z.coerce.number().min(40, 'At least 40 °C.').max(75, 'At most 75 °C.'),
+    tankColumn: 'targetC',
+  },
+  'target.hysteresisK': {
+    label: 'Reheat differential (K)',
+    schema: z.coerce.number().min(1, 'At least 1 K.').max(20, 'At most 20 K.'),
+    tankColumn: 'hysteresisK',
+  },
+  'target.belowSixtyPlan': {
+    label: `Pasteurisation plan below ${LEGIONELLA_STORE_C} °C`,
+    schema: z.string().trim().min(1, 'Describe the plan.').max(300),
+  },
+  'cylinder.declaredLossW': {
+    label: 'Declared standing loss (W)',
+    schema: z.coerce.number().min(0).max(500),
+    tankColumn: 'declaredLossW',
+  },
+  'controls.externalControl': {
+    label: 'External programmer or thermostat',
+    schema: controlsStepSchema.shape.externalControl,
+  },
   'controls.controlNotes': { label: 'Notes on the controls', schema: z.string().trim().max(300) },
   'home.contactPhone': { label: 'Householder’s telephone', schema: z.string().trim().max(40) },
   'signoff.notes': { label: 'Notes', schema: z.string().trim().max(1000) },
@@ -25,9 +43,15 @@ export const amendableFields = {
 export type AmendableFieldId = keyof typeof amendableFields;
 
 export const amendmentSchema = z.object({
-  field: z.enum(Object.keys(amendableFields) as [AmendableFieldId, ...AmendableFieldId[]], { error: `Choose a field that may be amended: ${Object.keys(amendableFields).join(', ')}.` }),
+  field: z.enum(Object.keys(amendableFields) as [AmendableFieldId, ...AmendableFieldId[]], {
+    error: `Choose a field that may be amended: ${Object.keys(amendableFields).join(', ')}.`,
+  }),
   value: z.unknown(),
-  reason: z.string(messages('Say why the record is being amended.')).trim().min(3, 'Say why the record is being amended.').max(500),
+  reason: z
+    .string(messages('Say why the record is being amended.'))
+    .trim()
+    .min(3, 'Say why the record is being amended.')
+    .max(500),
 });
 
 /** Reads `step.field` out of the answers. */
@@ -37,7 +61,10 @@ export function fieldValue(record: Record<string, unknown>, field: string): unkn
 }
 
 /** The answers with amendments applied in order (the signed original is never changed). */
-export function amendedAnswers(record: Record<string, unknown>, amendments: readonly { field: string; newValue: unknown }[]): Record<string, unknown> {
+export function amendedAnswers(
+  record: Record<string, unknown>,
+  amendments: readonly { field: string; newValue: unknown }[],
+): Record<string, unknown> {
   const out: Record<string, unknown> = structuredClone(record);
   for (const a of amendments) {
     const [step, key] = a.field.split('.');

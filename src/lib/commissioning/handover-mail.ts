@@ -5,7 +5,6 @@ import type { MailContent } from '../mail/messages';
 import { LEGIONELLA_GUIDANCE, SCALD_CAUTION } from './cautions';
 import type { SignedRecord } from './record';
 
-
 export function handoverMail(r: SignedRecord): MailContent {
   const paragraphs = [
     `Hello ${r.answers.home.contactName},`,

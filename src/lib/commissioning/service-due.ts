@@ -10,7 +10,16 @@ export type DueState = 'overdue' | 'due_soon' | 'not_due';
 
 /** `from` plus whole months, clamped to the month's last day (31 Jan + 1 month = 28/29 Feb). */
 export function addMonths(from: Date, months: number): Date {
-  const d = new Date(Date.UTC(from.getUTCFullYear(), from.getUTCMonth() + months, 1, from.getUTCHours(), from.getUTCMinutes(), from.getUTCSeconds()));
+  const d = new Date(
+    Date.UTC(
+      from.getUTCFullYear(),
+      from.getUTCMonth() + months,
+      1,
+      from.getUTCHours(),
+      from.getUTCMinutes(),
+      from.getUTCSeconds(),
+    ),
+  );
   const last = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 0)).getUTCDate();
   d.setUTCDate(Math.min(from.getUTCDate(), last));
   return d;
@@ -26,4 +35,8 @@ export function dueState(due: Date, now = new Date()): DueState {
   return 'not_due';
 }
 
-export const dueStateLabels: Record<DueState, string> = { overdue: 'Overdue', due_soon: 'Due soon', not_due: 'Not yet due' };
+export const dueStateLabels: Record<DueState, string> = {
+  overdue: 'Overdue',
+  due_soon: 'Due soon',
+  not_due: 'Not yet due',
+};

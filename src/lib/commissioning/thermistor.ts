@@ -20,7 +20,8 @@ export interface ThermistorWorking {
 export const BETA_EQUATION = 'R = R25 · exp(B · (1/T − 1/298.15 K)), T in kelvin';
 
 const kelvin = (c: number) => c + 273.15;
-const fmt = (n: number, digits: number) => n.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
+const fmt = (n: number, digits: number) =>
+  n.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
 
 /** Ohms as people set them on a controller: 24 834 Ω → "24.83 kΩ". */
 export function formatOhm(ohm: number): string {
@@ -40,14 +41,22 @@ function working(tempC: number, sensor: BetaThermistor, ohm: number): string[] {
 }
 
 /** The two settings and their working, or throws the thermal core's ThermalInputError naming the bad input. */
-export function thermistorWorking(input: { sensor: BetaThermistor; callC: number; satisfiedC: number }): ThermistorWorking {
+export function thermistorWorking(input: {
+  sensor: BetaThermistor;
+  callC: number;
+  satisfiedC: number;
+}): ThermistorWorking {
   const s = thermistorSettings(input);
   return {
     sensor: input.sensor,
     lines: [
       { which: 'call', tempC: input.callC, ohm: s.callOhm, working: working(input.callC, input.sensor, s.callOhm) },
-      { which: 'satisfied', tempC: input.satisfiedC, ohm: s.satisfiedOhm, working: working(input.satisfiedC, input.sensor, s.satisfiedOhm) },
+      {
+        which: 'satisfied',
+        tempC: input.satisfiedC,
+        ohm: s.satisfiedOhm,
+        working: working(input.satisfiedC, input.sensor, s.satisfiedOhm),
+      },
     ],
   };
 }
-

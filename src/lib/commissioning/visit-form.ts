@@ -7,26 +7,45 @@ export { visitKindLabels } from './visit-kinds';
 
 const blank = (v: unknown) => (v === '' || v === null ? undefined : typeof v === 'string' ? Number(v) : v);
 const reading = (field: string, unit: string, min: number, max: number) =>
-  z.preprocess(blank, z.number({ error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`).optional());
+  z.preprocess(
+    blank,
+    z
+      .number({ error: `Enter the ${field} as a number (${unit}).` })
+      .min(min, `The ${field} must be at least ${min} ${unit}.`)
+      .max(max, `The ${field} must be at most ${max} ${unit}.`)
+      .optional(),
+  );
 
 export const visitSchema = z.object({
   tankId: z.string(messages('Say which tank was visited.')).uuid('Say which tank was visited.'),
   kind: z.enum(visitKinds, { error: 'Choose the kind of visit.' }),
-  visitedAt: z.coerce.date({ error: 'Enter the date of the visit.' })
+  visitedAt: z.coerce
+    .date({ error: 'Enter the date of the visit.' })
     .refine((d) => d.getTime() <= Date.now() + 86_400_000, 'The visit date cannot be in the future.'),
-  findings: z.string(messages('Describe what was found and done.')).trim().min(3, 'Describe what was found and done.').max(5000),
-  parts: z.array(z.object({
-    name: z.string().trim().min(1, 'Name the part.').max(120),
-    quantity: z.coerce.number().int('Whole numbers of parts.').min(1, 'At least one.').max(999),
-  })).max(50).default([]),
-  readings: z.object({
-    topC: reading('top temperature', '°C', -10, 105),
-    bottomC: reading('bottom temperature', '°C', -10, 105),
-    inletPressureBar: reading('incoming pressure', 'bar', 0, 16),
-    vesselPrechargeBar: reading('expansion vessel pre-charge', 'bar', 0, 10),
-    reliefValveTested: z.boolean().optional(),
-    dischargeChecked: z.boolean().optional(),
-  }).default({}),
+  findings: z
+    .string(messages('Describe what was found and done.'))
+    .trim()
+    .min(3, 'Describe what was found and done.')
+    .max(5000),
+  parts: z
+    .array(
+      z.object({
+        name: z.string().trim().min(1, 'Name the part.').max(120),
+        quantity: z.coerce.number().int('Whole numbers of parts.').min(1, 'At least one.').max(999),
+      }),
+    )
+    .max(50)
+    .default([]),
+  readings: z
+    .object({
+      topC: reading('top temperature', '°C', -10, 105),
+      bottomC: reading('bottom temperature', '°C', -10, 105),
+      inletPressureBar: reading('incoming pressure', 'bar', 0, 16),
+      vesselPrechargeBar: reading('expansion vessel pre-charge', 'bar', 0, 10),
+      reliefValveTested: z.boolean().optional(),
+      dischargeChecked: z.boolean().optional(),
+    })
+    .default({}),
   /** The tank's open alerts this visit dealt with: they are resolved with it. */
   resolvedAlertIds: z.array(z.string().uuid('Unknown alert.')).max(50).default([]),
   uploadIds: z.array(z.string().uuid('Unknown photo.')).max(30).default([]),

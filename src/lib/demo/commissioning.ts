@@ -22,24 +22,63 @@ function callAndSatisfied(t: DemoTank): { callC: number; satisfiedC: number } {
 function demoAnswers(t: DemoTank, c: DemoCommissioning): CommissioningAnswers {
   const hp = c.heatPump;
   const raw = {
-    home: { addressLine: t.addressLine, town: t.town, postcode: t.postcode, occupants: t.occupants, contactName: t.contactName, contactEmail: t.contactEmail },
+    home: {
+      addressLine: t.addressLine,
+      town: t.town,
+      postcode: t.postcode,
+      occupants: t.occupants,
+      contactName: t.contactName,
+      contactEmail: t.contactEmail,
+    },
     cylinder: {
-      serial: t.serial, model: t.model, volumeL: t.volumeL, heightM: t.heightM, sensorCount: t.sensorCount,
-      exchanger: capabilities(t.heatSource).exchanger ?? 'none', immersionW: t.immersionW, declaredLossW: t.declaredLossW,
+      serial: t.serial,
+      model: t.model,
+      volumeL: t.volumeL,
+      heightM: t.heightM,
+      sensorCount: t.sensorCount,
+      exchanger: capabilities(t.heatSource).exchanger ?? 'none',
+      immersionW: t.immersionW,
+      declaredLossW: t.declaredLossW,
     },
     heat_source: hp
-      ? { heatSource: t.heatSource, heatPumpName: hp.name, hpOutputW: t.hpOutputW, ntcR25Ohm: hp.ntcR25Ohm, ntcBetaK: hp.ntcBetaK, ...callAndSatisfied(t) }
+      ? {
+          heatSource: t.heatSource,
+          heatPumpName: hp.name,
+          hpOutputW: t.hpOutputW,
+          ntcR25Ohm: hp.ntcR25Ohm,
+          ntcBetaK: hp.ntcBetaK,
+          ...callAndSatisfied(t),
+        }
       : { heatSource: t.heatSource },
     target: {
-      targetC: t.targetC, hysteresisK: t.hysteresisK,
-      ...(t.targetC < 60 ? { belowSixtyPlan: 'Weekly pasteurisation: the store is raised to 60 °C or above once a week.' } : {}),
+      targetC: t.targetC,
+      hysteresisK: t.hysteresisK,
+      ...(t.targetC < 60
+        ? { belowSixtyPlan: 'Weekly pasteurisation: the store is raised to 60 °C or above once a week.' }
+        : {}),
     },
-    controls: { externalControl: c.externalControl, ...(c.externalControl === 'programmer' ? { controlNotes: 'Existing programmer kept; the cylinder controller follows its hot-water channel.' } : {}) },
-    safety: { expansion: true, reliefValve: true, discharge: true, reducingValve: true, isolation: true, competentPerson: true, registrationNumber: c.registrationNumber },
+    controls: {
+      externalControl: c.externalControl,
+      ...(c.externalControl === 'programmer'
+        ? { controlNotes: 'Existing programmer kept; the cylinder controller follows its hot-water channel.' }
+        : {}),
+    },
+    safety: {
+      expansion: true,
+      reliefValve: true,
+      discharge: true,
+      reducingValve: true,
+      isolation: true,
+      competentPerson: true,
+      registrationNumber: c.registrationNumber,
+    },
     signoff: { householderEmail: t.contactEmail },
   };
   const v = validateAnswers(raw, ['home', 'cylinder', 'heat_source', 'target', 'controls', 'safety', 'signoff']);
-  if (!v.ok) throw new Error(`Demo commissioning of ${t.serial} does not pass the wizard's checks: ${v.problems.map((p) => `${p.field}: ${p.message}`).join(' ')}`);
+  if (!v.ok)
+    throw new Error(
+      `Demo commissioning of ${t.serial} does not pass the wizard's checks: ${v.problems.map((p) => `${p.field}: ${p.message}`).join(' ')}`,
+    );
   return v.answers as CommissioningAnswers;
 }
 
@@ -52,10 +91,17 @@ function firstLayers(t: DemoTank): number[] {
 export function demoSignedRecord(t: DemoTank, c: DemoCommissioning, ctx: DemoRecordContext): SignedRecord {
   const answers = demoAnswers(t, c);
   return {
-    version: 1, recordId: ctx.recordId, companyName: ctx.companyName, homeReference: t.homeRef, serial: t.serial,
-    answers, thermistor: thermistorSnapshot(answers.heat_source),
+    version: 1,
+    recordId: ctx.recordId,
+    companyName: ctx.companyName,
+    homeReference: t.homeRef,
+    serial: t.serial,
+    answers,
+    thermistor: thermistorSnapshot(answers.heat_source),
     // The connection check saw the first reading a little before sign-off.
     firstTelemetry: { ts: new Date(ctx.signedAt.getTime() - 20 * 60_000).toISOString(), layersC: firstLayers(t) },
-    engineer: ctx.engineer, signedAt: ctx.signedAt.toISOString(), attachments: c.photos.length,
+    engineer: ctx.engineer,
+    signedAt: ctx.signedAt.toISOString(),
+    attachments: c.photos.length,
   };
 }

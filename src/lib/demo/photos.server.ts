@@ -4,7 +4,12 @@
 import sharp from 'sharp';
 import type { DemoTank } from './scenario';
 
-export interface DemoPhoto { filename: string; body: Buffer; width: number; height: number }
+export interface DemoPhoto {
+  filename: string;
+  body: Buffer;
+  width: number;
+  height: number;
+}
 
 /** Drawn on a 480 × 320 canvas, stored at 360 × 240: plenty on a record page, and quick to make. */
 const W = 360;
@@ -18,7 +23,13 @@ async function jpeg(svg: string): Promise<Buffer> {
 
 /** The data plate on the cylinder's casing: model, serial, capacity, heat source. */
 export async function dataPlatePhoto(t: DemoTank): Promise<DemoPhoto> {
-  const lines = [t.model, `Serial ${t.serial}`, `${t.volumeL} L · ${t.sensorCount} sensors`, `Immersion ${t.immersionW / 1000} kW`, 'Demo data plate'];
+  const lines = [
+    t.model,
+    `Serial ${t.serial}`,
+    `${t.volumeL} L · ${t.sensorCount} sensors`,
+    `Immersion ${t.immersionW / 1000} kW`,
+    'Demo data plate',
+  ];
   const svg = `${svgOpen}
     <rect width="480" height="320" fill="#b9bfb5"/>
     <rect x="70" y="48" width="340" height="224" rx="10" fill="#e9ebe6" stroke="#5c6660" stroke-width="3"/>

@@ -8,12 +8,23 @@ import { pick, seededRandom } from './random';
  */
 
 export const faultKinds = [
-  'sensor_open', 'sensor_stuck', 'sensors_swapped', 'short_cycle',
-  'network_outage', 'low_setpoint', 'immersion_stuck',
+  'sensor_open',
+  'sensor_stuck',
+  'sensors_swapped',
+  'short_cycle',
+  'network_outage',
+  'low_setpoint',
+  'immersion_stuck',
 ] as const;
 export type FaultKind = (typeof faultKinds)[number];
 
-export interface CylinderModel { model: string; volumeL: number; heightM: number; sensorCount: number; declaredLossW: number }
+export interface CylinderModel {
+  model: string;
+  volumeL: number;
+  heightM: number;
+  sensorCount: number;
+  declaredLossW: number;
+}
 
 /** Generic, invented cylinder models. Declared losses sit in the range typical of class B/C tanks (demo values). */
 const cylinderModels: readonly CylinderModel[] = [
@@ -24,13 +35,35 @@ const cylinderModels: readonly CylinderModel[] = [
   { model: 'C300 cylinder', volumeL: 300, heightM: 1.85, sensorCount: 16, declaredLossW: 70 },
 ];
 
-export interface DemoCompany { slug: string; name: string; emailDomain: string; towns: readonly string[]; homeCount: number; refPrefix: string; serialPrefix: string }
+export interface DemoCompany {
+  slug: string;
+  name: string;
+  emailDomain: string;
+  towns: readonly string[];
+  homeCount: number;
+  refPrefix: string;
+  serialPrefix: string;
+}
 
 export const demoCompanies: readonly DemoCompany[] = [
-  { slug: 'kestrel-vale', name: 'Kestrel Vale Heating Co-operative', emailDomain: 'kestrelvale.example.com',
-    towns: ['Ashby Wend', 'Larkholt', 'Cobbmere', 'Tarnfield'], homeCount: 240, refPrefix: 'KV', serialPrefix: 'KV' },
-  { slug: 'orrin-bay', name: 'Orrin Bay Energy Services', emailDomain: 'orrinbay.example.com',
-    towns: ['Orrin Quay', 'Saltmere'], homeCount: 24, refPrefix: 'OB', serialPrefix: 'OB' },
+  {
+    slug: 'kestrel-vale',
+    name: 'Kestrel Vale Heating Co-operative',
+    emailDomain: 'kestrelvale.example.com',
+    towns: ['Ashby Wend', 'Larkholt', 'Cobbmere', 'Tarnfield'],
+    homeCount: 240,
+    refPrefix: 'KV',
+    serialPrefix: 'KV',
+  },
+  {
+    slug: 'orrin-bay',
+    name: 'Orrin Bay Energy Services',
+    emailDomain: 'orrinbay.example.com',
+    towns: ['Orrin Quay', 'Saltmere'],
+    homeCount: 24,
+    refPrefix: 'OB',
+    serialPrefix: 'OB',
+  },
 ];
 
 export interface DemoTank {
@@ -78,14 +111,55 @@ export interface DemoCommissioning {
   registrationNumber: string;
 }
 
-const streets = ['Mill Lane', 'Church Row', 'Heron Close', 'Quarry Road', 'Orchard Way', 'Station Street', 'Beck Side', 'Willow Drive', 'Tanner Walk', 'Marsh Road'];
-const firstNames = ['Ilsa', 'Teodor', 'Marnie', 'Osric', 'Wren', 'Bastian', 'Calla', 'Dorian', 'Fenna', 'Joss', 'Linnea', 'Perrin'];
-const lastNames = ['Ashcombe', 'Brackwater', 'Colvane', 'Dunmere', 'Elsworth', 'Farrowdale', 'Greythorn', 'Hollins', 'Ivers', 'Kettleby'];
+const streets = [
+  'Mill Lane',
+  'Church Row',
+  'Heron Close',
+  'Quarry Road',
+  'Orchard Way',
+  'Station Street',
+  'Beck Side',
+  'Willow Drive',
+  'Tanner Walk',
+  'Marsh Road',
+];
+const firstNames = [
+  'Ilsa',
+  'Teodor',
+  'Marnie',
+  'Osric',
+  'Wren',
+  'Bastian',
+  'Calla',
+  'Dorian',
+  'Fenna',
+  'Joss',
+  'Linnea',
+  'Perrin',
+];
+const lastNames = [
+  'Ashcombe',
+  'Brackwater',
+  'Colvane',
+  'Dunmere',
+  'Elsworth',
+  'Farrowdale',
+  'Greythorn',
+  'Hollins',
+  'Ivers',
+  'Kettleby',
+];
 
 /** Which demo tanks carry an injected fault by default (by index within Kestrel Vale). */
 const defaultFaults: Record<number, FaultKind[]> = {
-  7: ['sensor_open'], 19: ['sensor_stuck'], 31: ['sensors_swapped'], 44: ['short_cycle'],
-  58: ['network_outage'], 73: ['low_setpoint'], 88: ['immersion_stuck'], 102: ['short_cycle'],
+  7: ['sensor_open'],
+  19: ['sensor_stuck'],
+  31: ['sensors_swapped'],
+  44: ['short_cycle'],
+  58: ['network_outage'],
+  73: ['low_setpoint'],
+  88: ['immersion_stuck'],
+  102: ['short_cycle'],
 };
 
 export function demoTanks(): DemoTank[] {
@@ -108,7 +182,12 @@ export function demoTanks(): DemoTank[] {
       out.push({
         companySlug: company.slug,
         homeRef: `${company.refPrefix}-${num}`,
-        addressLine, town, postcode, occupants, hasSolar, contactName,
+        addressLine,
+        town,
+        postcode,
+        occupants,
+        hasSolar,
+        contactName,
         contactEmail: `${contactName.toLowerCase().replace(/\s+/g, '.')}.${company.refPrefix.toLowerCase()}${num}@example.com`,
         serial: `${company.serialPrefix}${cyl.model.slice(0, 4)}-${String(100000 + i * 37 + Math.floor(rand() * 30)).padStart(6, '0')}`,
         model: cyl.model,
@@ -136,11 +215,16 @@ export function demoTanks(): DemoTank[] {
  * inspection falls a few days before its anniversary (1 to 10; at the latest today), so a tank that kept its visits is
  * never overdue; a few missed their latest, and are overdue by days to weeks.
  */
-function serviceHistory(i: number): { commissionedDaysAgo: number; inspectionsDaysAgo: number[]; inspectionMissed: boolean } {
+function serviceHistory(i: number): {
+  commissionedDaysAgo: number;
+  inspectionsDaysAgo: number[];
+  inspectionMissed: boolean;
+} {
   const commissionedDaysAgo = 20 + ((i * 97) % 1100);
   const early = 1 + ((i * 7) % 10);
   const inspectionsDaysAgo: number[] = [];
-  for (let k = 1; commissionedDaysAgo - k * 365 + early >= 0; k++) inspectionsDaysAgo.push(commissionedDaysAgo - k * 365 + early);
+  for (let k = 1; commissionedDaysAgo - k * 365 + early >= 0; k++)
+    inspectionsDaysAgo.push(commissionedDaysAgo - k * 365 + early);
   // A few tanks missed the one whose anniversary passed 3 to 75 days ago: overdue by days to weeks.
   const lateDays = commissionedDaysAgo - inspectionsDaysAgo.length * 365;
   const inspectionMissed = i % 5 === 0 && inspectionsDaysAgo.length > 0 && lateDays >= 3 && lateDays <= 75;
@@ -150,7 +234,10 @@ function serviceHistory(i: number): { commissionedDaysAgo: number; inspectionsDa
 
 /** Invented heat-pump names and the sensor inputs' NTC curves (10 kΩ and 5 kΩ at 25 °C are usual; demo values). */
 const heatPumpNames = ['Air-to-water heat pump (demo)', 'Monobloc heat pump (demo)', 'Split heat pump (demo)'];
-const sensorInputs = [{ ntcR25Ohm: 10_000, ntcBetaK: 3977 }, { ntcR25Ohm: 5000, ntcBetaK: 3470 }];
+const sensorInputs = [
+  { ntcR25Ohm: 10_000, ntcBetaK: 3977 },
+  { ntcR25Ohm: 5000, ntcBetaK: 3470 },
+];
 
 /** The commissioning record of demo tank `i`: seven in eight have one, from the index alone. */
 function commissioningFacts(company: DemoCompany, i: number, heatSource: HeatSource): DemoCommissioning | null {
@@ -168,8 +255,18 @@ function commissioningFacts(company: DemoCompany, i: number, heatSource: HeatSou
 export const demoRoles = ['admin', 'operator', 'engineer', 'householder'] as const;
 
 /** Demo sign-ins: one per role in each company, e.g. operator@kestrelvale.example.com. */
-export function demoAccounts(): { email: string; role: (typeof demoRoles)[number]; companySlug: string; name: string }[] {
+export function demoAccounts(): {
+  email: string;
+  role: (typeof demoRoles)[number];
+  companySlug: string;
+  name: string;
+}[] {
   return demoCompanies.flatMap((c) =>
-    demoRoles.map((role) => ({ email: `${role}@${c.emailDomain}`, role, companySlug: c.slug, name: `Demo ${role} (${c.name})` })),
+    demoRoles.map((role) => ({
+      email: `${role}@${c.emailDomain}`,
+      role,
+      companySlug: c.slug,
+      name: `Demo ${role} (${c.name})`,
+    })),
   );
 }

@@ -15,25 +15,43 @@ const TIDE = rgb(0.11, 0.44, 0.42);
  */
 export function pdfText(s: string): string {
   return s
-    .replace(/kΩ/g, 'kohm').replace(/Ω/g, 'ohm').replace(/[−–—]/g, '-').replace(/≈/g, '~').replace(/×/g, 'x')
-    .replace(/⁻¹/g, '^-1').replace(/[‘’]/g, "'").replace(/[“”]/g, '"').replace(/…/g, '...')
+    .replace(/kΩ/g, 'kohm')
+    .replace(/Ω/g, 'ohm')
+    .replace(/[−–—]/g, '-')
+    .replace(/≈/g, '~')
+    .replace(/×/g, 'x')
+    .replace(/⁻¹/g, '^-1')
+    .replace(/[‘’]/g, "'")
+    .replace(/[“”]/g, '"')
+    .replace(/…/g, '...')
     .replace(/[^\x20-\x7e\xa0-\xff]/g, '?');
 }
 
 class Writer {
   page!: PDFPage;
   y = 0;
-  constructor(private doc: PDFDocument, private regular: PDFFont, private bold: PDFFont) { this.newPage(); }
+  constructor(
+    private doc: PDFDocument,
+    private regular: PDFFont,
+    private bold: PDFFont,
+  ) {
+    this.newPage();
+  }
 
   newPage() {
     this.page = this.doc.addPage(A4);
     this.y = A4[1] - MARGIN;
   }
 
-  private room(h: number) { if (this.y - h < MARGIN) this.newPage(); }
+  private room(h: number) {
+    if (this.y - h < MARGIN) this.newPage();
+  }
 
   /** Wraps `text` to the page width and writes it. */
-  para(text: string, opts: { size?: number; bold?: boolean; color?: ReturnType<typeof rgb>; indent?: number; gap?: number } = {}) {
+  para(
+    text: string,
+    opts: { size?: number; bold?: boolean; color?: ReturnType<typeof rgb>; indent?: number; gap?: number } = {},
+  ) {
     const size = opts.size ?? 10;
     const font = opts.bold ? this.bold : this.regular;
     const width = A4[0] - 2 * MARGIN - (opts.indent ?? 0);
@@ -42,7 +60,10 @@ class Writer {
     const lines: string[] = [];
     for (const w of words) {
       const next = line ? `${line} ${w}` : w;
-      if (font.widthOfTextAtSize(next, size) > width && line) { lines.push(line); line = w; } else line = next;
+      if (font.widthOfTextAtSize(next, size) > width && line) {
+        lines.push(line);
+        line = w;
+      } else line = next;
     }
     if (line) lines.push(line);
     for (const l of lines) {
@@ -72,7 +93,9 @@ class Writer {
       const next = line ? `${line} ${w}` : w;
       if (this.regular.widthOfTextAtSize(next, size) > width && line) {
         this.page.drawText(line, { x, y: this.y - size, size, font: this.regular, color: INK });
-        this.y -= size + 4; this.room(size + 4); line = w;
+        this.y -= size + 4;
+        this.room(size + 4);
+        line = w;
       } else line = next;
     }
     this.page.drawText(line, { x, y: this.y - size, size, font: this.regular, color: INK });
@@ -87,10 +110,17 @@ export async function commissioningPdf(view: RecordView): Promise<Uint8Array> {
   doc.setAuthor(view.companyName);
   doc.setCreator('Heatlayer');
   doc.setCreationDate(new Date(view.signedAt));
-  const w = new Writer(doc, await doc.embedFont(StandardFonts.Helvetica), await doc.embedFont(StandardFonts.HelveticaBold));
+  const w = new Writer(
+    doc,
+    await doc.embedFont(StandardFonts.Helvetica),
+    await doc.embedFont(StandardFonts.HelveticaBold),
+  );
 
   w.para('Hot-water cylinder commissioning record', { size: 18, bold: true, gap: 2 });
-  w.para(`${view.companyName} · record ${view.recordId.slice(0, 8)} · signed ${view.signedAtText}`, { color: MUTED, gap: 6 });
+  w.para(`${view.companyName} · record ${view.recordId.slice(0, 8)} · signed ${view.signedAtText}`, {
+    color: MUTED,
+    gap: 6,
+  });
 
   for (const section of view.sections) {
     w.heading(section.title);

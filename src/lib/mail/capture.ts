@@ -80,5 +80,8 @@ export function listCapturedMail(dir: string): CapturedMail[] {
   } catch {
     return [];
   }
-  return names.sort().reverse().map((n) => JSON.parse(readFileSync(join(dir, n), 'utf8')) as CapturedMail);
+  return names
+    .sort()
+    .reverse()
+    .map((n) => JSON.parse(readFileSync(join(dir, n), 'utf8')) as CapturedMail);
 }

@@ -11,5 +11,7 @@ export function capturedMailboxInUse(): boolean {
 
 /** Captured messages sent for one company, newest first. */
 export function capturedMailFor(companyId: string, limit = 100): CapturedMail[] {
-  return listCapturedMail(mailDir(env().HEATLAYER_DATA_DIR)).filter((m) => m.companyId === companyId).slice(0, limit);
+  return listCapturedMail(mailDir(env().HEATLAYER_DATA_DIR))
+    .filter((m) => m.companyId === companyId)
+    .slice(0, limit);
 }

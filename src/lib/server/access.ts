@@ -104,8 +104,6 @@ export const routeAccess: Record<string, Partial<Record<Method, AccessRule>>> = 
   '/api/fleet/energy': { GET: desk },
 };
 
-;
-
 /** The rule for a route and method, or undefined when the route does not allow it. */
 export function accessFor(routePattern: string, method: string): AccessRule | undefined {
   const m = method.toUpperCase() === 'HEAD' ? 'GET' : (method.toUpperCase() as Method);

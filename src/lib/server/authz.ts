@@ -3,7 +3,12 @@ import type { Viewer } from './viewer';
 
 /** An expected failure with its HTTP status; endpoints turn it into a JSON problem answer. */
 export class HttpError extends Error {
-  constructor(readonly status: number, readonly code: string, message: string, readonly fields?: { field: string; message: string }[]) {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields?: { field: string; message: string }[],
+  ) {
     super(message);
   }
 }
@@ -15,7 +20,8 @@ export class HttpError extends Error {
 export function requireViewer(locals: App.Locals, roles?: readonly Role[]): Viewer {
   const viewer = locals.viewer;
   if (!viewer) throw new HttpError(401, 'SignInRequired', 'Sign in to use this.');
-  if (roles && !roles.includes(viewer.role)) throw new HttpError(403, 'NotAllowedForRole', 'Your role does not allow this.');
+  if (roles && !roles.includes(viewer.role))
+    throw new HttpError(403, 'NotAllowedForRole', 'Your role does not allow this.');
   return viewer;
 }
 
@@ -33,7 +39,11 @@ export interface Scope {
  * The tank `find` returns for this id within the scope, or the one 404 every tank route answers:
  * a tank of another company, or of another householder's home, is simply not there.
  */
-export async function requireTank<T>(find: (scope: Scope, id: string) => Promise<T | null>, scope: Scope, id: string | undefined): Promise<T> {
+export async function requireTank<T>(
+  find: (scope: Scope, id: string) => Promise<T | null>,
+  scope: Scope,
+  id: string | undefined,
+): Promise<T> {
   const tank = id ? await find(scope, id) : null;
   if (!tank) throw new HttpError(404, 'TankNotFound', 'There is no such tank among the ones you can see.');
   return tank;

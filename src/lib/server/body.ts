@@ -34,9 +34,13 @@ export async function readBoundedBody(request: Request, maxBytes: number, tooLar
   return Buffer.concat(chunks);
 }
 
-const jsonTooLarge = () => new HttpError(413, 'BodyTooLarge',
-  `The request body is larger than the ${MAX_JSON_BODY_BYTES / 1024} KiB a JSON request may hold.`,
-  [{ field: '(body)', message: `At most ${MAX_JSON_BODY_BYTES / 1024} KiB.` }]);
+const jsonTooLarge = () =>
+  new HttpError(
+    413,
+    'BodyTooLarge',
+    `The request body is larger than the ${MAX_JSON_BODY_BYTES / 1024} KiB a JSON request may hold.`,
+    [{ field: '(body)', message: `At most ${MAX_JSON_BODY_BYTES / 1024} KiB.` }],
+  );
 
 /** The first string (key or value) in a parsed JSON value that is not acceptable text, with its path. */
 function badText(value: unknown, path: string): { field: string; message: string } | null {
@@ -75,7 +79,9 @@ async function readJson(request: Request, options: { emptyAs?: unknown } = {}): 
   try {
     raw = JSON.parse(text);
   } catch {
-    throw new HttpError(400, 'InvalidJson', 'The request body must be JSON.', [{ field: '(body)', message: 'Not valid JSON.' }]);
+    throw new HttpError(400, 'InvalidJson', 'The request body must be JSON.', [
+      { field: '(body)', message: 'Not valid JSON.' },
+    ]);
   }
   const bad = badText(raw, '');
   if (bad) throw new HttpError(400, 'InvalidText', `${bad.field} ${bad.message}`, [bad]);
@@ -86,6 +92,10 @@ async function readJson(request: Request, options: { emptyAs?: unknown } = {}): 
  * The request's JSON body checked against a schema: 400 naming the fields when it does not fit
  * (the endpoint wrapper turns the ZodError into that answer). Every JSON route reads its body so.
  */
-export async function jsonBody<S extends z.ZodType>(request: Request, schema: S, options: { emptyAs?: unknown } = {}): Promise<z.output<S>> {
+export async function jsonBody<S extends z.ZodType>(
+  request: Request,
+  schema: S,
+  options: { emptyAs?: unknown } = {},
+): Promise<z.output<S>> {
   return schema.parse(await readJson(request, options));
 }

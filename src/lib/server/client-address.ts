@@ -22,12 +22,17 @@ const forwardedHeaders = ['x-forwarded-proto', 'x-forwarded-host', 'x-forwarded-
  * entry it cannot read.
  */
 export function parseTrustedProxies(setting: string | undefined): string[] {
-  const entries = (setting ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  const entries = (setting ?? '')
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean);
   for (const entry of entries) {
     try {
       proxyAddr.compile(entry);
     } catch {
-      throw new Error(`"${entry}" is not an IP address, a CIDR range (e.g. 10.0.0.0/8) or one of loopback, linklocal, uniquelocal.`);
+      throw new Error(
+        `"${entry}" is not an IP address, a CIDR range (e.g. 10.0.0.0/8) or one of loopback, linklocal, uniquelocal.`,
+      );
     }
   }
   return entries;

@@ -24,7 +24,8 @@ export function endpoint(handler: (context: APIContext) => Promise<Response>): A
   return async (context) => {
     try {
       const badQuery = badQueryParameter(context.url);
-      if (badQuery) return problem(400, 'InvalidRequest', `The query parameter ${badQuery.field} ${badQuery.message}`, [badQuery]);
+      if (badQuery)
+        return problem(400, 'InvalidRequest', `The query parameter ${badQuery.field} ${badQuery.message}`, [badQuery]);
       if (Object.values(context.params).some((v) => v !== undefined && textProblem(v))) {
         return problem(404, 'NotFound', 'There is no such record.');
       }
@@ -32,8 +33,12 @@ export function endpoint(handler: (context: APIContext) => Promise<Response>): A
     } catch (err) {
       if (err instanceof HttpError) return problem(err.status, err.code, err.message, err.fields);
       if (err instanceof ZodError) {
-        return problem(400, 'InvalidRequest', 'The request has invalid fields; see "fields".',
-          err.issues.map((i) => ({ field: i.path.join('.') || '(body)', message: i.message })));
+        return problem(
+          400,
+          'InvalidRequest',
+          'The request has invalid fields; see "fields".',
+          err.issues.map((i) => ({ field: i.path.join('.') || '(body)', message: i.message })),
+        );
       }
       console.error(`[api] ${context.request.method} ${context.url.pathname} failed:`, err);
       return problem(500, 'InternalError', 'Something went wrong on our side. It has been logged; please try again.');

@@ -37,9 +37,16 @@ const envSchema = z.object({
    * IP addresses, CIDR ranges, or loopback / linklocal / uniquelocal (src/lib/server/client-address.ts).
    * Empty: the connection's own address is the client, whatever the headers say.
    */
-  TRUSTED_PROXIES: z.string().default('').superRefine((value, ctx) => {
-    try { parseTrustedProxies(value); } catch (err) { ctx.addIssue({ code: z.ZodIssueCode.custom, message: (err as Error).message }); }
-  }),
+  TRUSTED_PROXIES: z
+    .string()
+    .default('')
+    .superRefine((value, ctx) => {
+      try {
+        parseTrustedProxies(value);
+      } catch (err) {
+        ctx.addIssue({ code: z.ZodIssueCode.custom, message: (err as Error).message });
+      }
+    }),
   /** '1' is shorthand for TRUSTED_PROXIES=loopback (a proxy on this machine). */
   TRUST_PROXY: z.enum(['0', '1']).default('0'),
   SIMULATOR_TANKS: z.coerce.number().int().min(0).max(1_000_000).default(240),
@@ -61,7 +68,10 @@ const envSchema = z.object({
 });
 
 export type Env = Omit<z.infer<typeof envSchema>, 'TRUSTED_PROXIES'> & {
-  DATABASE_URL: string; MQTT_URL: string; SMTP_URL: string; S3_ENDPOINT: string;
+  DATABASE_URL: string;
+  MQTT_URL: string;
+  SMTP_URL: string;
+  S3_ENDPOINT: string;
   /** True when no real mail provider is set (SMTP_URL unset): mail goes to the local fake and is captured. */
   MAIL_CAPTURED: boolean;
   /** TRUSTED_PROXIES as a list, with loopback added by TRUST_PROXY=1. */

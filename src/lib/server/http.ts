@@ -6,7 +6,10 @@ export function json(body: unknown, status = 200, headers: Record<string, string
   });
 }
 
-export interface FieldError { field: string; message: string }
+export interface FieldError {
+  field: string;
+  message: string;
+}
 
 /** An error answer: a permanent PascalCase code, a sentence for people, and optional field details. */
 export function problem(status: number, code: string, message: string, fields?: FieldError[]): Response {

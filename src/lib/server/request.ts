@@ -1,7 +1,11 @@
 import { env } from './env';
 
 /** Facts about the incoming request that depend on whether a reverse proxy sits in front. */
-interface RequestLike { request: Request; url: URL; clientAddress?: string }
+interface RequestLike {
+  request: Request;
+  url: URL;
+  clientAddress?: string;
+}
 
 /**
  * The client's address. The web process (scripts/web-server.ts) has already replaced

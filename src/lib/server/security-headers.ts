@@ -9,7 +9,8 @@ import type { ServerResponse } from 'node:http';
 
 /** A page's directives beside the script-src and style-src that Astro writes with its hashes. */
 /** A CSP directive with its value (typed so Astro's `experimental.csp.directives` accepts it). */
-type Directive = `${'default-src' | 'connect-src' | 'font-src' | 'img-src' | 'object-src' | 'base-uri' | 'form-action' | 'frame-ancestors'} ${string}`;
+type Directive =
+  `${'default-src' | 'connect-src' | 'font-src' | 'img-src' | 'object-src' | 'base-uri' | 'form-action' | 'frame-ancestors'} ${string}`;
 
 export const pageCspDirectives: Directive[] = [
   "default-src 'self'",

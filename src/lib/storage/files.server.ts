@@ -16,7 +16,8 @@ export type Detected = 'jpeg' | 'png' | 'webp' | 'pdf' | null;
 export function sniff(bytes: Uint8Array): Detected {
   const b = Buffer.from(bytes.buffer, bytes.byteOffset, Math.min(bytes.byteLength, 16));
   if (b.length >= 3 && b[0] === 0xff && b[1] === 0xd8 && b[2] === 0xff) return 'jpeg';
-  if (b.length >= 8 && b.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))) return 'png';
+  if (b.length >= 8 && b.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])))
+    return 'png';
   if (b.length >= 12 && b.toString('latin1', 0, 4) === 'RIFF' && b.toString('latin1', 8, 12) === 'WEBP') return 'webp';
   if (b.length >= 5 && b.toString('latin1', 0, 5) === '%PDF-') return 'pdf';
   return null;
@@ -36,27 +37,57 @@ export interface PreparedFile {
 const megabytes = (n: number) => `${(n / 1024 / 1024).toFixed(1)} MB`;
 
 export function tooLarge(filename: string, bytes: number): HttpError {
-  return new HttpError(413, 'FileTooLarge', `“${filename}” is ${megabytes(bytes)}; files can be at most ${megabytes(MAX_UPLOAD_BYTES)}. Send a smaller photo, or split the document.`, [{ field: 'file', message: `At most ${megabytes(MAX_UPLOAD_BYTES)}.` }]);
+  return new HttpError(
+    413,
+    'FileTooLarge',
+    `“${filename}” is ${megabytes(bytes)}; files can be at most ${megabytes(MAX_UPLOAD_BYTES)}. Send a smaller photo, or split the document.`,
+    [{ field: 'file', message: `At most ${megabytes(MAX_UPLOAD_BYTES)}.` }],
+  );
 }
 
 /** Checks and prepares one uploaded file for storage; throws an HttpError naming the problem. */
 export async function prepareUpload(filename: string, bytes: Buffer): Promise<PreparedFile> {
   const name = filename.replace(/[\\/\u0000-\u001f]/g, '_').slice(0, 200) || 'upload';
-  if (bytes.length === 0) throw new HttpError(400, 'EmptyFile', `“${name}” is empty. Choose the photo or document again.`, [{ field: 'file', message: 'The file is empty.' }]);
+  if (bytes.length === 0)
+    throw new HttpError(400, 'EmptyFile', `“${name}” is empty. Choose the photo or document again.`, [
+      { field: 'file', message: 'The file is empty.' },
+    ]);
   if (bytes.length > MAX_UPLOAD_BYTES) throw tooLarge(name, bytes.length);
   const type = sniff(bytes);
   if (!type) {
-    throw new HttpError(415, 'UnsupportedFileType', `“${name}” is not a photo (JPEG, PNG or WebP) or a PDF document, so it was not kept. Export it as one of those and upload it again.`, [{ field: 'file', message: 'Only JPEG, PNG, WebP or PDF.' }]);
+    throw new HttpError(
+      415,
+      'UnsupportedFileType',
+      `“${name}” is not a photo (JPEG, PNG or WebP) or a PDF document, so it was not kept. Export it as one of those and upload it again.`,
+      [{ field: 'file', message: 'Only JPEG, PNG, WebP or PDF.' }],
+    );
   }
   if (type === 'pdf') {
     try {
       // pdf-lib reads leniently: a file it can load but finds no page in is damaged too.
-      const doc = await PDFDocument.load(bytes, { ignoreEncryption: true, updateMetadata: false, throwOnInvalidObject: true });
+      const doc = await PDFDocument.load(bytes, {
+        ignoreEncryption: true,
+        updateMetadata: false,
+        throwOnInvalidObject: true,
+      });
       if (doc.getPageCount() === 0) throw new Error('no pages');
     } catch {
-      throw new HttpError(422, 'CorruptDocument', `“${name}” starts like a PDF but cannot be opened (it may be damaged or incomplete). Save it again and upload the new copy.`, [{ field: 'file', message: 'The PDF cannot be opened.' }]);
+      throw new HttpError(
+        422,
+        'CorruptDocument',
+        `“${name}” starts like a PDF but cannot be opened (it may be damaged or incomplete). Save it again and upload the new copy.`,
+        [{ field: 'file', message: 'The PDF cannot be opened.' }],
+      );
     }
-    return { kind: 'document', contentType: 'application/pdf', body: bytes, width: null, height: null, downscaled: false, filename: name };
+    return {
+      kind: 'document',
+      contentType: 'application/pdf',
+      body: bytes,
+      width: null,
+      height: null,
+      downscaled: false,
+      filename: name,
+    };
   }
   try {
     const source = sharp(bytes, { failOn: 'warning' });
@@ -68,10 +99,20 @@ export async function prepareUpload(filename: string, bytes: Buffer): Promise<Pr
       .toBuffer({ resolveWithObject: true });
     const longEdge = Math.max(meta.width ?? 0, meta.height ?? 0);
     return {
-      kind: 'photo', contentType: 'image/jpeg', body: data, width: info.width, height: info.height,
-      downscaled: longEdge > MAX_IMAGE_EDGE_PX, filename: `${name.replace(/\.(jpe?g|png|webp)$/i, '')}.jpg`,
+      kind: 'photo',
+      contentType: 'image/jpeg',
+      body: data,
+      width: info.width,
+      height: info.height,
+      downscaled: longEdge > MAX_IMAGE_EDGE_PX,
+      filename: `${name.replace(/\.(jpe?g|png|webp)$/i, '')}.jpg`,
     };
   } catch {
-    throw new HttpError(422, 'CorruptImage', `“${name}” looks like a ${type.toUpperCase()} photo but cannot be read (it may be damaged or only partly sent). Take or export the photo again and upload the new copy.`, [{ field: 'file', message: 'The image cannot be read.' }]);
+    throw new HttpError(
+      422,
+      'CorruptImage',
+      `“${name}” looks like a ${type.toUpperCase()} photo but cannot be read (it may be damaged or only partly sent). Take or export the photo again and upload the new copy.`,
+      [{ field: 'file', message: 'The image cannot be read.' }],
+    );
   }
 }

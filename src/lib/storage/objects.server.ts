@@ -22,7 +22,15 @@ function s3(): S3Client {
 
 /** Stores bytes under `key` (keys start with the company id, so one company's objects never mix with another's). */
 export async function putObject(key: string, body: Buffer, contentType: string): Promise<void> {
-  await s3().send(new PutObjectCommand({ Bucket: env().S3_BUCKET, Key: key, Body: body, ContentType: contentType, ContentLength: body.length }));
+  await s3().send(
+    new PutObjectCommand({
+      Bucket: env().S3_BUCKET,
+      Key: key,
+      Body: body,
+      ContentType: contentType,
+      ContentLength: body.length,
+    }),
+  );
 }
 
 /** The bytes under `key`, or null when there is no such object. */

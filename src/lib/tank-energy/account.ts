@@ -12,7 +12,12 @@ function datesBetween(from: string, to: string): string[] {
 }
 
 /** The instant range the readings must cover for these days (one interval past the end closes the last). */
-export function readingWindow(from: string, to: string, timeZone: string, closeMs = 5 * 60_000): { startMs: number; endMs: number } {
+export function readingWindow(
+  from: string,
+  to: string,
+  timeZone: string,
+  closeMs = 5 * 60_000,
+): { startMs: number; endMs: number } {
   return { startMs: localDayBounds(from, timeZone).startMs, endMs: localDayBounds(to, timeZone).endMs + closeMs };
 }
 
@@ -21,7 +26,15 @@ export function readingWindow(from: string, to: string, timeZone: string, closeM
  * telemetry are left out, not reported as zero), and the months those days fall in. `readings`
  * sorted by time, as from {@link readingWindow}; `coldC` the home's cold water (default EN 16147's).
  */
-export function accountDays(readings: readonly EnergyReading[], tank: AccountingTank, tariffs: Tariffs, from: string, to: string, timeZone: string, coldC?: number): { days: DayEnergy[]; months: MonthEnergy[] } {
+export function accountDays(
+  readings: readonly EnergyReading[],
+  tank: AccountingTank,
+  tariffs: Tariffs,
+  from: string,
+  to: string,
+  timeZone: string,
+  coldC?: number,
+): { days: DayEnergy[]; months: MonthEnergy[] } {
   const days: DayEnergy[] = [];
   let i = 0;
   for (const date of datesBetween(from, to)) {
@@ -31,7 +44,8 @@ export function accountDays(readings: readonly EnergyReading[], tank: Accounting
     while (j < readings.length && readings[j]!.ts < endMs) j++;
     // The first reading after the day closes its last interval.
     const slice = readings.slice(i, Math.min(j + 1, readings.length));
-    if (slice.length >= 2 && localDate(slice[0]!.ts, timeZone) === date) days.push(accountDay(slice, tank, tariffs, { startMs, endMs, date, ...(coldC === undefined ? {} : { coldC }) }));
+    if (slice.length >= 2 && localDate(slice[0]!.ts, timeZone) === date)
+      days.push(accountDay(slice, tank, tariffs, { startMs, endMs, date, ...(coldC === undefined ? {} : { coldC }) }));
     i = j;
   }
   return { days, months: rollUpMonths(days) };

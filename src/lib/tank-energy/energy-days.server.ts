@@ -4,7 +4,12 @@
 // endpoint accounts it (accountDays on the same readings and tariffs).
 import { localDate, localDayBounds } from '../energy';
 import {
-  energyReadingsIn, energyTanksById, pruneEnergyDays, saveEnergyDay, tariffsOfCompanies, withDirtyEnergyHours,
+  energyReadingsIn,
+  energyTanksById,
+  pruneEnergyDays,
+  saveEnergyDay,
+  tariffsOfCompanies,
+  withDirtyEnergyHours,
 } from '../../db/queries/energy-days';
 import { accountDays, readingWindow } from './account';
 import { HOME_TIME_ZONE } from './contracts';
@@ -26,7 +31,9 @@ function datesOf(hourMs: number, timeZone: string): string[] {
  * homes) in one transaction. Returns how many hours it took off the queue and how many tank-days
  * it wrote; `{ hours: 0 }` when nothing was due.
  */
-export async function refreshEnergyDays(opts: { limit?: number; nowMs?: number } = {}): Promise<{ hours: number; days: number }> {
+export async function refreshEnergyDays(
+  opts: { limit?: number; nowMs?: number } = {},
+): Promise<{ hours: number; days: number }> {
   const nowMs = opts.nowMs ?? Date.now();
   const today = localDate(nowMs, HOME_TIME_ZONE);
   const cutoffMs = localDayBounds(today, HOME_TIME_ZONE).startMs;
@@ -47,7 +54,15 @@ export async function refreshEnergyDays(opts: { limit?: number; nowMs?: number }
       for (const date of [...days.get(tank.id)!].sort()) {
         const w = readingWindow(date, date, HOME_TIME_ZONE);
         const rows = await energyReadingsIn(tx, tank.id, w.startMs, w.endMs);
-        const { days: accounted } = accountDays(energyReadings(rows, tank), accountingTank(tank), priced, date, date, HOME_TIME_ZONE, tankColdC(tank));
+        const { days: accounted } = accountDays(
+          energyReadings(rows, tank),
+          accountingTank(tank),
+          priced,
+          date,
+          date,
+          HOME_TIME_ZONE,
+          tankColdC(tank),
+        );
         await saveEnergyDay(tx, tank, date, accounted[0] ?? null);
         written++;
       }

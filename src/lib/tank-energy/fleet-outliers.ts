@@ -31,7 +31,14 @@ export const outlierRule = {
 export type OutlierMetric = 'cost_per_100l' | 'dhw_cop';
 
 /** A figure's spread across the fleet and its fences; null where too few homes have the figure. */
-export interface Fence { homes: number; q1: number; median: number; q3: number; low: number; high: number }
+export interface Fence {
+  homes: number;
+  q1: number;
+  median: number;
+  q3: number;
+  low: number;
+  high: number;
+}
 
 export function fence(homes: number, q: readonly [number, number, number] | null, k = outlierRule.k): Fence | null {
   if (!q || homes < outlierRule.minHomes) return null;

@@ -1,21 +1,39 @@
 // What the energy core is given about a stored tank: its readings in core units and a model spec.
 // Pure: no I/O.
 import type { AccountingTank, EnergyReading } from '../energy';
-import { coldWaterC, figuresOverTime, layerThicknesses, sensorPositions, type TankGeometry, type TankSpec } from '../thermal';
+import {
+  coldWaterC,
+  figuresOverTime,
+  layerThicknesses,
+  sensorPositions,
+  type TankGeometry,
+  type TankSpec,
+} from '../thermal';
 import { capabilities, hasMainSource } from '../heat-sources';
 
 /** What the planner and the accounting need of a tank row. */
 export interface EnergyTankFacts {
-  volumeL: number; heightM: number; sensorCount: number;
-  heatSource: TankSpec['heatSource']; hpOutputW: number; immersionW: number;
-  declaredLossW: number | null; targetC: number;
+  volumeL: number;
+  heightM: number;
+  sensorCount: number;
+  heatSource: TankSpec['heatSource'];
+  hpOutputW: number;
+  immersionW: number;
+  declaredLossW: number | null;
+  targetC: number;
   /** Sensor heights, metres (null: evenly spaced); the home's cold inlet, °C (null: EN 16147's 10 °C). */
-  sensorHeightsM?: readonly number[] | null; coldInletC?: number | null;
+  sensorHeightsM?: readonly number[] | null;
+  coldInletC?: number | null;
 }
 
 /** The thermal core's geometry of a tank row, for its figures. */
 export const figureGeometry = (t: EnergyTankFacts): TankGeometry => ({
-  volumeL: t.volumeL, heightM: t.heightM, sensorCount: t.sensorCount, sensorHeightsM: t.sensorHeightsM ?? null, targetC: t.targetC, coldInletC: t.coldInletC ?? null,
+  volumeL: t.volumeL,
+  heightM: t.heightM,
+  sensorCount: t.sensorCount,
+  sensorHeightsM: t.sensorHeightsM ?? null,
+  targetC: t.targetC,
+  coldInletC: t.coldInletC ?? null,
 });
 
 /** The cold water a tank's energy counts from, °C. */
@@ -23,8 +41,12 @@ export const tankColdC = (t: EnergyTankFacts): number => coldWaterC(t);
 
 /** One stored reading: centi-degrees, decilitres per minute (as src/db/schema/telemetry.ts keeps them). */
 export interface StoredReading {
-  ts: Date; layersCc: (number | null)[]; compressor: boolean | null;
-  immersionW: number | null; powerW: number | null; drawDlpm: number | null;
+  ts: Date;
+  layersCc: (number | null)[];
+  compressor: boolean | null;
+  immersionW: number | null;
+  powerW: number | null;
+  drawDlpm: number | null;
   /** Solar power beyond the household's use, before diversion, W (null: the tank does not report it). */
   solarSurplusW: number | null;
 }
@@ -43,7 +65,10 @@ const DECLARED_LOSS_DELTA_K = 45;
  * it becomes a gap rather than a guess.
  */
 export function energyReadings(rows: readonly StoredReading[], tank: EnergyTankFacts): EnergyReading[] {
-  const figures = figuresOverTime(rows.map((r) => ({ t: r.ts.getTime(), layersC: r.layersCc.map((c) => (c === null ? null : c / 100)) })), figureGeometry(tank));
+  const figures = figuresOverTime(
+    rows.map((r) => ({ t: r.ts.getTime(), layersC: r.layersCc.map((c) => (c === null ? null : c / 100)) })),
+    figureGeometry(tank),
+  );
   const out: EnergyReading[] = [];
   rows.forEach((r, i) => {
     const column = figures[i]?.layersC;
@@ -64,15 +89,26 @@ function uaWPerK(t: Pick<EnergyTankFacts, 'declaredLossW'>): number {
 }
 
 export function accountingTank(t: EnergyTankFacts): AccountingTank {
-  return { volumeL: t.volumeL, uaWPerK: uaWPerK(t), ambientC: AMBIENT_C, heightsM: layerThicknesses(sensorPositions(t.sensorCount, t.heightM, t.sensorHeightsM), t.heightM) };
+  return {
+    volumeL: t.volumeL,
+    uaWPerK: uaWPerK(t),
+    ambientC: AMBIENT_C,
+    heightsM: layerThicknesses(sensorPositions(t.sensorCount, t.heightM, t.sensorHeightsM), t.heightM),
+  };
 }
 
 /** The thermal-core model of a stored tank (immersion heights as the fleet simulator fits them). */
 export function tankSpec(t: EnergyTankFacts): TankSpec {
   const immersionOnly = capabilities(t.heatSource).immersion === 'only';
   return {
-    volumeL: t.volumeL, sensorCount: t.sensorCount, heightM: t.heightM, ambientC: AMBIENT_C, uaWPerK: uaWPerK(t),
-    heatSource: t.heatSource, hpOutputW: hasMainSource(t.heatSource) ? t.hpOutputW : 0, immersionW: t.immersionW,
+    volumeL: t.volumeL,
+    sensorCount: t.sensorCount,
+    heightM: t.heightM,
+    ambientC: AMBIENT_C,
+    uaWPerK: uaWPerK(t),
+    heatSource: t.heatSource,
+    hpOutputW: hasMainSource(t.heatSource) ? t.hpOutputW : 0,
+    immersionW: t.immersionW,
     immersionHeightFrac: immersionOnly ? 0.15 : 0.55,
   };
 }

@@ -19,17 +19,30 @@ export interface PlanFacts {
   compressor: { running: boolean; lastStartMs: number | null };
   /** The home's recent readings, for demand by hour of week. */ history: readonly EnergyReading[];
   tariffs: Tariffs;
-  nowMs: number; hours: number; comfortFloorL40: number; timeZone: string;
+  nowMs: number;
+  hours: number;
+  comfortFloorL40: number;
+  timeZone: string;
 }
 
 /** A refusal of a planning request that names the field at fault. */
 export class PlanRefusal extends Error {
-  constructor(readonly code: string, readonly field: string, message: string) { super(message); }
+  constructor(
+    readonly code: string,
+    readonly field: string,
+    message: string,
+  ) {
+    super(message);
+  }
 }
 
 export function planInput(f: PlanFacts): ChargePlanInput {
   if (!capabilities(f.tank.heatSource).electricMain) {
-    throw new PlanRefusal('NotElectricallyHeated', 'heatSource', 'A boiler heats this cylinder on its own programmer. A charge plan schedules heat-pump and immersion electricity against the tariff, so there is nothing here to plan.');
+    throw new PlanRefusal(
+      'NotElectricallyHeated',
+      'heatSource',
+      'A boiler heats this cylinder on its own programmer. A charge plan schedules heat-pump and immersion electricity against the tariff, so there is nothing here to plan.',
+    );
   }
   const spec = tankSpec(f.tank);
   // The home's cold inlet where the company set one, else EN 16147's 10 °C (thermal `coldWaterC`).
@@ -40,29 +53,61 @@ export function planInput(f: PlanFacts): ChargePlanInput {
   const hpTopC = Math.min(f.tank.targetC, 65);
   const most = v40Curve(spec, coldC, capabilities(spec.heatSource).immersion === 'only' ? 65 : hpTopC).litres40.at(-1)!;
   if (f.comfortFloorL40 > most) {
-    throw new PlanRefusal('FloorAboveCapacity', 'comfortFloorL40', `comfortFloorL40 is ${f.comfortFloorL40} L, but this ${f.tank.volumeL} L cylinder holds at most about ${Math.floor(most)} L at 40 °C when full at ${hpTopC} °C. Choose a lower floor.`);
+    throw new PlanRefusal(
+      'FloorAboveCapacity',
+      'comfortFloorL40',
+      `comfortFloorL40 is ${f.comfortFloorL40} L, but this ${f.tank.volumeL} L cylinder holds at most about ${Math.floor(most)} L at 40 °C when full at ${hpTopC} °C. Choose a lower floor.`,
+    );
   }
   let importPence: number[];
   try {
     importPence = importPriceSeries(f.tariffs, startMs, steps);
   } catch (cause) {
-    throw new PlanRefusal('NoTariffInForce', 'tariff', `${(cause as Error).message} The plan needs a price for every half hour of the next ${f.hours} hours.`);
+    throw new PlanRefusal(
+      'NoTariffInForce',
+      'tariff',
+      `${(cause as Error).message} The plan needs a price for every half hour of the next ${f.hours} hours.`,
+    );
   }
-  const demand = demandSeries(learnDemand(f.history, { occupants: f.tank.occupants ?? 2, timeZone: f.timeZone, coldC }), startMs, steps);
+  const demand = demandSeries(
+    learnDemand(f.history, { occupants: f.tank.occupants ?? 2, timeZone: f.timeZone, coldC }),
+    startMs,
+    steps,
+  );
   return {
-    spec, state: createTank(spec, f.layersC), startMs, stepMin: 30, importPence, demandLitres40: demand,
-    comfortFloorL40: f.comfortFloorL40, cop: estimatedCop({ sinkC: hpTopC, sourceC: PLAN_SOURCE_C }), coldC,
-    limits: { hpTopC }, compressor: f.compressor,
+    spec,
+    state: createTank(spec, f.layersC),
+    startMs,
+    stepMin: 30,
+    importPence,
+    demandLitres40: demand,
+    comfortFloorL40: f.comfortFloorL40,
+    cop: estimatedCop({ sinkC: hpTopC, sourceC: PLAN_SOURCE_C }),
+    coldC,
+    limits: { hpTopC },
+    compressor: f.compressor,
   };
 }
 
-export function shapePlan(input: ChargePlanInput, plan: ChargePlan, timeZone: string, tariffSource: 'home' | 'company'): PlanResponse {
+export function shapePlan(
+  input: ChargePlanInput,
+  plan: ChargePlan,
+  timeZone: string,
+  tariffSource: 'home' | 'company',
+): PlanResponse {
   return {
-    startMs: input.startMs, stepMin: input.stepMin ?? 30, comfortFloorL40: input.comfortFloorL40,
-    steps: plan.steps, baselineV40: plan.baseline.expectedV40, schedule: plan.schedule,
+    startMs: input.startMs,
+    stepMin: input.stepMin ?? 30,
+    comfortFloorL40: input.comfortFloorL40,
+    steps: plan.steps,
+    baselineV40: plan.baseline.expectedV40,
+    schedule: plan.schedule,
     windows: scheduleWindows(plan.schedule, input.startMs, timeZone),
-    costPence: plan.costPence, baselineCostPence: plan.baseline.costPence, savingsPence: plan.savingsPence,
-    floorMet: plan.floorMet, tariffSource,
+    costPence: plan.costPence,
+    baselineCostPence: plan.baseline.costPence,
+    savingsPence: plan.savingsPence,
+    floorMet: plan.floorMet,
+    tariffSource,
   };
 }
 

@@ -25,7 +25,14 @@ export function fmtMoney(pence: number): string {
 }
 
 /** Columns of the plan chart: step starts, price, planned heating, expected V40 of plan and fixed schedule, floor. */
-export function planColumns(plan: PlanResponse): { t: number[]; price: number[]; v40: number[]; baselineV40: number[]; floor: number[]; heating: (number | null)[] } {
+export function planColumns(plan: PlanResponse): {
+  t: number[];
+  price: number[];
+  v40: number[];
+  baselineV40: number[];
+  floor: number[];
+  heating: (number | null)[];
+} {
   const t = plan.steps.map((s) => s.startMs);
   return {
     t,

@@ -10,14 +10,19 @@ import type { CommandWindow } from '../energy';
 const MAX_SCHEDULE_WINDOWS = 6;
 const DAY_MIN = 24 * 60;
 
-const hhmm = (m: number): string => `${String(Math.floor(m / 60) % 24).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
+const hhmm = (m: number): string =>
+  `${String(Math.floor(m / 60) % 24).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
 
 /**
  * Daily windows `{ from, to }` (local HH:MM, `to` exclusive, may wrap past midnight) from the plan's
  * windows that start within 24 h of `startMs`. An empty list means "heat at any time" to the tank,
  * so a plan that heats all day answers [], and a plan that never heats answers null (nothing to send).
  */
-export function scheduleWindows(windows: readonly CommandWindow[], startMs: number, timeZone: string): { from: string; to: string }[] | null {
+export function scheduleWindows(
+  windows: readonly CommandWindow[],
+  startMs: number,
+  timeZone: string,
+): { from: string; to: string }[] | null {
   const endMs = startMs + DAY_MIN * 60_000;
   // Intervals in minutes after startMs, clipped to the first day, merged across sources.
   const spans = windows
@@ -39,7 +44,8 @@ export function scheduleWindows(windows: readonly CommandWindow[], startMs: numb
   }
   while (merged.length > MAX_SCHEDULE_WINDOWS) {
     let best = 0;
-    for (let k = 1; k + 1 < merged.length; k++) if (merged[k + 1]![0] - merged[k]![1] < merged[best + 1]![0] - merged[best]![1]) best = k;
+    for (let k = 1; k + 1 < merged.length; k++)
+      if (merged[k + 1]![0] - merged[k]![1] < merged[best + 1]![0] - merged[best]![1]) best = k;
     merged[best]![1] = merged[best + 1]![1];
     merged.splice(best + 1, 1);
   }

@@ -13,7 +13,11 @@ export function clientIdAllowed(p: Principal, clientId: string): boolean {
 export function mayPublish(p: Principal, topic: string): boolean {
   if (p.kind === 'service') return topic.startsWith('heatlayer/v1/');
   const t = parseTopic(topic);
-  return t !== null && t.serial === p.serial && (t.channel === 'telemetry' || t.channel === 'status' || t.channel === 'replies');
+  return (
+    t !== null &&
+    t.serial === p.serial &&
+    (t.channel === 'telemetry' || t.channel === 'status' || t.channel === 'replies')
+  );
 }
 
 export function maySubscribe(p: Principal, filter: string): boolean {

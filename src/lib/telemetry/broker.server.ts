@@ -64,11 +64,13 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
         if (username === SERVICE_USERNAME) {
           if (pass !== opts.servicePassword) return done(authError('Bad service credentials.', 4), false);
           const p: Principal = { kind: 'service' };
-          if (!clientIdAllowed(p, client.id)) return done(authError('Service client ids start with heatlayer-.', 5), false);
+          if (!clientIdAllowed(p, client.id))
+            return done(authError('Service client ids start with heatlayer-.', 5), false);
           principals.set(client, p);
           return done(null, true);
         }
-        if (!username || !looksLikeSerial(username)) return done(authError('The username must be the tank serial.', 4), false);
+        if (!username || !looksLikeSerial(username))
+          return done(authError('The username must be the tank serial.', 4), false);
         let hash: string | null;
         try {
           hash = await opts.lookupTokenHash(username);
@@ -77,9 +79,14 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
           return done(authError('Credentials cannot be checked right now.', 3), false);
         }
         if (!tokenMatches(pass, hash)) return done(authError('Bad serial or device token.', 4), false);
-        if (!ingestSubscribed) return done(authError('The ingest side is not subscribed yet; try again shortly.', 3), false);
+        if (!ingestSubscribed)
+          return done(authError('The ingest side is not subscribed yet; try again shortly.', 3), false);
         const p: Principal = { kind: 'device', serial: username };
-        if (!clientIdAllowed(p, client.id)) return done(authError(`The client id must be the serial (${username}) or start with "${username}-".`, 5), false);
+        if (!clientIdAllowed(p, client.id))
+          return done(
+            authError(`The client id must be the serial (${username}) or start with "${username}-".`, 5),
+            false,
+          );
         principals.set(client, p);
         await takeOver(client, username);
         done(null, true);
@@ -101,7 +108,8 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
         log(`[broker] refused: ${client?.id ?? '?'} may not subscribe to ${sub.topic}`);
         return done(null, null); // SUBACK failure code for this filter
       }
-      if (p.kind === 'service' && sub.topic === ingestFilters.telemetry && sub.qos > 0 && !client!.clean) ingestSubscribed = true;
+      if (p.kind === 'service' && sub.topic === ingestFilters.telemetry && sub.qos > 0 && !client!.clean)
+        ingestSubscribed = true;
       done(null, sub);
     },
   });
@@ -109,7 +117,10 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
   // Public at run time, missing from aedes' type definitions.
   const internals = aedes as unknown as {
     clients: Record<string, Client>;
-    persistence: { outgoingStream(c: { id: string }): AsyncIterable<unknown>; cleanSubscriptions(c: { id: string }): Promise<void> };
+    persistence: {
+      outgoingStream(c: { id: string }): AsyncIterable<unknown>;
+      cleanSubscriptions(c: { id: string }): Promise<void>;
+    };
   };
 
   /**
@@ -121,7 +132,13 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
    * rebooted tank out until its old connection's keep-alive ran out.
    */
   async function takeOver(newcomer: Client, serial: string): Promise<void> {
-    const others = Object.values(internals.clients).filter((c) => c !== newcomer && c.id !== newcomer.id && principals.get(c)?.kind === 'device' && (principals.get(c) as { serial: string }).serial === serial);
+    const others = Object.values(internals.clients).filter(
+      (c) =>
+        c !== newcomer &&
+        c.id !== newcomer.id &&
+        principals.get(c)?.kind === 'device' &&
+        (principals.get(c) as { serial: string }).serial === serial,
+    );
     for (const old of others) {
       log(`[broker] ${serial} logged in again as ${newcomer.id}; closing its connection as ${old.id}`);
       await new Promise<void>((resolve) => old.close(() => resolve()));
@@ -130,14 +147,18 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
   }
 
   // Token rotation: end the sessions that logged in with the old token.
-  aedes.subscribe(CREDENTIALS_ROTATED_TOPIC, (packet, cb) => {
-    const serial = packet.payload.toString('utf8');
-    for (const c of Object.values(internals.clients)) {
-      const p = principals.get(c);
-      if (p?.kind === 'device' && p.serial === serial) c.close();
-    }
-    cb();
-  }, () => undefined);
+  aedes.subscribe(
+    CREDENTIALS_ROTATED_TOPIC,
+    (packet, cb) => {
+      const serial = packet.payload.toString('utf8');
+      for (const c of Object.values(internals.clients)) {
+        const p = principals.get(c);
+        if (p?.kind === 'device' && p.serial === serial) c.close();
+      }
+      cb();
+    },
+    () => undefined,
+  );
 
   const maxPacketBytes = opts.maxPacketBytes ?? limits.maxPacketBytes;
   const server = createServer((socket) => {
@@ -149,7 +170,9 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
     socket.on('data', (chunk: Buffer) => {
       const size = guard.push(chunk);
       if (size === null) return;
-      log(`[broker] closed ${socket.remoteAddress ?? '?'}:${socket.remotePort ?? '?'}: a packet of ${size} bytes (at most ${maxPacketBytes})`);
+      log(
+        `[broker] closed ${socket.remoteAddress ?? '?'}:${socket.remotePort ?? '?'}: a packet of ${size} bytes (at most ${maxPacketBytes})`,
+      );
       socket.destroy();
     });
   });
@@ -166,7 +189,9 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
   }
 
   return {
-    aedes, server, port,
+    aedes,
+    server,
+    port,
     async close({ drainMs = 10_000, drainClientIds = [INGEST_CLIENT_ID] } = {}) {
       const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       for (const c of Object.values(internals.clients)) if (principals.get(c)?.kind === 'device') c.close();
@@ -176,7 +201,10 @@ export async function startBroker(opts: BrokerOptions): Promise<TelemetryBroker>
         await new Promise((r) => setTimeout(r, 50));
         left = await undelivered(drainClientIds);
       }
-      if (left > 0) log(`[broker] closing with ${left} messages the ingest worker has not acknowledged (they are lost with this in-memory broker)`);
+      if (left > 0)
+        log(
+          `[broker] closing with ${left} messages the ingest worker has not acknowledged (they are lost with this in-memory broker)`,
+        );
       await new Promise<void>((resolve) => aedes.close(() => resolve()));
       await closed;
       return { undelivered: left };

@@ -45,6 +45,9 @@ export const SERVICE_USERNAME = '_heatlayer-service';
 /** Password of the service account, derived from AUTH_SECRET unless MQTT_SERVICE_PASSWORD is set. */
 export function servicePassword(env: { AUTH_SECRET?: string; MQTT_SERVICE_PASSWORD?: string }): string {
   if (env.MQTT_SERVICE_PASSWORD) return env.MQTT_SERVICE_PASSWORD;
-  if (!env.AUTH_SECRET) throw new Error('Neither MQTT_SERVICE_PASSWORD nor AUTH_SECRET is set: the broker service account has no password. Start the product with `npm start`, or set one of them.');
+  if (!env.AUTH_SECRET)
+    throw new Error(
+      'Neither MQTT_SERVICE_PASSWORD nor AUTH_SECRET is set: the broker service account has no password. Start the product with `npm start`, or set one of them.',
+    );
   return createHmac('sha256', env.AUTH_SECRET).update('heatlayer mqtt service account').digest('base64url');
 }

@@ -63,8 +63,14 @@ function topCc(r: Reading): number | null {
 }
 
 const toRecord = (kind: EventKind, run: OpenRun, endedAt: number | null, complete: boolean): EventRecord => ({
-  kind, startedAt: run.startedAt, endedAt, energyWh: run.energyWh, litres: run.litres,
-  startTopCc: run.startTopCc, endTopCc: run.endTopCc, complete,
+  kind,
+  startedAt: run.startedAt,
+  endedAt,
+  energyWh: run.energyWh,
+  litres: run.litres,
+  startTopCc: run.startTopCc,
+  endTopCc: run.endTopCc,
+  complete,
 });
 
 /**
@@ -76,7 +82,10 @@ const toRecord = (kind: EventKind, run: OpenRun, endedAt: number | null, complet
  * flow in a reading are averages over the interval since the previous one, so energy and litres
  * accumulate value × interval (an interval is capped at MAX_GAP_MS).
  */
-export function deriveEvents(state: DeriveState, readings: readonly Reading[]): { state: DeriveState; events: EventRecord[] } {
+export function deriveEvents(
+  state: DeriveState,
+  readings: readonly Reading[],
+): { state: DeriveState; events: EventRecord[] } {
   const open: Partial<Record<EventKind, OpenRun>> = {};
   for (const k of eventKinds) if (state.open[k]) open[k] = { ...state.open[k]! };
   let lastTs = state.lastTs;
@@ -85,13 +94,18 @@ export function deriveEvents(state: DeriveState, readings: readonly Reading[]): 
 
   for (const r of readings) {
     if (lastTs !== null && r.ts <= lastTs) {
-      throw new Error(`deriveEvents needs readings newer than the state (${new Date(r.ts).toISOString()} is not after ${new Date(lastTs).toISOString()}).`);
+      throw new Error(
+        `deriveEvents needs readings newer than the state (${new Date(r.ts).toISOString()} is not after ${new Date(lastTs).toISOString()}).`,
+      );
     }
     const gap = lastTs === null ? null : r.ts - lastTs;
     if (gap !== null && gap > MAX_GAP_MS) {
       for (const k of eventKinds) {
         const run = open[k];
-        if (run) { touch(toRecord(k, run, run.lastTs, false)); delete open[k]; }
+        if (run) {
+          touch(toRecord(k, run, run.lastTs, false));
+          delete open[k];
+        }
       }
     }
     const dtH = gap === null ? 0 : Math.min(gap, MAX_GAP_MS) / 3_600_000;

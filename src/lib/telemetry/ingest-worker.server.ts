@@ -15,9 +15,17 @@ import { recordTankStatus } from '../../db/queries/telemetry';
 import { recordCommandReply } from '../../db/queries/commands';
 import { MqttConsumer, type InboundMessage } from './mqtt-consumer';
 import { TankDirectory } from './tank-directory.server';
-import { INGEST_CLIENT_ID, INGEST_STATUS_TOPIC, commandReplySchema, ingestFilters, parseTelemetry, parseTopic, zodFieldErrors, type RejectedReading } from './wire';
+import {
+  INGEST_CLIENT_ID,
+  INGEST_STATUS_TOPIC,
+  commandReplySchema,
+  ingestFilters,
+  parseTelemetry,
+  parseTopic,
+  zodFieldErrors,
+  type RejectedReading,
+} from './wire';
 import { TelemetryWriter, type IngestItem } from './writer.server';
-
 
 export interface IngestWorkerOptions {
   mqttUrl: string;
@@ -38,9 +46,21 @@ export interface IngestWorkerOptions {
   log?: (line: string) => void;
 }
 
-interface Pending { msg: InboundMessage; receivedAt: number }
+interface Pending {
+  msg: InboundMessage;
+  receivedAt: number;
+}
 
-export interface CommittedInfo { messages: number; readings: number; inserted: number; duplicates: number; deadLetters: number; ms: number; topics: string[]; payloads: Buffer[] }
+export interface CommittedInfo {
+  messages: number;
+  readings: number;
+  inserted: number;
+  duplicates: number;
+  deadLetters: number;
+  ms: number;
+  topics: string[];
+  payloads: Buffer[];
+}
 
 export class IngestWorker extends EventEmitter {
   readonly stats = { messages: 0, inserted: 0, duplicates: 0, deadLetters: 0, batches: 0, retries: 0 };
@@ -59,19 +79,29 @@ export class IngestWorker extends EventEmitter {
   constructor(opts: IngestWorkerOptions) {
     super();
     this.o = {
-      clientId: INGEST_CLIENT_ID, batchMaxReadings: 2000, batchMaxWaitMs: 50, bufferMaxMessages: 20_000, bufferMaxBytes: 64 * 1024 * 1024,
-      log: (line) => console.log(line), ...opts,
+      clientId: INGEST_CLIENT_ID,
+      batchMaxReadings: 2000,
+      batchMaxWaitMs: 50,
+      bufferMaxMessages: 20_000,
+      bufferMaxBytes: 64 * 1024 * 1024,
+      log: (line) => console.log(line),
+      ...opts,
     } as typeof this.o;
     this.writer = new TelemetryWriter(opts.pool);
     this.directory = opts.directory ?? new TankDirectory();
     this.consumer = new MqttConsumer({
-      url: opts.mqttUrl, clientId: this.o.clientId, username: opts.username, password: opts.password,
+      url: opts.mqttUrl,
+      clientId: this.o.clientId,
+      username: opts.username,
+      password: opts.password,
       filters: [ingestFilters.telemetry, ingestFilters.status, ingestFilters.replies],
       will: { topic: INGEST_STATUS_TOPIC, payload: 'offline', retain: true },
       onMessage: (m) => this.receive(m),
       onReady: ({ sessionPresent }) => {
         this.consumer.publish(INGEST_STATUS_TOPIC, 'online', true);
-        this.o.log(`[ingest] subscribed to ${this.o.mqttUrl} (${sessionPresent ? 'resumed' : 'new'} persistent session)`);
+        this.o.log(
+          `[ingest] subscribed to ${this.o.mqttUrl} (${sessionPresent ? 'resumed' : 'new'} persistent session)`,
+        );
         this.emit('ready');
       },
       onDisconnect: (reason) => this.dropUnacknowledged(reason),
@@ -111,17 +141,26 @@ export class IngestWorker extends EventEmitter {
     this.queuedBytes += msg.payload.length;
     if (this.full()) this.consumer.pause();
     if (this.queuedReadings >= this.o.batchMaxReadings) void this.flush();
-    else if (!this.timer) this.timer = setTimeout(() => { this.timer = null; void this.flush(); }, this.o.batchMaxWaitMs);
+    else if (!this.timer)
+      this.timer = setTimeout(() => {
+        this.timer = null;
+        void this.flush();
+      }, this.o.batchMaxWaitMs);
   }
 
   private full(fraction = 1): boolean {
-    return this.queue.length >= this.o.bufferMaxMessages * fraction || this.queuedBytes >= this.o.bufferMaxBytes * fraction;
+    return (
+      this.queue.length >= this.o.bufferMaxMessages * fraction || this.queuedBytes >= this.o.bufferMaxBytes * fraction
+    );
   }
 
   /** The connection is gone: its messages will be redelivered, so forget them (never ack on a new connection). */
   private dropUnacknowledged(reason: string): void {
     this.epoch++;
-    if (this.queue.length) this.o.log(`[ingest] connection lost (${reason}); ${this.queue.length} unacknowledged messages will be redelivered`);
+    if (this.queue.length)
+      this.o.log(
+        `[ingest] connection lost (${reason}); ${this.queue.length} unacknowledged messages will be redelivered`,
+      );
     this.queue = [];
     this.queuedReadings = 0;
     this.queuedBytes = 0;
@@ -131,7 +170,10 @@ export class IngestWorker extends EventEmitter {
   private async flush(): Promise<void> {
     if (this.flushing || this.queue.length === 0) return;
     this.flushing = true;
-    if (this.timer) { clearTimeout(this.timer); this.timer = null; }
+    if (this.timer) {
+      clearTimeout(this.timer);
+      this.timer = null;
+    }
     const epoch = this.epoch;
     // Take up to one batch worth of messages.
     let take = 0;
@@ -154,11 +196,19 @@ export class IngestWorker extends EventEmitter {
           this.queuedReadings = Math.max(0, this.queuedReadings - est);
           this.queuedBytes = Math.max(0, this.queuedBytes - batch.reduce((n, p) => n + p.msg.payload.length, 0));
           this.stats.batches++;
-          this.emit('committed', { ...info, ms: performance.now() - started, messages: batch.length, topics: batch.map((p) => p.msg.topic), payloads: batch.map((p) => p.msg.payload) } satisfies CommittedInfo);
+          this.emit('committed', {
+            ...info,
+            ms: performance.now() - started,
+            messages: batch.length,
+            topics: batch.map((p) => p.msg.topic),
+            payloads: batch.map((p) => p.msg.payload),
+          } satisfies CommittedInfo);
           break;
         } catch (err) {
           this.stats.retries++;
-          this.o.log(`[ingest] batch of ${batch.length} messages not stored (${err instanceof Error ? err.message : String(err)}); nothing acknowledged, retrying in ${delay} ms`);
+          this.o.log(
+            `[ingest] batch of ${batch.length} messages not stored (${err instanceof Error ? err.message : String(err)}); nothing acknowledged, retrying in ${delay} ms`,
+          );
           await new Promise((r) => setTimeout(r, delay));
           delay = Math.min(delay * 2, 5000);
         }
@@ -168,7 +218,11 @@ export class IngestWorker extends EventEmitter {
       if (!this.full(0.5)) this.consumer.resume();
       if (this.queue.length > 0 && !this.stopped) {
         if (this.queuedReadings >= this.o.batchMaxReadings || epoch !== this.epoch) void this.flush();
-        else if (!this.timer) this.timer = setTimeout(() => { this.timer = null; void this.flush(); }, this.o.batchMaxWaitMs);
+        else if (!this.timer)
+          this.timer = setTimeout(() => {
+            this.timer = null;
+            void this.flush();
+          }, this.o.batchMaxWaitMs);
       }
     }
   }
@@ -185,19 +239,40 @@ export class IngestWorker extends EventEmitter {
       const t = parseTopic(msg.topic);
       const tank = t ? await this.directory.bySerialCached(t.serial) : null;
       if (!t || !tank) {
-        dead.push({ tankId: null, serial: t?.serial ?? null, transport: 'mqtt', topic: msg.topic, reasonCode: 'UnknownTank',
-          reason: t ? `No tank with serial ${t.serial} is registered.` : 'The topic is not a Heatlayer tank topic.', fields: [], payload: msg.payload });
+        dead.push({
+          tankId: null,
+          serial: t?.serial ?? null,
+          transport: 'mqtt',
+          topic: msg.topic,
+          reasonCode: 'UnknownTank',
+          reason: t ? `No tank with serial ${t.serial} is registered.` : 'The topic is not a Heatlayer tank topic.',
+          fields: [],
+          payload: msg.payload,
+        });
         continue;
       }
       if (t.channel === 'status') {
         const s = msg.payload.toString('utf8').trim();
-        if (s === 'online' || s === 'offline') statuses.push({ tank, online: s === 'online', at: new Date(receivedAt) });
-        else dead.push(deadLetter(tank, msg, 'InvalidStatus', 'A status must be "online" or "offline".', [{ field: '(body)', message: 'must be online or offline.' }]));
+        if (s === 'online' || s === 'offline')
+          statuses.push({ tank, online: s === 'online', at: new Date(receivedAt) });
+        else
+          dead.push(
+            deadLetter(tank, msg, 'InvalidStatus', 'A status must be "online" or "offline".', [
+              { field: '(body)', message: 'must be online or offline.' },
+            ]),
+          );
         continue;
       }
-      if (t.channel === 'replies') { replies.push({ tank, payload: msg.payload, topic: msg.topic, at: new Date(receivedAt) }); continue; }
+      if (t.channel === 'replies') {
+        replies.push({ tank, payload: msg.payload, topic: msg.topic, at: new Date(receivedAt) });
+        continue;
+      }
       if (t.channel !== 'telemetry') continue;
-      const parsed = parseTelemetry(msg.payload, { now, tank: { serial: tank.serial, sensorCount: tank.sensorCount }, retentionDays: this.o.retentionDays });
+      const parsed = parseTelemetry(msg.payload, {
+        now,
+        tank: { serial: tank.serial, sensorCount: tank.sensorCount },
+        retentionDays: this.o.retentionDays,
+      });
       if (!parsed.ok) {
         dead.push(deadLetter(tank, msg, parsed.code, parsed.reason, parsed.fields));
         continue;
@@ -209,13 +284,33 @@ export class IngestWorker extends EventEmitter {
     const replyUpdates: { tank: IngestTank; reply: ReturnType<typeof commandReplySchema.parse>; at: Date }[] = [];
     for (const r of replies) {
       let body: unknown;
-      try { body = JSON.parse(r.payload.toString('utf8')); } catch {
-        dead.push({ tankId: r.tank.id, serial: r.tank.serial, transport: 'mqtt', topic: r.topic, reasonCode: 'InvalidJson', reason: 'The command reply is not valid JSON.', fields: [{ field: '(body)', message: 'must be valid JSON.' }], payload: r.payload });
+      try {
+        body = JSON.parse(r.payload.toString('utf8'));
+      } catch {
+        dead.push({
+          tankId: r.tank.id,
+          serial: r.tank.serial,
+          transport: 'mqtt',
+          topic: r.topic,
+          reasonCode: 'InvalidJson',
+          reason: 'The command reply is not valid JSON.',
+          fields: [{ field: '(body)', message: 'must be valid JSON.' }],
+          payload: r.payload,
+        });
         continue;
       }
       const parsed = commandReplySchema.safeParse(body);
       if (!parsed.success) {
-        dead.push({ tankId: r.tank.id, serial: r.tank.serial, transport: 'mqtt', topic: r.topic, reasonCode: 'InvalidReply', reason: 'The command reply has invalid fields.', fields: zodFieldErrors(parsed.error), payload: r.payload });
+        dead.push({
+          tankId: r.tank.id,
+          serial: r.tank.serial,
+          transport: 'mqtt',
+          topic: r.topic,
+          reasonCode: 'InvalidReply',
+          reason: 'The command reply has invalid fields.',
+          fields: zodFieldErrors(parsed.error),
+          payload: r.payload,
+        });
         continue;
       }
       replyUpdates.push({ tank: r.tank, reply: parsed.data, at: r.at });
@@ -235,15 +330,36 @@ export class IngestWorker extends EventEmitter {
     this.stats.inserted += result.inserted;
     this.stats.duplicates += result.duplicates;
     this.stats.deadLetters += dead.length;
-    return { readings: items.length, inserted: result.inserted, duplicates: result.duplicates, deadLetters: dead.length };
+    return {
+      readings: items.length,
+      inserted: result.inserted,
+      duplicates: result.duplicates,
+      deadLetters: dead.length,
+    };
   }
 }
 
 /** A batch message counts for what it holds (about 180 bytes a reading); its exact count is known only once parsed. */
-const estimatedReadings = (msg: InboundMessage) => (msg.payload.length > 4096 ? Math.ceil(msg.payload.length / 180) : 1);
+const estimatedReadings = (msg: InboundMessage) =>
+  msg.payload.length > 4096 ? Math.ceil(msg.payload.length / 180) : 1;
 
-function deadLetter(tank: IngestTank, msg: InboundMessage, reasonCode: string, reason: string, fields: { field: string; message: string }[]): DeadLetterInput {
-  return { tankId: tank.id, serial: tank.serial, transport: 'mqtt', topic: msg.topic, reasonCode, reason, fields, payload: msg.payload };
+function deadLetter(
+  tank: IngestTank,
+  msg: InboundMessage,
+  reasonCode: string,
+  reason: string,
+  fields: { field: string; message: string }[],
+): DeadLetterInput {
+  return {
+    tankId: tank.id,
+    serial: tank.serial,
+    transport: 'mqtt',
+    topic: msg.topic,
+    reasonCode,
+    reason,
+    fields,
+    payload: msg.payload,
+  };
 }
 
 function rejectedLetter(tank: IngestTank, msg: InboundMessage, r: RejectedReading, batch: boolean): DeadLetterInput {

@@ -5,21 +5,35 @@ import { batchSchema, commandMessageSchema, commandReplySchema, commandRequestSc
 
 export function wireJsonSchema(): Record<string, unknown> {
   const one = (s: z.ZodType) => {
-    const { $schema: _drop, ...rest } = z.toJSONSchema(s, { io: 'input', unrepresentable: 'any' }) as Record<string, unknown>;
+    const { $schema: _drop, ...rest } = z.toJSONSchema(s, { io: 'input', unrepresentable: 'any' }) as Record<
+      string,
+      unknown
+    >;
     return rest;
   };
   return {
     $schema: 'https://json-schema.org/draft/2020-12/schema',
     $id: 'https://heatlayer.example.com/schemas/wire-contract-v1.json',
     title: 'Heatlayer tank wire contract v1',
-    description: 'Payloads on heatlayer/v1/tanks/{serial}/telemetry (a reading or a batch), /commands, /replies, and the body of POST /api/ingest. See docs/wire-contract.md.',
+    description:
+      'Payloads on heatlayer/v1/tanks/{serial}/telemetry (a reading or a batch), /commands, /replies, and the body of POST /api/ingest. See docs/wire-contract.md.',
     $defs: {
       reading: one(readingSchema),
-      batch: { ...one(batchSchema), properties: { ...(one(batchSchema).properties as object), readings: { type: 'array', minItems: 1, maxItems: 1000, items: { $ref: '#/$defs/reading' } } } },
+      batch: {
+        ...one(batchSchema),
+        properties: {
+          ...(one(batchSchema).properties as object),
+          readings: { type: 'array', minItems: 1, maxItems: 1000, items: { $ref: '#/$defs/reading' } },
+        },
+      },
       commandRequest: one(commandRequestSchema),
       commandMessage: one(commandMessageSchema),
       commandReply: one(commandReplySchema),
-      status: { type: 'string', enum: ['online', 'offline'], description: 'Plain text, retained; the device\'s last will says offline.' },
+      status: {
+        type: 'string',
+        enum: ['online', 'offline'],
+        description: "Plain text, retained; the device's last will says offline.",
+      },
     },
     oneOf: [{ $ref: '#/$defs/reading' }, { $ref: '#/$defs/batch' }],
   };

@@ -70,7 +70,10 @@ export class MqttConsumer {
       s.once('close', () => resolve());
       if (this.ready) s.end(mqttPacket.generate({ cmd: 'disconnect' }));
       else s.destroy();
-      setTimeout(() => { s.destroy(); resolve(); }, 2000).unref();
+      setTimeout(() => {
+        s.destroy();
+        resolve();
+      }, 2000).unref();
     });
   }
 
@@ -115,14 +118,35 @@ export class MqttConsumer {
     socket.on('connect', () => {
       this.lastHeard = Date.now();
       this.write({
-        cmd: 'connect', protocolId: 'MQTT', protocolVersion: 4, clean: false, clientId: this.opts.clientId, keepalive: keepaliveS,
-        username: this.opts.username, password: Buffer.from(this.opts.password),
-        ...(this.opts.will ? { will: { topic: this.opts.will.topic, payload: Buffer.from(this.opts.will.payload), qos: 1, retain: this.opts.will.retain } } : {}),
+        cmd: 'connect',
+        protocolId: 'MQTT',
+        protocolVersion: 4,
+        clean: false,
+        clientId: this.opts.clientId,
+        keepalive: keepaliveS,
+        username: this.opts.username,
+        password: Buffer.from(this.opts.password),
+        ...(this.opts.will
+          ? {
+              will: {
+                topic: this.opts.will.topic,
+                payload: Buffer.from(this.opts.will.payload),
+                qos: 1,
+                retain: this.opts.will.retain,
+              },
+            }
+          : {}),
       });
       if (this.paused) socket.pause();
     });
-    socket.on('data', (buf) => { this.lastHeard = Date.now(); parser.parse(buf); });
-    parser.on('error', (err) => { closedReason = `protocol error: ${err.message}`; socket.destroy(); });
+    socket.on('data', (buf) => {
+      this.lastHeard = Date.now();
+      parser.parse(buf);
+    });
+    parser.on('error', (err) => {
+      closedReason = `protocol error: ${err.message}`;
+      socket.destroy();
+    });
     parser.on('packet', (p: Packet) => {
       if (gen !== this.generation) return;
       switch (p.cmd) {
@@ -134,7 +158,11 @@ export class MqttConsumer {
             return;
           }
           this.backoffMs = 250;
-          this.write({ cmd: 'subscribe', messageId: this.id(), subscriptions: this.opts.filters.map((topic) => ({ topic, qos: 1 as const })) });
+          this.write({
+            cmd: 'subscribe',
+            messageId: this.id(),
+            subscriptions: this.opts.filters.map((topic) => ({ topic, qos: 1 as const })),
+          });
           this.sessionPresent = Boolean((p as { sessionPresent?: boolean }).sessionPresent);
           return;
         }
@@ -177,11 +205,16 @@ export class MqttConsumer {
       const now = Date.now();
       if (now - this.lastSent >= (keepaliveS * 1000) / 2) this.write({ cmd: 'pingreq' });
       // While paused we do not read, so silence is expected; the broker's own keepalive still holds.
-      if (!this.paused && now - this.lastHeard > keepaliveS * 1500) { closedReason = 'keepalive timeout'; socket.destroy(); }
+      if (!this.paused && now - this.lastHeard > keepaliveS * 1500) {
+        closedReason = 'keepalive timeout';
+        socket.destroy();
+      }
     }, 1000);
     this.keepTimer.unref();
 
-    socket.on('error', (err) => { closedReason = err.message; });
+    socket.on('error', (err) => {
+      closedReason = err.message;
+    });
     socket.on('close', () => {
       if (this.keepTimer) clearInterval(this.keepTimer);
       if (gen !== this.generation) return;
@@ -192,7 +225,10 @@ export class MqttConsumer {
       this.opts.onDisconnect?.(closedReason);
       if (this.stopped) return;
       if (wasReady) this.opts.log?.(`[mqtt] connection lost (${closedReason}); reconnecting`);
-      else this.opts.log?.(`[mqtt] could not connect to ${this.opts.url} (${closedReason}); retrying in ${this.backoffMs} ms`);
+      else
+        this.opts.log?.(
+          `[mqtt] could not connect to ${this.opts.url} (${closedReason}); retrying in ${this.backoffMs} ms`,
+        );
       this.reconnectTimer = setTimeout(() => this.open(), this.backoffMs);
       this.backoffMs = Math.min(this.backoffMs * 2, 5000);
     });

@@ -5,7 +5,14 @@ import { SERVICE_USERNAME } from './device-token';
 import { INGEST_STATUS_TOPIC, topicFor } from './wire';
 
 const connect = (url: string, password: string) =>
-  mqtt.connectAsync(url, { username: SERVICE_USERNAME, password, clientId: `heatlayer-probe-${process.pid}-${Date.now()}`, reconnectPeriod: 0, connectTimeout: 2000, protocolVersion: 4 });
+  mqtt.connectAsync(url, {
+    username: SERVICE_USERNAME,
+    password,
+    clientId: `heatlayer-probe-${process.pid}-${Date.now()}`,
+    reconnectPeriod: 0,
+    connectTimeout: 2000,
+    protocolVersion: 4,
+  });
 
 export async function brokerAcceptsService(url: string, password: string): Promise<boolean> {
   const c = await connect(url, password);
@@ -13,9 +20,11 @@ export async function brokerAcceptsService(url: string, password: string): Promi
   return true;
 }
 
-export const ingestWorkerOnline = (url: string, password: string) => retainedIs(url, password, INGEST_STATUS_TOPIC, 'online');
+export const ingestWorkerOnline = (url: string, password: string) =>
+  retainedIs(url, password, INGEST_STATUS_TOPIC, 'online');
 
-export const tankOnline = (url: string, password: string, serial: string) => retainedIs(url, password, topicFor(serial, 'status'), 'online');
+export const tankOnline = (url: string, password: string, serial: string) =>
+  retainedIs(url, password, topicFor(serial, 'status'), 'online');
 
 async function retainedIs(url: string, password: string, topic: string, value: string): Promise<boolean> {
   const c = await connect(url, password);
@@ -23,7 +32,10 @@ async function retainedIs(url: string, password: string, topic: string, value: s
     return await new Promise<boolean>((resolve) => {
       const timer = setTimeout(() => resolve(false), 1500);
       c.on('message', (t, payload) => {
-        if (t === topic) { clearTimeout(timer); resolve(payload.toString() === value); }
+        if (t === topic) {
+          clearTimeout(timer);
+          resolve(payload.toString() === value);
+        }
       });
       c.subscribe(topic, { qos: 0 });
     });

@@ -10,8 +10,13 @@ function connection(): Promise<MqttClient> {
   client ??= (async () => {
     const e = env();
     const c = await mqtt.connectAsync(e.MQTT_URL, {
-      username: SERVICE_USERNAME, password: servicePassword(e), clientId: `heatlayer-web-${process.pid}-${Date.now().toString(36)}`,
-      protocolVersion: 4, clean: true, reconnectPeriod: 1000, connectTimeout: 5000,
+      username: SERVICE_USERNAME,
+      password: servicePassword(e),
+      clientId: `heatlayer-web-${process.pid}-${Date.now().toString(36)}`,
+      protocolVersion: 4,
+      clean: true,
+      reconnectPeriod: 1000,
+      connectTimeout: 5000,
     });
     c.on('error', (err) => console.error('[mqtt] web publisher:', err.message));
     return c;
@@ -26,12 +31,20 @@ function connection(): Promise<MqttClient> {
 export async function publishAsService(topic: string, payload: string, timeoutMs = 5000): Promise<void> {
   let timer: NodeJS.Timeout | undefined;
   const timeout = new Promise<never>((_, reject) => {
-    timer = setTimeout(() => reject(new Error(`the broker did not accept the message within ${timeoutMs / 1000} s`)), timeoutMs);
+    timer = setTimeout(
+      () => reject(new Error(`the broker did not accept the message within ${timeoutMs / 1000} s`)),
+      timeoutMs,
+    );
   });
   try {
-    await Promise.race([(async () => { const c = await connection(); await c.publishAsync(topic, payload, { qos: 1 }); })(), timeout]);
+    await Promise.race([
+      (async () => {
+        const c = await connection();
+        await c.publishAsync(topic, payload, { qos: 1 });
+      })(),
+      timeout,
+    ]);
   } finally {
     clearTimeout(timer);
   }
 }
-

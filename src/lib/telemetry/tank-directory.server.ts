@@ -34,7 +34,11 @@ export class TankDirectory {
     this.byHash.clear();
   }
 
-  private async cached(map: Map<string, { tank: IngestTank | null; until: number }>, key: string, load: () => Promise<IngestTank | null>): Promise<IngestTank | null> {
+  private async cached(
+    map: Map<string, { tank: IngestTank | null; until: number }>,
+    key: string,
+    load: () => Promise<IngestTank | null>,
+  ): Promise<IngestTank | null> {
     const now = Date.now();
     const hit = map.get(key);
     if (hit && hit.until > now) return hit.tank;

@@ -10,12 +10,24 @@ import type pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import { pipeline } from 'node:stream/promises';
 import { Readable } from 'node:stream';
-import { DEFAULT_STUCK_LIMITS, initialStuck, stepStuck, stuckSensors, tankFigures, type FiguresQuality, type StuckState, type TankGeometry } from '../thermal';
+import {
+  DEFAULT_STUCK_LIMITS,
+  initialStuck,
+  stepStuck,
+  stuckSensors,
+  tankFigures,
+  type FiguresQuality,
+  type StuckState,
+  type TankGeometry,
+} from '../thermal';
 import type { DeadLetterInput, IngestTank } from '../../db/queries/telemetry';
 import { deriveEvents, emptyDeriveState, type DeriveState, type EventRecord } from './events';
 import type { Reading } from './wire';
 
-export interface IngestItem { tank: IngestTank; reading: Reading }
+export interface IngestItem {
+  tank: IngestTank;
+  reading: Reading;
+}
 
 export interface WriteBatch {
   readings: readonly IngestItem[];
@@ -31,7 +43,8 @@ export interface WriteResult {
   events: number;
 }
 
-const COPY_COLUMNS = 'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w';
+const COPY_COLUMNS =
+  'tank_id, ts, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w';
 
 /** A reading as stored: centi-degrees, decilitres a minute, whole watts. */
 export interface StoredReading {
@@ -55,10 +68,16 @@ const round = (x: number | undefined) => (x === undefined ? null : Math.round(x)
 
 function toStored(tankId: string, r: Reading): StoredReading {
   return {
-    tankId, ts: r.ts, seq: r.seq ?? null,
+    tankId,
+    ts: r.ts,
+    seq: r.seq ?? null,
     layersCc: r.layersC.map((t) => (t === null ? null : Math.round(t * 100))),
-    flowCc: cc(r.flowC), returnCc: cc(r.returnC), compressor: r.compressor ?? null,
-    immersionW: round(r.immersionW), powerW: round(r.powerW), pumpPct: round(r.pumpPct),
+    flowCc: cc(r.flowC),
+    returnCc: cc(r.returnC),
+    compressor: r.compressor ?? null,
+    immersionW: round(r.immersionW),
+    powerW: round(r.powerW),
+    pumpPct: round(r.pumpPct),
     drawDlpm: r.drawLpm === undefined ? null : Math.round(r.drawLpm * 10),
     solarSurplusW: round(r.solarSurplusW),
   };
@@ -79,25 +98,39 @@ export function fromStored(s: StoredReading): Reading {
   return r;
 }
 
-const copyValue = (v: number | boolean | null) => (v === null ? '\\N' : typeof v === 'boolean' ? (v ? 't' : 'f') : String(v));
+const copyValue = (v: number | boolean | null) =>
+  v === null ? '\\N' : typeof v === 'boolean' ? (v ? 't' : 'f') : String(v);
 
 function copyLine(s: StoredReading): string {
   return `${[
-    s.tankId, new Date(s.ts).toISOString(), copyValue(s.seq),
+    s.tankId,
+    new Date(s.ts).toISOString(),
+    copyValue(s.seq),
     `{${s.layersCc.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`,
-    copyValue(s.flowCc), copyValue(s.returnCc), copyValue(s.compressor), copyValue(s.immersionW),
-    copyValue(s.powerW), copyValue(s.pumpPct), copyValue(s.drawDlpm), copyValue(s.solarSurplusW ?? null),
+    copyValue(s.flowCc),
+    copyValue(s.returnCc),
+    copyValue(s.compressor),
+    copyValue(s.immersionW),
+    copyValue(s.powerW),
+    copyValue(s.pumpPct),
+    copyValue(s.drawDlpm),
+    copyValue(s.solarSurplusW ?? null),
   ].join('\t')}\n`;
 }
 
 /** What the figures need of a tank, read with its latest state (so an amended target counts at once). */
-export interface FiguresTank extends TankGeometry { stuck: StuckState | null }
+export interface FiguresTank extends TankGeometry {
+  stuck: StuckState | null;
+}
 
 /**
  * The latest figures of a tank: the thermal core's `tankFigures` (doubted sensors left out and
  * estimated, or the figures withheld), the same function every screen calls.
  */
-export function chargeOf(tank: FiguresTank, layersC: readonly (number | null)[]): { soc: number | null; v40L: number | null; quality: FiguresQuality } {
+export function chargeOf(
+  tank: FiguresTank,
+  layersC: readonly (number | null)[],
+): { soc: number | null; v40L: number | null; quality: FiguresQuality } {
   const f = tankFigures({ layersC }, tank, { stuck: stuckSensors(tank.stuck) });
   return { soc: f.soc, v40L: f.v40L, quality: f.quality };
 }
@@ -113,7 +146,9 @@ export class TelemetryWriter {
     let broken = false;
     // The server going away between two statements arrives as an 'error' event; note it (and never
     // let it throw) so this connection is discarded rather than reused.
-    const onError = () => { broken = true; };
+    const onError = () => {
+      broken = true;
+    };
     client.on('error', onError);
     try {
       await client.query('begin');
@@ -158,18 +193,32 @@ export class TelemetryWriter {
   private async advanceTanks(client: pg.PoolClient, newByTank: Map<string, StoredReading[]>): Promise<number> {
     // Lock in a fixed order so two writers touching the same tanks cannot deadlock.
     const ids = [...newByTank.keys()].sort();
-    const lockStates = () => client.query<{
-      tank_id: string; ts_ms: string | null; derive: DeriveState; sensor_check: StuckState | null;
-      volume_l: number; height_m: number; sensor_count: number; sensor_heights_m: number[] | null; target_c: number; cold_inlet_c: number | null;
-    }>(
-      `select l.tank_id, (extract(epoch from l.ts) * 1000)::int8 as ts_ms, l.derive, l.sensor_check,
+    const lockStates = () =>
+      client.query<{
+        tank_id: string;
+        ts_ms: string | null;
+        derive: DeriveState;
+        sensor_check: StuckState | null;
+        volume_l: number;
+        height_m: number;
+        sensor_count: number;
+        sensor_heights_m: number[] | null;
+        target_c: number;
+        cold_inlet_c: number | null;
+      }>(
+        `select l.tank_id, (extract(epoch from l.ts) * 1000)::int8 as ts_ms, l.derive, l.sensor_check,
          t.volume_l, t.height_m, t.sensor_count, t.sensor_heights_m, t.target_c, h.cold_inlet_c
        from tank_latest_state l join tanks t on t.id = l.tank_id left join homes h on h.id = t.home_id
-       where l.tank_id = any($1::uuid[]) order by l.tank_id for update of l`, [ids]);
+       where l.tank_id = any($1::uuid[]) order by l.tank_id for update of l`,
+        [ids],
+      );
     let current = await lockStates();
     if (current.rows.length < ids.length) {
       // A tank's first reading ever: give it its row, then lock again.
-      await client.query(`insert into tank_latest_state (tank_id) select unnest($1::uuid[]) order by 1 on conflict do nothing`, [ids]);
+      await client.query(
+        `insert into tank_latest_state (tank_id) select unnest($1::uuid[]) order by 1 on conflict do nothing`,
+        [ids],
+      );
       current = await lockStates();
     }
     const states = new Map(current.rows.map((r) => [r.tank_id, r]));
@@ -199,20 +248,46 @@ export class TelemetryWriter {
       if (latestTs === null || newest.ts > latestTs) {
         // The stuck check follows the readings newer than the latest, in time order.
         const check: StuckState = st?.sensor_check ?? initialStuck(st?.sensor_count ?? newest.layersCc.length);
-        for (const row of list) if (latestTs === null || row.ts > latestTs) stepStuck(check, row.ts, fromStored(row).layersC, DEFAULT_STUCK_LIMITS);
+        for (const row of list)
+          if (latestTs === null || row.ts > latestTs)
+            stepStuck(check, row.ts, fromStored(row).layersC, DEFAULT_STUCK_LIMITS);
         const { soc, v40L, quality } = st
-          ? chargeOf({ volumeL: st.volume_l, heightM: st.height_m, sensorCount: st.sensor_count, sensorHeightsM: st.sensor_heights_m, targetC: st.target_c, coldInletC: st.cold_inlet_c, stuck: check }, fromStored(newest).layersC)
+          ? chargeOf(
+              {
+                volumeL: st.volume_l,
+                heightM: st.height_m,
+                sensorCount: st.sensor_count,
+                sensorHeightsM: st.sensor_heights_m,
+                targetC: st.target_c,
+                coldInletC: st.cold_inlet_c,
+                stuck: check,
+              },
+              fromStored(newest).layersC,
+            )
           : { soc: null, v40L: null, quality: null };
         Object.assign(u, {
-          advance: true, ts: new Date(newest.ts).toISOString(), seq: newest.seq, layers_cc: pgArray(newest.layersCc),
-          flow_cc: newest.flowCc, return_cc: newest.returnCc, compressor: newest.compressor, immersion_w: newest.immersionW,
-          power_w: newest.powerW, pump_pct: newest.pumpPct, draw_dlpm: newest.drawDlpm, soc, v40_l: v40L, figures_quality: quality, sensor_check: check,
+          advance: true,
+          ts: new Date(newest.ts).toISOString(),
+          seq: newest.seq,
+          layers_cc: pgArray(newest.layersCc),
+          flow_cc: newest.flowCc,
+          return_cc: newest.returnCc,
+          compressor: newest.compressor,
+          immersion_w: newest.immersionW,
+          power_w: newest.powerW,
+          pump_pct: newest.pumpPct,
+          draw_dlpm: newest.drawDlpm,
+          soc,
+          v40_l: v40L,
+          figures_quality: quality,
+          sensor_check: check,
         });
       }
       latestUpdates.push(u);
     }
 
-    await client.query(`
+    await client.query(
+      `
       update tank_latest_state s set
         last_seen_at = greatest(s.last_seen_at, x.last_seen_at),
         derive = x.derive,
@@ -234,7 +309,9 @@ export class TelemetryWriter {
         tank_id uuid, last_seen_at timestamptz, derive jsonb, advance boolean, ts timestamptz, seq integer, layers_cc text,
         flow_cc smallint, return_cc smallint, compressor boolean, immersion_w smallint, power_w smallint, pump_pct smallint,
         draw_dlpm smallint, soc real, v40_l real, figures_quality jsonb, sensor_check jsonb)
-      where s.tank_id = x.tank_id`, [JSON.stringify(latestUpdates)]);
+      where s.tank_id = x.tank_id`,
+      [JSON.stringify(latestUpdates)],
+    );
 
     await upsertEvents(client, eventRows);
     let touched = eventRows.length;
@@ -243,10 +320,12 @@ export class TelemetryWriter {
   }
 }
 
-
 const copyInto = (client: pg.PoolClient, table: string, rows: readonly StoredReading[]) =>
   // One chunk: per-line chunks make COPY several times slower.
-  pipeline(Readable.from([rows.map(copyLine).join('')]), client.query(copyFrom(`copy ${table} (${COPY_COLUMNS}) from stdin`)));
+  pipeline(
+    Readable.from([rows.map(copyLine).join('')]),
+    client.query(copyFrom(`copy ${table} (${COPY_COLUMNS}) from stdin`)),
+  );
 
 /**
  * The common case, new readings: COPY them straight into `readings`, as fast as a raw COPY. A
@@ -295,29 +374,39 @@ async function markRollupsDirty(client: pg.PoolClient, rows: readonly StoredRead
   await client.query(
     `insert into rollup_dirty (tank_id, bucket)
      select * from unnest($1::uuid[], $2::timestamptz[]) order by 1, 2 on conflict do nothing`,
-    [list.map((b) => b.tankId), list.map((b) => new Date(b.bucket).toISOString())]);
+    [list.map((b) => b.tankId), list.map((b) => new Date(b.bucket).toISOString())],
+  );
 }
 
 const pgArray = (values: (number | null)[]) => `{${values.map((v) => (v === null ? 'NULL' : String(v))).join(',')}}`;
 
 function eventRow(tankId: string, e: EventRecord) {
   return {
-    tank_id: tankId, kind: e.kind, started_at: new Date(e.startedAt).toISOString(),
+    tank_id: tankId,
+    kind: e.kind,
+    started_at: new Date(e.startedAt).toISOString(),
     ended_at: e.endedAt === null ? null : new Date(e.endedAt).toISOString(),
-    energy_wh: e.energyWh, litres: e.litres, start_top_cc: e.startTopCc, end_top_cc: e.endTopCc, complete: e.complete,
+    energy_wh: e.energyWh,
+    litres: e.litres,
+    start_top_cc: e.startTopCc,
+    end_top_cc: e.endTopCc,
+    complete: e.complete,
   };
 }
 
 async function upsertEvents(client: pg.PoolClient, rows: unknown[]): Promise<void> {
   if (rows.length === 0) return;
-  await client.query(`
+  await client.query(
+    `
     insert into telemetry_events (tank_id, kind, started_at, ended_at, energy_wh, litres, start_top_cc, end_top_cc, complete)
     select tank_id, kind::telemetry_event_kind, started_at, ended_at, energy_wh, litres, start_top_cc, end_top_cc, complete
     from json_to_recordset($1::json) as x(tank_id uuid, kind text, started_at timestamptz, ended_at timestamptz,
       energy_wh real, litres real, start_top_cc smallint, end_top_cc smallint, complete boolean)
     on conflict (tank_id, kind, started_at) do update set
       ended_at = excluded.ended_at, energy_wh = excluded.energy_wh, litres = excluded.litres,
-      end_top_cc = excluded.end_top_cc, complete = excluded.complete`, [JSON.stringify(rows)]);
+      end_top_cc = excluded.end_top_cc, complete = excluded.complete`,
+    [JSON.stringify(rows)],
+  );
 }
 
 /**
@@ -330,35 +419,81 @@ async function rederive(client: pg.PoolClient, tankId: string, fromTs: number): 
   for (let i = 0; i < 10; i++) {
     const r = await client.query<{ s: string | null }>(
       `select (extract(epoch from min(started_at)) * 1000)::int8 as s from telemetry_events
-       where tank_id = $1 and started_at < $2 and (ended_at is null or ended_at >= $2)`, [tankId, new Date(from).toISOString()]);
+       where tank_id = $1 and started_at < $2 and (ended_at is null or ended_at >= $2)`,
+      [tankId, new Date(from).toISOString()],
+    );
     const s = r.rows[0].s === null ? null : Number(r.rows[0].s);
     if (s === null || s >= from) break;
     from = s;
   }
   const fromIso = new Date(from).toISOString();
   const prev = await client.query<{ ts_ms: string }>(
-    `select (extract(epoch from ts) * 1000)::int8 as ts_ms from readings where tank_id = $1 and ts < $2 order by ts desc limit 1`, [tankId, fromIso]);
+    `select (extract(epoch from ts) * 1000)::int8 as ts_ms from readings where tank_id = $1 and ts < $2 order by ts desc limit 1`,
+    [tankId, fromIso],
+  );
   await client.query(`delete from telemetry_events where tank_id = $1 and started_at >= $2`, [tankId, fromIso]);
-  const rows = await client.query<{ ts_ms: string; seq: number | null; layers_cc: (number | null)[]; flow_cc: number | null; return_cc: number | null; compressor: boolean | null; immersion_w: number | null; power_w: number | null; pump_pct: number | null; draw_dlpm: number | null }>(
+  const rows = await client.query<{
+    ts_ms: string;
+    seq: number | null;
+    layers_cc: (number | null)[];
+    flow_cc: number | null;
+    return_cc: number | null;
+    compressor: boolean | null;
+    immersion_w: number | null;
+    power_w: number | null;
+    pump_pct: number | null;
+    draw_dlpm: number | null;
+  }>(
     `select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm
-     from readings where tank_id = $1 and ts >= $2 order by ts`, [tankId, fromIso]);
+     from readings where tank_id = $1 and ts >= $2 order by ts`,
+    [tankId, fromIso],
+  );
   const start: DeriveState = { lastTs: prev.rows[0] ? Number(prev.rows[0].ts_ms) : null, open: {} };
-  const out = deriveEvents(start, rows.rows.map((x) => fromStored({
-    tankId, ts: Number(x.ts_ms), seq: x.seq, layersCc: x.layers_cc, flowCc: x.flow_cc, returnCc: x.return_cc, compressor: x.compressor,
-    immersionW: x.immersion_w, powerW: x.power_w, pumpPct: x.pump_pct, drawDlpm: x.draw_dlpm,
-  })));
-  await upsertEvents(client, out.events.map((e) => eventRow(tankId, e)));
-  await client.query(`update tank_latest_state set derive = $2 where tank_id = $1`, [tankId, JSON.stringify(out.state)]);
+  const out = deriveEvents(
+    start,
+    rows.rows.map((x) =>
+      fromStored({
+        tankId,
+        ts: Number(x.ts_ms),
+        seq: x.seq,
+        layersCc: x.layers_cc,
+        flowCc: x.flow_cc,
+        returnCc: x.return_cc,
+        compressor: x.compressor,
+        immersionW: x.immersion_w,
+        powerW: x.power_w,
+        pumpPct: x.pump_pct,
+        drawDlpm: x.draw_dlpm,
+      }),
+    ),
+  );
+  await upsertEvents(
+    client,
+    out.events.map((e) => eventRow(tankId, e)),
+  );
+  await client.query(`update tank_latest_state set derive = $2 where tank_id = $1`, [
+    tankId,
+    JSON.stringify(out.state),
+  ]);
   return out.events.length;
 }
 
 async function insertDeadLettersWith(client: pg.PoolClient, rows: readonly DeadLetterInput[]): Promise<void> {
   const MAX = 256 * 1024;
-  await client.query(`
+  await client.query(
+    `
     insert into dead_letters (tank_id, serial, transport, topic, reason_code, reason, fields, payload, payload_bytes)
-    select * from unnest($1::uuid[], $2::text[], $3::text[], $4::text[], $5::text[], $6::text[], $7::jsonb[], $8::bytea[], $9::int[])`, [
-    rows.map((r) => r.tankId), rows.map((r) => r.serial), rows.map((r) => r.transport), rows.map((r) => r.topic),
-    rows.map((r) => r.reasonCode), rows.map((r) => r.reason), rows.map((r) => JSON.stringify(r.fields)),
-    rows.map((r) => r.payload.subarray(0, MAX)), rows.map((r) => r.payload.length),
-  ]);
+    select * from unnest($1::uuid[], $2::text[], $3::text[], $4::text[], $5::text[], $6::text[], $7::jsonb[], $8::bytea[], $9::int[])`,
+    [
+      rows.map((r) => r.tankId),
+      rows.map((r) => r.serial),
+      rows.map((r) => r.transport),
+      rows.map((r) => r.topic),
+      rows.map((r) => r.reasonCode),
+      rows.map((r) => r.reason),
+      rows.map((r) => JSON.stringify(r.fields)),
+      rows.map((r) => r.payload.subarray(0, MAX)),
+      rows.map((r) => r.payload.length),
+    ],
+  );
 }

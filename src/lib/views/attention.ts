@@ -11,7 +11,9 @@ export type AttentionKind = AlertKind;
 export const attentionLabels: Record<AttentionKind, string> = alertLabels;
 
 /** Lower is more urgent: the order in which the desk should act. */
-export const attentionPriority: Record<AttentionKind, number> = Object.fromEntries(attentionKinds.map((k, i) => [k, i])) as Record<AttentionKind, number>;
+export const attentionPriority: Record<AttentionKind, number> = Object.fromEntries(
+  attentionKinds.map((k, i) => [k, i]),
+) as Record<AttentionKind, number>;
 
 /** Overall status of a tank for the table's status filter. */
 export type TankStatus = 'offline' | 'attention' | 'ok';

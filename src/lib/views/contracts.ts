@@ -12,19 +12,36 @@ import type { AlertSeverity } from '../alerts/types';
 const tankSortKeys = ['attention', 'serial', 'town', 'soc', 'v40', 'lastSeen', 'volume'] as const;
 export type TankSortKey = (typeof tankSortKeys)[number];
 
-const optionalText = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`).optional().transform((v) => (v ? v : undefined));
+const optionalText = (max: number) =>
+  z
+    .string()
+    .trim()
+    .max(max, `Use at most ${max} characters.`)
+    .optional()
+    .transform((v) => (v ? v : undefined));
 
-export const tanksQuerySchema = z.object({
-  q: optionalText(100),
-  status: z.enum(tankStatuses).optional(),
-  alert: z.enum(attentionKinds).optional(),
-  town: optionalText(100),
-  heatSource: z.enum(heatSourceValues).optional(),
-  sort: z.enum(tankSortKeys).default('attention'),
-  dir: z.enum(['asc', 'desc']).optional(),
-  page: z.coerce.number({ error: 'page must be a whole number from 1.' }).int('page must be a whole number from 1.').min(1, 'page must be a whole number from 1.').default(1),
-  pageSize: z.coerce.number().int('pageSize must be a whole number.').min(1, 'pageSize must be between 1 and 200.').max(200, 'pageSize must be between 1 and 200.').default(25),
-}).strict();
+export const tanksQuerySchema = z
+  .object({
+    q: optionalText(100),
+    status: z.enum(tankStatuses).optional(),
+    alert: z.enum(attentionKinds).optional(),
+    town: optionalText(100),
+    heatSource: z.enum(heatSourceValues).optional(),
+    sort: z.enum(tankSortKeys).default('attention'),
+    dir: z.enum(['asc', 'desc']).optional(),
+    page: z.coerce
+      .number({ error: 'page must be a whole number from 1.' })
+      .int('page must be a whole number from 1.')
+      .min(1, 'page must be a whole number from 1.')
+      .default(1),
+    pageSize: z.coerce
+      .number()
+      .int('pageSize must be a whole number.')
+      .min(1, 'pageSize must be between 1 and 200.')
+      .max(200, 'pageSize must be between 1 and 200.')
+      .default(25),
+  })
+  .strict();
 export type TanksQuery = z.infer<typeof tanksQuerySchema>;
 
 export const resolutions = ['raw', '15m', '1h'] as const;
@@ -39,74 +56,106 @@ function autoResolution(spanMs: number): Resolution {
   return '1h';
 }
 
-const isoTime = (field: string) => z.string().datetime({ offset: true, message: `${field} must be an ISO 8601 date-time with a time zone, e.g. 2026-03-01T07:00:00Z.` });
+const isoTime = (field: string) =>
+  z.string().datetime({
+    offset: true,
+    message: `${field} must be an ISO 8601 date-time with a time zone, e.g. 2026-03-01T07:00:00Z.`,
+  });
 
 /**
  * from/to (ISO 8601, default the last 24 h), resolution (raw, 15m, 1h or auto) and since, a poll's
  * cursor inside the range: only points from it on are sent, their figures worked out over the whole range.
  */
-export const rangeQuerySchema = z.object({
-  from: isoTime('from').optional(),
-  to: isoTime('to').optional(),
-  resolution: z.enum(['auto', ...resolutions]).default('auto'),
-  since: isoTime('since').optional(),
-}).strict().transform((v, ctx) => {
-  const to = v.to ? new Date(v.to) : new Date();
-  const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
-  if (from >= to) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
-    return z.NEVER;
-  }
-  const span = to.getTime() - from.getTime();
-  const resolution: Resolution = v.resolution === 'auto' ? autoResolution(span) : v.resolution;
-  if (span > maxSpanMs[resolution]) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['resolution'], message: `resolution ${resolution} serves at most ${maxSpanMs[resolution] / 86_400_000} days; choose a coarser step or a shorter range.` });
-    return z.NEVER;
-  }
-  const since = v.since ? new Date(v.since) : from;
-  if (since < from || since >= to) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['since'], message: 'since must be inside the range: at or after from, before to.' });
-    return z.NEVER;
-  }
-  return { from, to, resolution, since };
-});
+export const rangeQuerySchema = z
+  .object({
+    from: isoTime('from').optional(),
+    to: isoTime('to').optional(),
+    resolution: z.enum(['auto', ...resolutions]).default('auto'),
+    since: isoTime('since').optional(),
+  })
+  .strict()
+  .transform((v, ctx) => {
+    const to = v.to ? new Date(v.to) : new Date();
+    const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
+    if (from >= to) {
+      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+      return z.NEVER;
+    }
+    const span = to.getTime() - from.getTime();
+    const resolution: Resolution = v.resolution === 'auto' ? autoResolution(span) : v.resolution;
+    if (span > maxSpanMs[resolution]) {
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['resolution'],
+        message: `resolution ${resolution} serves at most ${maxSpanMs[resolution] / 86_400_000} days; choose a coarser step or a shorter range.`,
+      });
+      return z.NEVER;
+    }
+    const since = v.since ? new Date(v.since) : from;
+    if (since < from || since >= to) {
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['since'],
+        message: 'since must be inside the range: at or after from, before to.',
+      });
+      return z.NEVER;
+    }
+    return { from, to, resolution, since };
+  });
 export type RangeQuery = z.output<typeof rangeQuerySchema>;
 
 /** Events in a range (default the last 24 h). */
-export const eventsQuerySchema = z.object({ from: isoTime('from').optional(), to: isoTime('to').optional() }).strict().transform((v, ctx) => {
-  const to = v.to ? new Date(v.to) : new Date();
-  const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
-  if (from >= to) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
-    return z.NEVER;
-  }
-  if (to.getTime() - from.getTime() > 62 * 86_400_000) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['from'], message: 'Events are served for at most 62 days at a time.' });
-    return z.NEVER;
-  }
-  return { from, to };
-});
+export const eventsQuerySchema = z
+  .object({ from: isoTime('from').optional(), to: isoTime('to').optional() })
+  .strict()
+  .transform((v, ctx) => {
+    const to = v.to ? new Date(v.to) : new Date();
+    const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
+    if (from >= to) {
+      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+      return z.NEVER;
+    }
+    if (to.getTime() - from.getTime() > 62 * 86_400_000) {
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['from'],
+        message: 'Events are served for at most 62 days at a time.',
+      });
+      return z.NEVER;
+    }
+    return { from, to };
+  });
 
 /** Longest range a link may open (the custom range's limit, and what the events endpoint serves). */
 export const maxLinkSpanMs = 62 * 86_400_000;
 
 /** `?from=&to=` on a tank page (alert links carry them): both ISO 8601 with a zone, from before to. */
-const linkRangeSchema = z.object({
-  from: z.string(messages('from is missing (the link gives to without it).')).pipe(isoTime('from')),
-  to: z.string(messages('to is missing (the link gives from without it).')).pipe(isoTime('to')),
-}).transform((v, ctx) => {
-  const from = Date.parse(v.from);
-  const to = Date.parse(v.to);
-  if (from >= to) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
-  else if (to - from > maxLinkSpanMs) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: `The range may span at most ${maxLinkSpanMs / 86_400_000} days.` });
-  return { from, to };
-});
+const linkRangeSchema = z
+  .object({
+    from: z.string(messages('from is missing (the link gives to without it).')).pipe(isoTime('from')),
+    to: z.string(messages('to is missing (the link gives from without it).')).pipe(isoTime('to')),
+  })
+  .transform((v, ctx) => {
+    const from = Date.parse(v.from);
+    const to = Date.parse(v.to);
+    if (from >= to) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
+    else if (to - from > maxLinkSpanMs)
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['to'],
+        message: `The range may span at most ${maxLinkSpanMs / 86_400_000} days.`,
+      });
+    return { from, to };
+  });
 
 /**
  * The range a tank page opens on: the link's, or none (the default) when it gives neither; a link
  * whose range cannot be used also gives none, with a sentence saying why (naming the field).
  */
-export function rangeFromLink(params: URLSearchParams): { range: { from: number; to: number } | null; problem: string | null } {
+export function rangeFromLink(params: URLSearchParams): {
+  range: { from: number; to: number } | null;
+  problem: string | null;
+} {
   // A '+01:00' offset typed into a link unencoded arrives as ' 01:00'.
   const param = (k: string) => params.get(k)?.replace(/ (\d{2}:?\d{2})$/, '+$1') ?? null;
   const from = param('from');
@@ -139,14 +188,23 @@ export interface TankListItem {
   status: TankStatus;
   attention: AttentionKind[];
 }
-export interface TankListResponse { items: TankListItem[]; total: number; page: number; pageSize: number }
+export interface TankListResponse {
+  items: TankListItem[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
 
 /** One unresolved alert of the tank, as the alert inbox holds it. */
 export interface AttentionItem {
-  kind: AttentionKind; label: string;
+  kind: AttentionKind;
+  label: string;
   /** The alert's evidence in one sentence. */
   detail: string;
-  alertId: string; severity: AlertSeverity; state: 'open' | 'acknowledged'; openedAt: string;
+  alertId: string;
+  severity: AlertSeverity;
+  state: 'open' | 'acknowledged';
+  openedAt: string;
   /** Telemetry time the evidence points at, epoch ms. */
   at: number;
 }
@@ -164,10 +222,26 @@ export interface TankDetail {
   immersionRatingW: number;
   targetC: number;
   hysteresisK: number;
-  home: { id: string; reference: string; addressLine: string; town: string; postcode: string; occupants: number; hasSolar: boolean } | null;
+  home: {
+    id: string;
+    reference: string;
+    addressLine: string;
+    town: string;
+    postcode: string;
+    occupants: number;
+    hasSolar: boolean;
+  } | null;
   latest: {
-    ts: string | null; lastSeenAt: string | null; online: boolean | null; layersC: (number | null)[];
-    flowC: number | null; returnC: number | null; compressor: boolean | null; immersionW: number | null; powerW: number | null; drawLpm: number | null;
+    ts: string | null;
+    lastSeenAt: string | null;
+    online: boolean | null;
+    layersC: (number | null)[];
+    flowC: number | null;
+    returnC: number | null;
+    compressor: boolean | null;
+    immersionW: number | null;
+    powerW: number | null;
+    drawLpm: number | null;
   } | null;
   figures: ColumnFigures | null;
   /** Energy still to add to bring every layer to the target, kWh (thermal core). */
@@ -175,8 +249,15 @@ export interface TankDetail {
   status: TankStatus;
   attention: AttentionItem[];
   commissioning: {
-    commissionedAt: string | null; heatSource: HeatSource; targetC: number; hysteresisK: number; hpOutputW: number;
-    immersionRatingW: number; sensorCount: number; declaredLossW: number | null; declaredClass: string | null;
+    commissionedAt: string | null;
+    heatSource: HeatSource;
+    targetC: number;
+    hysteresisK: number;
+    hpOutputW: number;
+    immersionRatingW: number;
+    sensorCount: number;
+    declaredLossW: number | null;
+    declaredClass: string | null;
   };
   analysis: TankAnalysis;
 }
@@ -185,19 +266,41 @@ export interface TankAnalysis {
   windowFrom: string;
   windowTo: string;
   standingLoss: {
-    uaWPerK: number; lossWAt45K: number; kWhPer24hAt45K: number; impliedClass: string; declaredClass: string | null;
-    periodFrom: string; periodTo: string; ambientC: number; rmsResidualK: number;
+    uaWPerK: number;
+    lossWAt45K: number;
+    kWhPer24hAt45K: number;
+    impliedClass: string;
+    declaredClass: string | null;
+    periodFrom: string;
+    periodTo: string;
+    ambientC: number;
+    rmsResidualK: number;
   } | null;
   standingLossNote: string;
-  legionella: { thresholdC: number; holdMin: number; minutesAtOrAbove: number[]; longestStretchMin: number[]; heldFraction: number; readings: number } | null;
+  legionella: {
+    thresholdC: number;
+    holdMin: number;
+    minutesAtOrAbove: number[];
+    longestStretchMin: number[];
+    heldFraction: number;
+    readings: number;
+  } | null;
   /** Whether the window's columns were measured, estimated (sensors left out) or all withheld. */
   quality: WindowQuality;
 }
 
 /** The quality of figures over a window: the sensors left out in any reading used, and why. */
-export interface WindowQuality { status: FiguresStatus; leftOut: number[]; reason: string | null }
+export interface WindowQuality {
+  status: FiguresStatus;
+  leftOut: number[];
+  reason: string | null;
+}
 /** One reading's figures quality: the sensors left out when estimated or withheld, and why when withheld. */
-export interface PointQuality { status: FiguresStatus; leftOut?: number[]; reason?: string }
+export interface PointQuality {
+  status: FiguresStatus;
+  leftOut?: number[];
+  reason?: string;
+}
 
 export interface ReadingsResponse {
   tankId: string;
@@ -236,7 +339,14 @@ export interface TimelineEvent {
   /** Commands: what and how far it got. */
   command?: { id: string; kind: string; state: string; params: Record<string, unknown> };
 }
-export interface EventsResponse { tankId: string; from: string; to: string; items: TimelineEvent[]; shortCycleStarts: number; minStartGapMin: number }
+export interface EventsResponse {
+  tankId: string;
+  from: string;
+  to: string;
+  items: TimelineEvent[];
+  shortCycleStarts: number;
+  minStartGapMin: number;
+}
 
 export interface FleetSummary {
   tanks: number;

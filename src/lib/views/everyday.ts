@@ -15,10 +15,16 @@ export function litresAt40ForEnergy(kWh: number): number {
 export function defaultAssumptions(): { showerL: number; bathL: number } {
   const shower = tappingProfile('M').draws.find((d) => d.tap === 'shower')!;
   const bath = tappingProfile('L').draws.find((d) => d.tap === 'bath')!;
-  return { showerL: Math.round(litresAt40ForEnergy(shower.energyKWh)), bathL: Math.round(litresAt40ForEnergy(bath.energyKWh)) };
+  return {
+    showerL: Math.round(litresAt40ForEnergy(shower.energyKWh)),
+    bathL: Math.round(litresAt40ForEnergy(bath.energyKWh)),
+  };
 }
 
-export interface Everyday { showers: number; baths: number }
+export interface Everyday {
+  showers: number;
+  baths: number;
+}
 
 /** Whole showers and whole baths the warm water would give (each on its own, not both). */
 export function everydayEquivalents(v40L: number, a: { showerL: number; bathL: number }): Everyday {

@@ -9,7 +9,13 @@ import { figuresOverTime, initialStuck, type StuckState } from '../thermal';
 import { type PointFigures, pointFigures } from './figures-over-time';
 import { geometryOf, type TankShape } from './layers';
 
-interface Memo { shape: string; first: number; last: number; check: StuckState; at: Map<number, PointFigures | null> }
+interface Memo {
+  shape: string;
+  first: number;
+  last: number;
+  check: StuckState;
+  at: Map<number, PointFigures | null>;
+}
 
 /** The tank page's live raw windows reach back 24 h (raw is chosen up to 36 h); older figures are let go. */
 const KEEP_MS = 36 * 3_600_000;
@@ -18,7 +24,11 @@ const MAX_TANKS = 100;
 const memos = new Map<string, Memo>();
 
 /** The figures of a tank's raw readings (oldest first, one per row), from the memo where it has them. */
-export function memoFigures(tankId: string, rows: readonly { t: number; layersC: readonly (number | null)[] }[], tank: TankShape & { sensorCount: number }): (PointFigures | null)[] {
+export function memoFigures(
+  tankId: string,
+  rows: readonly { t: number; layersC: readonly (number | null)[] }[],
+  tank: TankShape & { sensorCount: number },
+): (PointFigures | null)[] {
   const first = rows[0]?.t;
   if (first === undefined) return [];
   const geometry = geometryOf(tank);

@@ -7,23 +7,33 @@ import type { PointQuality, WindowQuality } from './contracts';
 import { geometryOf, type TankShape } from './layers';
 
 /** Each row's figures (null for a row without layers), in the rows' order (oldest first): the thermal core's. */
-export function figuresOverTime(rows: readonly { t: number; layersC: readonly (number | null)[] }[], tank: TankShape & { sensorCount: number }): (TankFigures | null)[] {
+export function figuresOverTime(
+  rows: readonly { t: number; layersC: readonly (number | null)[] }[],
+  tank: TankShape & { sensorCount: number },
+): (TankFigures | null)[] {
   return coreFiguresOverTime(rows, geometryOf(tank));
 }
 
 const count = (n: number) => n.toLocaleString('en-GB');
 
 /** What a chart point keeps of a reading's figures. */
-export interface PointFigures { soc: number | null; v40L: number | null; quality: PointQuality | null }
+export interface PointFigures {
+  soc: number | null;
+  v40L: number | null;
+  quality: PointQuality | null;
+}
 
-export const pointFigures = (f: TankFigures | null): PointFigures | null => (f ? { soc: f.soc, v40L: f.v40L, quality: pointQuality(f) } : null);
+export const pointFigures = (f: TankFigures | null): PointFigures | null =>
+  f ? { soc: f.soc, v40L: f.v40L, quality: pointQuality(f) } : null;
 
 /** One reading's quality as the readings API sends it: leftOut and reason only where they say something. */
 export function pointQuality(f: TankFigures | null): PointQuality | null {
   if (!f) return null;
   const { status, leftOut, reason } = f.quality;
   if (status === 'measured') return { status };
-  return status === 'withheld' && reason ? { status, leftOut: [...leftOut], reason } : { status, leftOut: [...leftOut] };
+  return status === 'withheld' && reason
+    ? { status, leftOut: [...leftOut], reason }
+    : { status, leftOut: [...leftOut] };
 }
 
 /**
@@ -42,7 +52,11 @@ export function windowQuality(points: readonly (PointQuality | null)[]): WindowQ
   const estimated = used.filter((q) => q.status === 'estimated');
   if (estimated.length === 0) return { status: 'measured', leftOut: [], reason: null };
   const leftOut = [...new Set(estimated.flatMap((q) => q.leftOut ?? []))].sort((a, b) => a - b);
-  const names = leftOut.length === 1 ? `sensor ${leftOut[0]}` : `sensors ${leftOut.slice(0, -1).join(', ')} and ${leftOut.at(-1)}`;
-  const share = estimated.length === used.length ? 'in every reading used' : `in ${count(estimated.length)} of ${count(used.length)} readings used`;
+  const names =
+    leftOut.length === 1 ? `sensor ${leftOut[0]}` : `sensors ${leftOut.slice(0, -1).join(', ')} and ${leftOut.at(-1)}`;
+  const share =
+    estimated.length === used.length
+      ? 'in every reading used'
+      : `in ${count(estimated.length)} of ${count(used.length)} readings used`;
   return { status: 'estimated', leftOut, reason: `Estimated, ${names} left out (${share}).` };
 }

@@ -1,8 +1,11 @@
 // Numbers and times as people read them (en-GB). Pure, shared by the islands.
 
-export const fmtC = (c: number | null | undefined, digits = 1): string => (c === null || c === undefined ? '—' : `${c.toFixed(digits)} °C`);
-export const fmtL = (l: number | null | undefined): string => (l === null || l === undefined ? '—' : `${Math.round(l)} L`);
-export const fmtPct = (x: number | null | undefined): string => (x === null || x === undefined ? '—' : `${Math.round(x * 100)} %`);
+export const fmtC = (c: number | null | undefined, digits = 1): string =>
+  c === null || c === undefined ? '—' : `${c.toFixed(digits)} °C`;
+export const fmtL = (l: number | null | undefined): string =>
+  l === null || l === undefined ? '—' : `${Math.round(l)} L`;
+export const fmtPct = (x: number | null | undefined): string =>
+  x === null || x === undefined ? '—' : `${Math.round(x * 100)} %`;
 
 /** "3 min ago", "2 h ago", "4 days ago". */
 export function fmtAgo(iso: string | null | undefined, now: number): string {
@@ -22,5 +25,7 @@ export function fmtDuration(hours: number): string {
   return h === 0 ? `${m} min` : m === 0 ? `${h} h` : `${h} h ${m} min`;
 }
 
-export const fmtTime = (ms: number): string => new Date(ms).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
-export const fmtClock = (ms: number): string => new Date(ms).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
+export const fmtTime = (ms: number): string =>
+  new Date(ms).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+export const fmtClock = (ms: number): string =>
+  new Date(ms).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });

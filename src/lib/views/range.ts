@@ -1,8 +1,18 @@
 // The tank view's time ranges: presets and a custom span, as from/to for the readings API.
 export const rangePresets = ['6h', '24h', '7d', '30d'] as const;
 export type RangePreset = (typeof rangePresets)[number];
-export const presetLabels: Record<RangePreset, string> = { '6h': '6 hours', '24h': '24 hours', '7d': '7 days', '30d': '30 days' };
-const presetMs: Record<RangePreset, number> = { '6h': 6 * 3_600_000, '24h': 86_400_000, '7d': 7 * 86_400_000, '30d': 30 * 86_400_000 };
+export const presetLabels: Record<RangePreset, string> = {
+  '6h': '6 hours',
+  '24h': '24 hours',
+  '7d': '7 days',
+  '30d': '30 days',
+};
+const presetMs: Record<RangePreset, number> = {
+  '6h': 6 * 3_600_000,
+  '24h': 86_400_000,
+  '7d': 7 * 86_400_000,
+  '30d': 30 * 86_400_000,
+};
 
 export type RangeChoice = { preset: RangePreset } | { preset: 'custom'; from: number; to: number };
 

@@ -17,16 +17,36 @@ export interface RefillEstimate {
  * column resolves). Ignores losses and draws meanwhile, which the page says.
  */
 export function refillEstimate(input: {
-  toFullKWh: number | null; hpOutputW: number; immersionRatingW: number; compressorOn: boolean | null; immersionW: number | null; now: number;
+  toFullKWh: number | null;
+  hpOutputW: number;
+  immersionRatingW: number;
+  compressorOn: boolean | null;
+  immersionW: number | null;
+  now: number;
 }): RefillEstimate {
   const { toFullKWh } = input;
   if (toFullKWh === null) return { state: 'unknown', hours: null, source: null, readyAt: null };
   if (toFullKWh < 0.1) return { state: 'full', hours: 0, source: null, readyAt: null };
   const immersionOn = (input.immersionW ?? 0) > 0;
   const heating = input.compressorOn === true || immersionOn;
-  const source = input.compressorOn && input.hpOutputW > 0 ? 'heat_pump' : immersionOn ? 'immersion' : input.hpOutputW > 0 ? 'heat_pump' : input.immersionRatingW > 0 ? 'immersion' : null;
+  const source =
+    input.compressorOn && input.hpOutputW > 0
+      ? 'heat_pump'
+      : immersionOn
+        ? 'immersion'
+        : input.hpOutputW > 0
+          ? 'heat_pump'
+          : input.immersionRatingW > 0
+            ? 'immersion'
+            : null;
   if (!source) return { state: 'unknown', hours: null, source: null, readyAt: null };
-  const kW = (source === 'heat_pump' ? input.hpOutputW : immersionOn ? input.immersionW! : input.immersionRatingW) / 1000;
+  const kW =
+    (source === 'heat_pump' ? input.hpOutputW : immersionOn ? input.immersionW! : input.immersionRatingW) / 1000;
   const hours = toFullKWh / kW;
-  return { state: heating ? 'heating' : 'waiting', hours, source, readyAt: heating ? input.now + hours * 3_600_000 : null };
+  return {
+    state: heating ? 'heating' : 'waiting',
+    hours,
+    source,
+    readyAt: heating ? input.now + hours * 3_600_000 : null,
+  };
 }

@@ -17,7 +17,9 @@ export function mergeSeries(prev: ReadingsResponse, next: ReadingsResponse, from
     ...next,
     from: new Date(from).toISOString(),
     t: join(prev.t, next.t),
-    layers: next.layers.map((col, k) => join<number | null>(prev.layers[k] ?? new Array<null>(prev.t.length).fill(null), col)),
+    layers: next.layers.map((col, k) =>
+      join<number | null>(prev.layers[k] ?? new Array<null>(prev.t.length).fill(null), col),
+    ),
     soc: join<number | null>(prev.soc, next.soc),
     v40L: join<number | null>(prev.v40L, next.v40L),
     compressor: join<number | null>(prev.compressor, next.compressor),

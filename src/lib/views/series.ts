@@ -13,10 +13,22 @@ export interface SeriesRow {
   flowC: number | null;
 }
 
-export interface RawRowCc { ts: Date; layersCc: (number | null)[]; compressor: boolean | null; immersionW: number | null; drawDlpm: number | null; flowCc: number | null }
+export interface RawRowCc {
+  ts: Date;
+  layersCc: (number | null)[];
+  compressor: boolean | null;
+  immersionW: number | null;
+  drawDlpm: number | null;
+  flowCc: number | null;
+}
 export interface RollupRowCc {
-  bucket: Date; samples: number; layersAvgCc: (number | null)[]; compressorSamples: number; immersionSamples: number;
-  drawAvgLpm: number | null; flowAvgCc: number | null;
+  bucket: Date;
+  samples: number;
+  layersAvgCc: (number | null)[];
+  compressorSamples: number;
+  immersionSamples: number;
+  drawAvgLpm: number | null;
+  flowAvgCc: number | null;
 }
 
 export function rawToRow(r: RawRowCc): SeriesRow {
@@ -62,11 +74,22 @@ export function toSeries(
   const m = rows.length - start;
   const layers: (number | null)[][] = Array.from({ length: n }, () => new Array(m).fill(null));
   const out: ReadingsResponse = {
-    tankId: tank.id, from: meta.from.toISOString(), to: meta.to.toISOString(), resolution: meta.resolution,
-    sensorCount: n, positionsM: tank.positionsM,
-    t: new Array(m), layers, soc: new Array(m), v40L: new Array(m),
-    compressor: new Array(m), immersion: new Array(m), drawLpm: new Array(m), flowC: new Array(m),
-    quality: { status: 'measured', leftOut: [], reason: null }, qualityAt: new Array(m),
+    tankId: tank.id,
+    from: meta.from.toISOString(),
+    to: meta.to.toISOString(),
+    resolution: meta.resolution,
+    sensorCount: n,
+    positionsM: tank.positionsM,
+    t: new Array(m),
+    layers,
+    soc: new Array(m),
+    v40L: new Array(m),
+    compressor: new Array(m),
+    immersion: new Array(m),
+    drawLpm: new Array(m),
+    flowC: new Array(m),
+    quality: { status: 'measured', leftOut: [], reason: null },
+    qualityAt: new Array(m),
   };
   for (let i = 0; i < m; i++) {
     const r = rows[start + i]!;
@@ -105,9 +128,13 @@ export function nearestIndex(times: readonly number[], t: number): number {
 }
 
 /** Every layer's value at one index, top first (how people read a column), with its height. */
-export function columnAt(s: Pick<ReadingsResponse, 't' | 'layers' | 'positionsM'>, index: number): { layer: number; heightM: number; tempC: number | null }[] {
+export function columnAt(
+  s: Pick<ReadingsResponse, 't' | 'layers' | 'positionsM'>,
+  index: number,
+): { layer: number; heightM: number; tempC: number | null }[] {
   const out = [];
-  for (let k = s.layers.length - 1; k >= 0; k--) out.push({ layer: k + 1, heightM: s.positionsM[k] ?? 0, tempC: s.layers[k]![index] ?? null });
+  for (let k = s.layers.length - 1; k >= 0; k--)
+    out.push({ layer: k + 1, heightM: s.positionsM[k] ?? 0, tempC: s.layers[k]![index] ?? null });
   return out;
 }
 
@@ -116,7 +143,8 @@ export function cellSpans(times: readonly number[], maxGapMs: number): { from: n
   return times.map((t, i) => {
     const prev = i > 0 ? times[i - 1]! : null;
     const next = i + 1 < times.length ? times[i + 1]! : null;
-    const half = (other: number | null) => (other === null || Math.abs(other - t) > maxGapMs ? maxGapMs / 2 : Math.abs(other - t) / 2);
+    const half = (other: number | null) =>
+      other === null || Math.abs(other - t) > maxGapMs ? maxGapMs / 2 : Math.abs(other - t) / 2;
     return { from: t - half(prev), to: t + half(next) };
   });
 }

@@ -23,7 +23,9 @@ function analysisFor(tank: TankRecord, th: Thresholds): Promise<TankAnalysis> {
   const from = new Date(to.getTime() - th.legionellaWindowDays * 86_400_000);
   // Legionella exposure against the company's own alert settings, so the page and the alert agree.
   const legionella = { thresholdC: th.legionellaC, holdMin: th.legionellaHoldMin };
-  const value = readingsInRange(tank.id, from, to, 'raw').then((rows) => analyseTank(rows, { ...tank }, { from, to }, legionella));
+  const value = readingsInRange(tank.id, from, to, 'raw').then((rows) =>
+    analyseTank(rows, { ...tank }, { from, to }, legionella),
+  );
   value.catch(() => analyses.delete(tank.id));
   analyses.set(tank.id, { at: Date.now(), value });
   if (analyses.size > 2000) analyses.delete(analyses.keys().next().value!);
@@ -36,8 +38,14 @@ async function openAlertsOf(scope: Scope, tankId: string): Promise<AttentionItem
   return items
     .sort((a, b) => attentionPriority[a.kind] - attentionPriority[b.kind])
     .map((a) => ({
-      kind: a.kind, label: attentionLabels[a.kind], detail: a.evidence.summary, alertId: a.id, severity: a.severity,
-      state: a.state as AttentionItem['state'], openedAt: a.openedAt, at: a.evidence.at,
+      kind: a.kind,
+      label: attentionLabels[a.kind],
+      detail: a.evidence.summary,
+      alertId: a.id,
+      severity: a.severity,
+      state: a.state as AttentionItem['state'],
+      openedAt: a.openedAt,
+      at: a.evidence.at,
     }));
 }
 
@@ -49,23 +57,48 @@ export async function tankDetail(scope: Scope, id: string): Promise<TankDetail> 
   // The writer's figures of the same reading (same function, same stuck sensors).
   const figures = columnFigures(layersC, tank, tank.latest?.stuck ?? []);
   return {
-    id: tank.id, serial: tank.serial, model: tank.model, volumeL: tank.volumeL, heightM: tank.heightM, sensorCount: tank.sensorCount,
+    id: tank.id,
+    serial: tank.serial,
+    model: tank.model,
+    volumeL: tank.volumeL,
+    heightM: tank.heightM,
+    sensorCount: tank.sensorCount,
     positionsM: sensorPositions(tank.sensorCount, tank.heightM, tank.sensorHeightsM),
-    heatSource: tank.heatSource, hpOutputW: tank.hpOutputW, immersionRatingW: tank.immersionW, targetC: tank.targetC, hysteresisK: tank.hysteresisK,
+    heatSource: tank.heatSource,
+    hpOutputW: tank.hpOutputW,
+    immersionRatingW: tank.immersionW,
+    targetC: tank.targetC,
+    hysteresisK: tank.hysteresisK,
     home: tank.home,
-    latest: tank.latest ? {
-      ts: tank.latest.ts?.toISOString() ?? null, lastSeenAt: tank.latest.lastSeenAt?.toISOString() ?? null, online: tank.latest.online,
-      layersC, flowC: tank.latest.flowC, returnC: tank.latest.returnC, compressor: tank.latest.compressor, immersionW: tank.latest.immersionW,
-      powerW: tank.latest.powerW, drawLpm: tank.latest.drawLpm,
-    } : null,
+    latest: tank.latest
+      ? {
+          ts: tank.latest.ts?.toISOString() ?? null,
+          lastSeenAt: tank.latest.lastSeenAt?.toISOString() ?? null,
+          online: tank.latest.online,
+          layersC,
+          flowC: tank.latest.flowC,
+          returnC: tank.latest.returnC,
+          compressor: tank.latest.compressor,
+          immersionW: tank.latest.immersionW,
+          powerW: tank.latest.powerW,
+          drawLpm: tank.latest.drawLpm,
+        }
+      : null,
     figures,
     toFullKWh: figures?.toFullKWh ?? null,
     status: statusOf(attention.map((a) => a.kind)),
     attention,
     commissioning: {
-      commissionedAt: tank.commissionedAt?.toISOString() ?? null, heatSource: tank.heatSource, targetC: tank.targetC, hysteresisK: tank.hysteresisK,
-      hpOutputW: tank.hpOutputW, immersionRatingW: tank.immersionW, sensorCount: tank.sensorCount, declaredLossW: tank.declaredLossW,
-      declaredClass: tank.declaredLossW !== null ? erpClass({ volumeL: tank.volumeL, standingLossW: tank.declaredLossW }) : null,
+      commissionedAt: tank.commissionedAt?.toISOString() ?? null,
+      heatSource: tank.heatSource,
+      targetC: tank.targetC,
+      hysteresisK: tank.hysteresisK,
+      hpOutputW: tank.hpOutputW,
+      immersionRatingW: tank.immersionW,
+      sensorCount: tank.sensorCount,
+      declaredLossW: tank.declaredLossW,
+      declaredClass:
+        tank.declaredLossW !== null ? erpClass({ volumeL: tank.volumeL, standingLossW: tank.declaredLossW }) : null,
     },
     analysis,
   };

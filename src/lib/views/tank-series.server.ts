@@ -11,5 +11,7 @@ import { toSeries } from './series';
 export async function tankSeries(tank: TankRecord, range: RangeQuery): Promise<ReadingsResponse> {
   const rows = await readingsInRange(tank.id, range.from, range.to, range.resolution);
   const shape = { ...tank, positionsM: sensorPositions(tank.sensorCount, tank.heightM, tank.sensorHeightsM) };
-  return range.resolution === 'raw' ? toSeries(rows, shape, range, memoFigures(tank.id, rows, tank)) : toSeries(rows, shape, range);
+  return range.resolution === 'raw'
+    ? toSeries(rows, shape, range, memoFigures(tank.id, rows, tank))
+    : toSeries(rows, shape, range);
 }

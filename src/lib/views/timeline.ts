@@ -2,7 +2,14 @@
 import { shortCycleViolations } from '../thermal';
 import type { TimelineEvent, TimelineKind } from './contracts';
 
-export interface EventRow { kind: 'compressor_run' | 'immersion_run' | 'draw'; startedAt: Date; endedAt: Date | null; energyWh: number; litres: number; complete: boolean }
+export interface EventRow {
+  kind: 'compressor_run' | 'immersion_run' | 'draw';
+  startedAt: Date;
+  endedAt: Date | null;
+  energyWh: number;
+  litres: number;
+  complete: boolean;
+}
 
 /**
  * Marks compressor runs whose start follows the previous start sooner than `minGapMin`
@@ -10,8 +17,13 @@ export interface EventRow { kind: 'compressor_run' | 'immersion_run' | 'draw'; s
  * that the first run in range is judged too.
  */
 export function markShortCycles(rows: readonly EventRow[], minGapMin: number, before: Date | null): TimelineEvent[] {
-  const runs = rows.filter((r) => r.kind === 'compressor_run').sort((a, b) => a.startedAt.getTime() - b.startedAt.getTime());
-  const starts = [...(before ? [{ start: before.getTime(), row: null }] : []), ...runs.map((r) => ({ start: r.startedAt.getTime(), row: r }))];
+  const runs = rows
+    .filter((r) => r.kind === 'compressor_run')
+    .sort((a, b) => a.startedAt.getTime() - b.startedAt.getTime());
+  const starts = [
+    ...(before ? [{ start: before.getTime(), row: null }] : []),
+    ...runs.map((r) => ({ start: r.startedAt.getTime(), row: r })),
+  ];
   const flagged = new Set(shortCycleViolations(starts, { minGapMin }).map((s) => s.row));
   return rows.map((r) => ({
     kind: r.kind,
@@ -32,7 +44,13 @@ export const laneLabels: Record<TimelineKind, string> = {
   command: 'Commands',
 };
 
-export interface LaneBar { kind: TimelineKind; from: number; to: number; shortCycle: boolean; title: string }
+export interface LaneBar {
+  kind: TimelineKind;
+  from: number;
+  to: number;
+  shortCycle: boolean;
+  title: string;
+}
 
 /** Bars per lane clipped to [from, to]; an open run ends at `now`, a command is a short mark. */
 export function timelineBars(items: readonly TimelineEvent[], from: number, to: number, now: number): LaneBar[] {
@@ -41,7 +59,13 @@ export function timelineBars(items: readonly TimelineEvent[], from: number, to: 
     const start = Date.parse(e.startedAt);
     const end = e.endedAt ? Date.parse(e.endedAt) : e.kind === 'command' ? start : Math.min(now, to);
     if (end < from || start > to) continue;
-    out.push({ kind: e.kind, from: Math.max(from, start), to: Math.min(to, Math.max(end, start)), shortCycle: e.shortCycle, title: describeEvent(e) });
+    out.push({
+      kind: e.kind,
+      from: Math.max(from, start),
+      to: Math.min(to, Math.max(end, start)),
+      shortCycle: e.shortCycle,
+      title: describeEvent(e),
+    });
   }
   return out;
 }
@@ -51,9 +75,13 @@ function describeEvent(e: TimelineEvent): string {
   const mins = e.endedAt ? Math.round((Date.parse(e.endedAt) - at.getTime()) / 60000) : null;
   const time = at.toISOString().slice(11, 16);
   switch (e.kind) {
-    case 'compressor_run': return `Heat pump run from ${time} UTC${mins !== null ? `, ${mins} min` : ', still running'}${e.energyWh ? `, ${(e.energyWh / 1000).toFixed(2)} kWh` : ''}${e.shortCycle ? ' (short-cycle start)' : ''}`;
-    case 'immersion_run': return `Immersion on from ${time} UTC${mins !== null ? `, ${mins} min` : ', still on'}${e.energyWh ? `, ${(e.energyWh / 1000).toFixed(2)} kWh` : ''}`;
-    case 'draw': return `Hot water drawn at ${time} UTC${e.litres ? `, ${e.litres.toFixed(0)} L` : ''}`;
-    case 'command': return `Command ${e.command?.kind ?? ''} at ${time} UTC: ${e.command?.state ?? ''}`;
+    case 'compressor_run':
+      return `Heat pump run from ${time} UTC${mins !== null ? `, ${mins} min` : ', still running'}${e.energyWh ? `, ${(e.energyWh / 1000).toFixed(2)} kWh` : ''}${e.shortCycle ? ' (short-cycle start)' : ''}`;
+    case 'immersion_run':
+      return `Immersion on from ${time} UTC${mins !== null ? `, ${mins} min` : ', still on'}${e.energyWh ? `, ${(e.energyWh / 1000).toFixed(2)} kWh` : ''}`;
+    case 'draw':
+      return `Hot water drawn at ${time} UTC${e.litres ? `, ${e.litres.toFixed(0)} L` : ''}`;
+    case 'command':
+      return `Command ${e.command?.kind ?? ''} at ${time} UTC: ${e.command?.state ?? ''}`;
   }
 }

@@ -6,7 +6,17 @@ import { launchBrowser, baseUrl, screenshot, waitForIslands } from '../../suppor
 import { signIn } from '../../support/session';
 import { query } from '../../support/db';
 import { signedInContext } from '../views/helpers';
-import { AcceleratedFleet, HOUR, addTank, createCompany, dropCompany, openKinds, startDaysAgo, type AlertCompany, type SimTankRow } from '../../integration/alerts/harness';
+import {
+  AcceleratedFleet,
+  HOUR,
+  addTank,
+  createCompany,
+  dropCompany,
+  openKinds,
+  startDaysAgo,
+  type AlertCompany,
+  type SimTankRow,
+} from '../../integration/alerts/harness';
 
 let browser: Browser;
 let company: AlertCompany;
@@ -14,13 +24,24 @@ let tanks: SimTankRow[];
 
 beforeAll(async () => {
   company = await createCompany();
-  tanks = [await addTank(company, 18, ['sensor_open']), await addTank(company, 27, ['short_cycle']), await addTank(company, 3, ['sensors_swapped']), await addTank(company, 15)];
+  tanks = [
+    await addTank(company, 18, ['sensor_open']),
+    await addTank(company, 27, ['short_cycle']),
+    await addTank(company, 3, ['sensors_swapped']),
+    await addTank(company, 15),
+  ];
   const start = startDaysAgo(12);
   const fleet = new AcceleratedFleet(company, tanks, start);
-  await fleet.run(start + 12 * HOUR, async () => (await openKinds(tanks[1]!.id)).length > 0 && (await openKinds(tanks[2]!.id)).length > 0);
+  await fleet.run(
+    start + 12 * HOUR,
+    async () => (await openKinds(tanks[1]!.id)).length > 0 && (await openKinds(tanks[2]!.id)).length > 0,
+  );
   browser = await launchBrowser();
 }, 180_000);
-afterAll(async () => { await browser?.close(); await dropCompany(company); }, 60_000);
+afterAll(async () => {
+  await browser?.close();
+  await dropCompany(company);
+}, 60_000);
 
 describe('the alert inbox', () => {
   it('lists open alerts with their evidence, filters by kind and acknowledges in bulk', async () => {
@@ -34,7 +55,9 @@ describe('the alert inbox', () => {
     await expect.poll(() => list.getByRole('listitem').count()).toBe(3);
     expect(await page.getByRole('link', { name: 'Alerts' }).getAttribute('aria-current')).toBe('page');
     await expect.poll(() => page.getByText(/Sensor 3 \(from the bottom\) gives no reading/).count()).toBe(1);
-    expect(await page.getByRole('link', { name: tanks[0]!.serial }).getAttribute('href')).toMatch(new RegExp(`^/tanks/${tanks[0]!.id}\\?from=`));
+    expect(await page.getByRole('link', { name: tanks[0]!.serial }).getAttribute('href')).toMatch(
+      new RegExp(`^/tanks/${tanks[0]!.id}\\?from=`),
+    );
     await screenshot(page, 'alerts-inbox');
 
     await page.getByLabel('Kind').selectOption('sensor_fault');
@@ -43,17 +66,33 @@ describe('the alert inbox', () => {
     await page.getByLabel('Select all open on this page').check();
     await page.getByLabel('Note (optional)').fill('Engineer visit booked');
     await page.getByRole('button', { name: /Acknowledge 2/ }).click();
-    await expect.poll(async () => (await query<{ n: number }>(`select count(*)::int as n from alerts where company_id = $1 and state = 'acknowledged' and note = 'Engineer visit booked'`, [company.id]))[0]!.n).toBe(2);
+    await expect
+      .poll(
+        async () =>
+          (
+            await query<{ n: number }>(
+              `select count(*)::int as n from alerts where company_id = $1 and state = 'acknowledged' and note = 'Engineer visit booked'`,
+              [company.id],
+            )
+          )[0]!.n,
+      )
+      .toBe(2);
     await expect.poll(() => page.getByText('Acknowledged by Test operator', { exact: false }).count()).toBe(2);
     await screenshot(page, 'alerts-inbox-acknowledged');
-    const [{ n }] = await query<{ n: number }>(`select count(*)::int as n from alerts where company_id = $1 and kind = 'short_cycling' and state = 'open'`, [company.id]);
+    const [{ n }] = await query<{ n: number }>(
+      `select count(*)::int as n from alerts where company_id = $1 and kind = 'short_cycling' and state = 'open'`,
+      [company.id],
+    );
     expect(n).toBe(1);
     await context.close();
   }, 90_000);
 
   it('shows an admin the thresholds with their defaults and sources, and names a bad field', async () => {
     const [adminUser] = await query<{ id: string }>(`select id from "user" where id = $1`, [company.operator.id]);
-    await query(`update memberships set role = 'admin' where user_id = $1 and company_id = $2`, [adminUser!.id, company.id]);
+    await query(`update memberships set role = 'admin' where user_id = $1 and company_id = $2`, [
+      adminUser!.id,
+      company.id,
+    ]);
     const cookie = await signIn(baseUrl(), company.operator.email, 'alerts-test-password');
     const context = await signedInContext(browser, cookie);
     const page = await context.newPage();
@@ -66,7 +105,9 @@ describe('the alert inbox', () => {
     await page.getByLabel('Shortest gap between compressor starts (min)').fill('45');
     await page.getByRole('button', { name: 'Save thresholds' }).click();
     await expect.poll(() => page.getByText(/Saved\./).count()).toBe(1);
-    const [t] = await query<{ settings: any }>(`select settings from alert_thresholds where company_id = $1`, [company.id]);
+    const [t] = await query<{ settings: any }>(`select settings from alert_thresholds where company_id = $1`, [
+      company.id,
+    ]);
     expect(t!.settings.shortCycleMinGapMin).toBe(45);
     await screenshot(page, 'alerts-thresholds');
     await context.close();

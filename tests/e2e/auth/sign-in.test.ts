@@ -7,8 +7,13 @@ import { waitForMail, linkIn } from '../../support/mail';
 import { demoEmail, demoPassword } from '../../support/session';
 
 let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); await closeTestDb(); });
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await closeTestDb();
+});
 
 // Every context acts from its own invented address (TEST-NET-1, RFC 5737), so that wrong
 // passwords here never count against the address the rest of the suite signs in from.
@@ -74,7 +79,8 @@ describe('signing in, in Chromium', () => {
 
     await there.goto(`${baseUrl()}/tanks`);
     expect(there.url()).toBe(`${baseUrl()}/signin?next=%2Ftanks`);
-    await laptop.close(); await phone.close();
+    await laptop.close();
+    await phone.close();
   });
 
   it('keeps where the person was going: /admin/staff → sign in → back to /admin/staff', async () => {
@@ -109,7 +115,8 @@ describe('signing in, in Chromium', () => {
     await second.goto(link);
     expect(await second.getByRole('alert').innerText()).toContain('expired or has already been used');
     await screenshot(second, 'signin-link-used');
-    await ctx.close(); await other.close();
+    await ctx.close();
+    await other.close();
   });
 
   it('forgotten password: asks for a link, chooses a new password, lands signed in', async () => {
@@ -172,14 +179,18 @@ describe('signing in, in Chromium', () => {
     await page.goto(`${baseUrl()}/admin/audit`);
     expect(await page.locator('tr[data-action="invitation.accepted"]').first().innerText()).toContain(email);
     await screenshot(page, 'admin-audit');
-    await ctx.close(); await invitee.close();
+    await ctx.close();
+    await invitee.close();
   });
 
   it('an expired invitation link says so', async () => {
     const ctx = await context();
     const page = await ctx.newPage();
     await signInWithPassword(page, demoEmail('admin', 'orrin-bay'), demoPassword());
-    const res = await page.request.post(`${baseUrl()}/api/invitations`, { data: { email: `e2e-late-${Date.now()}@orrinbay.example.com`, role: 'operator' }, headers: { origin: baseUrl() } });
+    const res = await page.request.post(`${baseUrl()}/api/invitations`, {
+      data: { email: `e2e-late-${Date.now()}@orrinbay.example.com`, role: 'operator' },
+      headers: { origin: baseUrl() },
+    });
     const { invitation } = await res.json();
     await query(`update invitations set expires_at = now() - interval '1 minute' where id = $1`, [invitation.id]);
     const mail = await waitForMail(invitation.email, /invitation/, new Date(Date.now() - 60_000));
@@ -188,7 +199,8 @@ describe('signing in, in Chromium', () => {
     const answer = await p2.goto(linkIn(mail, baseUrl()));
     expect(answer?.status()).toBe(410);
     expect(await p2.getByRole('alert').innerText()).toContain('expired');
-    await ctx.close(); await anon.close();
+    await ctx.close();
+    await anon.close();
   });
 
   it('handover: an engineer invites the householder of a home, who then sees that home only', async () => {
@@ -215,6 +227,7 @@ describe('signing in, in Chromium', () => {
     await p2.waitForURL((u) => !u.pathname.startsWith('/accept-invitation'));
     const me = await (await p2.request.get(`${baseUrl()}/api/me`)).json();
     expect(me).toMatchObject({ role: 'householder', homeIds: [home] });
-    await ctx.close(); await hh.close();
+    await ctx.close();
+    await hh.close();
   });
 });

@@ -7,8 +7,12 @@ import { signInAs } from '../../support/session';
 import { demoTanks } from '../../../src/lib/demo/scenario';
 
 let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
 
 const kestrel = demoTanks().filter((t) => t.companySlug === 'kestrel-vale');
 
@@ -16,10 +20,12 @@ describe('the lived-in demo in Chromium', () => {
   it('lists signed records on the Commissioning page and overdue and due inspections on the Service page', async () => {
     const cookie = await signInAs(baseUrl(), 'operator', 'kestrel-vale');
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-    await ctx.addCookies(cookie.split('; ').map((pair) => {
-      const i = pair.indexOf('=');
-      return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
-    }));
+    await ctx.addCookies(
+      cookie.split('; ').map((pair) => {
+        const i = pair.indexOf('=');
+        return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
+      }),
+    );
     const page = await ctx.newPage();
 
     await page.goto(`${baseUrl()}/commissioning`);
@@ -38,12 +44,17 @@ describe('the lived-in demo in Chromium', () => {
     await expect(page.getByRole('link', { name: 'Record (PDF)' }).count()).resolves.toBe(1);
     const photos = page.locator('section', { hasText: 'Photos and documents' }).locator('img');
     expect(await photos.count()).toBeGreaterThanOrEqual(1);
-    await page.waitForFunction(() => [...document.querySelectorAll('section img')].every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0));
+    await page.waitForFunction(() =>
+      [...document.querySelectorAll('section img')].every(
+        (i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0,
+      ),
+    );
     await screenshot(page, 'demo-commissioning-record');
 
     await page.goto(`${baseUrl()}/service`);
     const overdue = kestrel.filter((t) => t.inspectionMissed).map((t) => t.serial);
-    for (const serial of overdue) await expect(page.locator(`[data-due="${serial}"]`).getAttribute('data-state')).resolves.toBe('overdue');
+    for (const serial of overdue)
+      await expect(page.locator(`[data-due="${serial}"]`).getAttribute('data-state')).resolves.toBe('overdue');
     expect(await page.locator('[data-state="due_soon"]').count()).toBeGreaterThan(0);
     await screenshot(page, 'demo-service');
 

@@ -6,16 +6,23 @@ import { signInAs } from '../../support/session';
 import { commissionOverHttp, installRow, installsHeader, jpegPhoto } from '../../support/commissioning';
 
 let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); await closeTestDb(); });
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await closeTestDb();
+});
 
 async function contextAs(role: 'admin' | 'engineer'): Promise<BrowserContext> {
   const cookie = await signInAs(baseUrl(), role, 'kestrel-vale');
   const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  await ctx.addCookies(cookie.split('; ').map((pair) => {
-    const i = pair.indexOf('=');
-    return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
-  }));
+  await ctx.addCookies(
+    cookie.split('; ').map((pair) => {
+      const i = pair.indexOf('=');
+      return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
+    }),
+  );
   return ctx;
 }
 
@@ -27,18 +34,31 @@ describe('service desk and administration in Chromium', () => {
     await waitForIslands(page);
     const good = [installRow(), installRow()];
     const serialsOf = (rows: string[]) => rows.map((r) => r.split(',')[7]);
-    const stored = async (serials: string[]) => (await query('select id from tanks where serial = any($1)', [serials])).length;
+    const stored = async (serials: string[]) =>
+      (await query('select id from tanks where serial = any($1)', [serials])).length;
 
-    await page.setInputFiles('#installs-csv', { name: 'mixed.csv', mimeType: 'text/csv', buffer: Buffer.from([installsHeader, good[0], installRow({ volume_l: '-5' }), installRow({ heat_source: 'wood' })].join('\n')) });
+    await page.setInputFiles('#installs-csv', {
+      name: 'mixed.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(
+        [installsHeader, good[0], installRow({ volume_l: '-5' }), installRow({ heat_source: 'wood' })].join('\n'),
+      ),
+    });
     await page.locator('[data-preview]').waitFor();
     await expect(page.locator('[data-error-row]').count()).resolves.toBe(2);
-    await expect(page.locator('[data-error-row="3"]').textContent()).resolves.toContain('volume_l must be at least 30.');
+    await expect(page.locator('[data-error-row="3"]').textContent()).resolves.toContain(
+      'volume_l must be at least 30.',
+    );
     await expect(page.locator('[data-error-row="4"]').textContent()).resolves.toContain('heat_source must be one of');
     expect(await page.getByRole('button', { name: /Import all/ }).count()).toBe(0);
     await screenshot(page, 'import-errors');
     expect(await stored(serialsOf(good))).toBe(0);
 
-    await page.setInputFiles('#installs-csv', { name: 'good.csv', mimeType: 'text/csv', buffer: Buffer.from([installsHeader, ...good].join('\n')) });
+    await page.setInputFiles('#installs-csv', {
+      name: 'good.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from([installsHeader, ...good].join('\n')),
+    });
     await page.getByRole('button', { name: 'Import all 2 installs' }).click();
     await page.getByText('Imported 2 installs.').waitFor();
     expect(await stored(serialsOf(good))).toBe(2);
@@ -55,9 +75,11 @@ describe('service desk and administration in Chromium', () => {
     await query("update commissionings set signed_at = now() - interval '13 months' where tank_id = $1", [c.tankId]);
     const [{ serial }] = await query<{ serial: string }>('select serial from tanks where id = $1', [c.tankId]);
 
-    const [alert] = await query<{ id: string }>(`insert into alerts (company_id, tank_id, kind, severity, evidence, opened_at)
+    const [alert] = await query<{ id: string }>(
+      `insert into alerts (company_id, tank_id, kind, severity, evidence, opened_at)
       select company_id, id, 'heat_loss', 'warning', $2::jsonb, now() - interval '3 days' from tanks where id = $1 returning id`,
-      [c.tankId, JSON.stringify({ summary: 'Standing loss above the declared figure.', facts: {}, at: Date.now() })]);
+      [c.tankId, JSON.stringify({ summary: 'Standing loss above the declared figure.', facts: {}, at: Date.now() })],
+    );
     const ctx = await contextAs('engineer');
     const page = await ctx.newPage();
     await page.goto(`${baseUrl()}/service`);
@@ -73,13 +95,19 @@ describe('service desk and administration in Chromium', () => {
     await page.fill('#f-inletPressureBar', '3.1');
     await page.check('#f-reliefValveTested');
     await page.check(`#f-alert-${alert.id}`);
-    await page.setInputFiles('#upload-file', { name: 'tundish.jpg', mimeType: 'image/jpeg', buffer: await jpegPhoto(900, 700) });
+    await page.setInputFiles('#upload-file', {
+      name: 'tundish.jpg',
+      mimeType: 'image/jpeg',
+      buffer: await jpegPhoto(900, 700),
+    });
     await page.locator('[data-upload]').waitFor();
     await page.getByRole('button', { name: 'Record the visit' }).click();
     await page.locator('[data-history="visit"]').waitFor();
     await expect(page.locator('[data-history="visit"]').textContent()).resolves.toContain('1 × anode');
     await expect(page.locator('[data-history="visit"] img').count()).resolves.toBe(1);
-    await expect(page.locator('[data-history="visit"]').textContent()).resolves.toContain('Alerts resolved: Heat loss above declared');
+    await expect(page.locator('[data-history="visit"]').textContent()).resolves.toContain(
+      'Alerts resolved: Heat loss above declared',
+    );
     const [resolved] = await query<{ state: string }>('select state from alerts where id = $1', [alert.id]);
     expect(resolved.state).toBe('resolved');
     await screenshot(page, 'service-history');

@@ -20,10 +20,12 @@ const sensor = { r25Ohm: 10_000, betaK: 3977 };
 /** A browser context carrying a session from the API sign-in. */
 async function contextFor(cookie: string): Promise<BrowserContext> {
   const ctx = await browser.newContext({ viewport: { width: 430, height: 932 } });
-  await ctx.addCookies(cookie.split('; ').map((pair) => {
-    const i = pair.indexOf('=');
-    return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
-  }));
+  await ctx.addCookies(
+    cookie.split('; ').map((pair) => {
+      const i = pair.indexOf('=');
+      return { name: pair.slice(0, i), value: pair.slice(i + 1), url: baseUrl() };
+    }),
+  );
   return ctx;
 }
 
@@ -39,7 +41,12 @@ beforeAll(async () => {
   context = await contextFor(engineerCookie);
   // The company's administrator keeps the list of heat-pump models.
   const admin = { base: baseUrl(), cookie: await signInAs(baseUrl(), 'admin', 'kestrel-vale') };
-  const m = await call(admin, 'POST', '/api/commissioning/heat-pump-models', { name: modelName, outputW: 8000, ntcR25Ohm: sensor.r25Ohm, ntcBetaK: sensor.betaK });
+  const m = await call(admin, 'POST', '/api/commissioning/heat-pump-models', {
+    name: modelName,
+    outputW: 8000,
+    ntcR25Ohm: sensor.r25Ohm,
+    ntcBetaK: sensor.betaK,
+  });
   if (m.status !== 201) throw new Error(`Adding the heat-pump model answered ${m.status}: ${JSON.stringify(m.body)}`);
 }, 60_000);
 
@@ -77,7 +84,13 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await page.getByRole('button', { name: 'Scan the code' }).click();
     const camera = page.getByLabel('Camera view for scanning the serial');
     await camera.waitFor({ timeout: 15_000 });
-    await page.waitForFunction(() => ((document.querySelector('[aria-label="Camera view for scanning the serial"]') as HTMLMediaElement | null)?.readyState ?? 0) >= 2, undefined, { timeout: 15_000 });
+    await page.waitForFunction(
+      () =>
+        ((document.querySelector('[aria-label="Camera view for scanning the serial"]') as HTMLMediaElement | null)
+          ?.readyState ?? 0) >= 2,
+      undefined,
+      { timeout: 15_000 },
+    );
     await page.getByRole('button', { name: 'Stop scanning' }).click();
     await expect(camera.count()).resolves.toBe(0);
     // A bad value first, refused with the field named
@@ -89,7 +102,9 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await page.selectOption('#f-exchanger', 'plate_ports');
     await page.fill('#f-immersionW', '3000');
     await page.getByRole('button', { name: 'Save and continue' }).click();
-    await expect(page.locator('#f-volumeL-error').textContent()).resolves.toBe('Enter the volume as a number (litres).');
+    await expect(page.locator('#f-volumeL-error').textContent()).resolves.toBe(
+      'Enter the volume as a number (litres).',
+    );
     await page.fill('#f-volumeL', '210');
     await page.fill('#f-declaredLossW', '1.6');
     await saveStep(page, 'Heat source and sensor input');
@@ -116,7 +131,9 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     // 10 kΩ NTC, B ≈ 3977 K: ≈ 25 kΩ at ≈ 6 °C and ≈ 4 kΩ at ≈ 47 °C (common practice).
     expect(await call6.textContent()).toBe('24.79 kΩ');
     expect(Number((await sat47.textContent())!.replace(' kΩ', ''))).toBeCloseTo(4.0, 1);
-    await expect(page.locator('[data-setting="call"] ol').textContent()).resolves.toContain('R = 10,000 Ω × exp(0.9079) = 24,791 Ω');
+    await expect(page.locator('[data-setting="call"] ol').textContent()).resolves.toContain(
+      'R = 10,000 Ω × exp(0.9079) = 24,791 Ω',
+    );
     await screenshot(page, 'commissioning-heat-source');
     await saveStep(page, 'Target temperature');
 
@@ -147,16 +164,31 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
 
     // 7. Safety checklist, with the competent-person caution
     await expect(page.getByRole('note').filter({ hasText: 'competent, licensed person' }).count()).resolves.toBe(1);
-    for (const item of ['expansion', 'reliefValve', 'discharge', 'reducingValve', 'isolation', 'competentPerson']) await page.check(`#f-${item}`);
+    for (const item of ['expansion', 'reliefValve', 'discharge', 'reducingValve', 'isolation', 'competentPerson'])
+      await page.check(`#f-${item}`);
     await saveStep(page, 'Photos and documents');
 
     // 8. Photos: a wrong file is refused with a clear message, a photo is kept
-    await page.setInputFiles('#upload-file', { name: 'notes.txt', mimeType: 'text/plain', buffer: Buffer.from('not a photo') });
-    await expect(page.getByRole('alert').textContent()).resolves.toMatch(/“notes.txt” is not a photo \(JPEG, PNG or WebP\) or a PDF document/);
+    await page.setInputFiles('#upload-file', {
+      name: 'notes.txt',
+      mimeType: 'text/plain',
+      buffer: Buffer.from('not a photo'),
+    });
+    await expect(page.getByRole('alert').textContent()).resolves.toMatch(
+      /“notes.txt” is not a photo \(JPEG, PNG or WebP\) or a PDF document/,
+    );
     await screenshot(page, 'commissioning-upload-refused');
-    await page.setInputFiles('#upload-file', { name: 'data-plate.jpg', mimeType: 'image/jpeg', buffer: await jpegPhoto(1200, 900) });
+    await page.setInputFiles('#upload-file', {
+      name: 'data-plate.jpg',
+      mimeType: 'image/jpeg',
+      buffer: await jpegPhoto(1200, 900),
+    });
     await page.locator('[data-upload]').first().waitFor();
-    await page.waitForFunction(() => [...document.querySelectorAll('[data-upload] img')].every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0));
+    await page.waitForFunction(() =>
+      [...document.querySelectorAll('[data-upload] img')].every(
+        (i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0,
+      ),
+    );
     await screenshot(page, 'commissioning-photos');
     await saveStep(page, 'Sign-off and handover');
 
@@ -167,24 +199,42 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     await screenshot(page, 'commissioning-signed');
 
     // The tank is commissioned with the wizard's answers.
-    const [tank] = await query<{ id: string; commissioned_at: Date | null; heat_source: string; sensor_count: number; target_c: number }>(
-      'select id, commissioned_at, heat_source, sensor_count, target_c from tanks where serial = $1', [serial]);
+    const [tank] = await query<{
+      id: string;
+      commissioned_at: Date | null;
+      heat_source: string;
+      sensor_count: number;
+      target_c: number;
+    }>('select id, commissioned_at, heat_source, sensor_count, target_c from tanks where serial = $1', [serial]);
     expect(tank).toMatchObject({ heat_source: 'hp_plate', sensor_count: 6, target_c: 60 });
     expect(tank.commissioned_at).not.toBeNull();
 
     // The PDF, parsed back.
-    const pdfRes = await fetch(`${baseUrl()}/api/commissioning/${id}/record.pdf`, { headers: { cookie: engineerCookie } });
+    const pdfRes = await fetch(`${baseUrl()}/api/commissioning/${id}/record.pdf`, {
+      headers: { cookie: engineerCookie },
+    });
     expect(pdfRes.status).toBe(200);
     const text = await pdfText(new Uint8Array(await pdfRes.arrayBuffer()));
     for (const expected of [
-      'Hot-water cylinder commissioning record', 'Kestrel Vale Heating Co-operative', serial, '12 Heron Close, Ashby Wend WM2 8HC',
-      'Heat pump through a plate heat exchanger', '24.79 kohm (reads 6 °C)', '60 °C, reheat 5 K below',
-      '14.5 °C, 21.0 °C, 33.5 °C, 47.0 °C, 54.5 °C, 58.5 °C', 'engineer@kestrelvale.example.com', 'competent, licensed person', 'HSG274',
-    ]) expect(text).toContain(expected);
+      'Hot-water cylinder commissioning record',
+      'Kestrel Vale Heating Co-operative',
+      serial,
+      '12 Heron Close, Ashby Wend WM2 8HC',
+      'Heat pump through a plate heat exchanger',
+      '24.79 kohm (reads 6 °C)',
+      '60 °C, reheat 5 K below',
+      '14.5 °C, 21.0 °C, 33.5 °C, 47.0 °C, 54.5 °C, 58.5 °C',
+      'engineer@kestrelvale.example.com',
+      'competent, licensed person',
+      'HSG274',
+    ])
+      expect(text).toContain(expected);
 
     // The signed record page.
     await page.goto(`${baseUrl()}/commissioning/${id}`);
-    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(`Commissioning record · ${serial}`);
+    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(
+      `Commissioning record · ${serial}`,
+    );
     await screenshot(page, 'commissioning-record');
     expect(consoleErrors).toEqual([]);
     await page.close();
@@ -205,7 +255,11 @@ describe('commissioning wizard in Chromium, as a field engineer', () => {
     const [home] = await query<{ home_id: string }>('select home_id from commissionings where id = $1', [id]);
     expect(me).toMatchObject({ email: householderEmail, role: 'householder', homeIds: [home.home_id] });
     // Only for the screenshot: let the householder's page finish loading (its own tests check it).
-    await hp.waitForFunction(() => !document.body.innerText.includes('Checking your hot water'), undefined, { timeout: 15_000 }).catch(() => undefined);
+    await hp
+      .waitForFunction(() => !document.body.innerText.includes('Checking your hot water'), undefined, {
+        timeout: 15_000,
+      })
+      .catch(() => undefined);
     await screenshot(hp, 'commissioning-householder-signed-in');
     await guest.close();
   }, 180_000);

@@ -5,7 +5,14 @@ import { baseUrl, launchBrowser, screenshot, waitForIslands } from '../../suppor
 import { closeTestDb, query } from '../../support/db';
 import { signIn, signInAs } from '../../support/session';
 import { localDayBounds } from '../../../src/lib/energy';
-import { dropTanks, makeTank, setHomeTariff, setLatest, writeHandWorkedDay, type EnergyTank } from '../../integration/energy/fixtures';
+import {
+  dropTanks,
+  makeTank,
+  setHomeTariff,
+  setLatest,
+  writeHandWorkedDay,
+  type EnergyTank,
+} from '../../integration/energy/fixtures';
 import { signedInContext } from '../views/helpers';
 
 let browser: Browser;
@@ -17,10 +24,25 @@ beforeAll(async () => {
   tank = await makeTank('kestrel-vale', { declaredLossW: 45 });
   const day = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
   // The hand-worked day of tests/integration/energy/energy.test.ts: 1 kWh at 10 p + 1.5 kWh at 30 p = 55 p.
-  await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 0, validFromMs: localDayBounds(day, 'Europe/London').startMs - 86_400_000, validToMs: null });
+  await setHomeTariff(tank, {
+    kind: 'day_night',
+    timeZone: 'Europe/London',
+    nightStartMin: 30,
+    nightEndMin: 330,
+    dayImportPence: 30,
+    nightImportPence: 10,
+    exportPence: 0,
+    validFromMs: localDayBounds(day, 'Europe/London').startMs - 86_400_000,
+    validToMs: null,
+  });
   await writeHandWorkedDay(tank, day);
   await setLatest(tank, [40, 50, 53, 55]);
-  const own = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: tank.homeId, label: 'energy-e2e' });
+  const own = await createAccount({
+    company: 'kestrel-vale',
+    role: 'householder',
+    homeId: tank.homeId,
+    label: 'energy-e2e',
+  });
   householder = await signIn(baseUrl(), own.email, own.password);
 }, 60_000);
 afterAll(async () => {
@@ -42,7 +64,12 @@ describe('energy and planning in Chromium', () => {
     await page.getByRole('button', { name: 'Work out a plan' }).click();
     await page.getByTestId('plan-summary').waitFor({ timeout: 30_000 });
     await expect(page.getByTestId('plan-summary').textContent()).resolves.toMatch(/fixed thermostat/);
-    await expect(page.locator('section', { has: page.getByRole('heading', { name: 'Charge plan' }) }).locator('canvas').count()).resolves.toBeGreaterThan(0);
+    await expect(
+      page
+        .locator('section', { has: page.getByRole('heading', { name: 'Charge plan' }) })
+        .locator('canvas')
+        .count(),
+    ).resolves.toBeGreaterThan(0);
     await screenshot(page, 'energy-tank-plan');
   }, 90_000);
 
@@ -56,7 +83,10 @@ describe('energy and planning in Chromium', () => {
     await page.getByTestId('plan-summary').waitFor({ timeout: 30_000 });
     await page.getByRole('button', { name: 'Use this plan' }).click();
     await page.getByText(/^Sent\./).waitFor({ timeout: 20_000 });
-    const [row] = await query<{ kind: string }>('select kind from commands where tank_id = $1 order by created_at desc limit 1', [tank.id]);
+    const [row] = await query<{ kind: string }>(
+      'select kind from commands where tank_id = $1 order by created_at desc limit 1',
+      [tank.id],
+    );
     expect(row?.kind).toBe('set_schedule');
     await screenshot(page, 'energy-home-cost');
   }, 90_000);
@@ -68,10 +98,16 @@ describe('tariffs page in Chromium', () => {
     const page = await (await signedInContext(browser, await signInAs(baseUrl(), 'admin', 'orrin-bay'))).newPage();
     await page.goto(`${baseUrl()}/admin/tariffs`);
     await waitForIslands(page);
-    await page.getByText(/None yet|Orrin e2e default/).first().waitFor();
+    await page
+      .getByText(/None yet|Orrin e2e default/)
+      .first()
+      .waitFor();
     await page.getByLabel('Prices file').setInputFiles({
-      name: 'prices.csv', mimeType: 'text/csv',
-      buffer: Buffer.from('start,end,import,export,unit\n2030-01-01T00:00:00Z,2030-01-01T00:30:00Z,14,4,p/kWh\n2030-01-01T01:00:00Z,2030-01-01T01:30:00Z,14,4,p/kWh\n'),
+      name: 'prices.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(
+        'start,end,import,export,unit\n2030-01-01T00:00:00Z,2030-01-01T00:30:00Z,14,4,p/kWh\n2030-01-01T01:00:00Z,2030-01-01T01:30:00Z,14,4,p/kWh\n',
+      ),
     });
     await page.getByRole('button', { name: 'Upload' }).click();
     await page.getByText(/no prices from 2030-01-01T00:30:00Z to 2030-01-01T01:00:00Z/).waitFor();

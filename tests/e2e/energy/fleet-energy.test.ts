@@ -24,7 +24,11 @@ beforeAll(async () => {
   const cost = [10, 11, 12, 13, 14, 15, 16, 40];
   const cop = [2.6, 2.7, 2.8, 2.9, 3.0, 3.1, 3.2, 1.0];
   for (let i = 0; i < 8; i++) {
-    const id = await homeWithDays(c.id, i + 1, days.map((date) => ({ date, litres: 100, cost: cost[i]!, hpElec: 1, hpHeat: cop[i]! })));
+    const id = await homeWithDays(
+      c.id,
+      i + 1,
+      days.map((date) => ({ date, litres: 100, cost: cost[i]!, hpElec: 1, hpHeat: cop[i]! })),
+    );
     if (i === 7) costly = id;
   }
 }, 60_000);

@@ -8,14 +8,30 @@ import { baseUrl, launchBrowser, screenshot, waitForIslands } from '../../suppor
 import { closeTestDb, query } from '../../support/db';
 import { signIn, signInAs } from '../../support/session';
 import { localDayBounds } from '../../../src/lib/energy';
-import { addSolarHour, dropTanks, makeTank, setHomeTariff, setLatest, writeHandWorkedDay, type EnergyTank } from '../../integration/energy/fixtures';
+import {
+  addSolarHour,
+  dropTanks,
+  makeTank,
+  setHomeTariff,
+  setLatest,
+  writeHandWorkedDay,
+  type EnergyTank,
+} from '../../integration/energy/fixtures';
 import { signedInContext } from '../views/helpers';
 
 let browser: Browser;
 let tank: EnergyTank;
 let householder: string;
-const ownTariffs = async () => query<{ name: string | null; kind: string; valid_from: Date; valid_to: Date | null; prices: { importPence: number } }>(
-  'select name, kind, valid_from, valid_to, prices from tariffs where home_id = $1 order by created_at', [tank.homeId]);
+const ownTariffs = async () =>
+  query<{
+    name: string | null;
+    kind: string;
+    valid_from: Date;
+    valid_to: Date | null;
+    prices: { importPence: number };
+  }>('select name, kind, valid_from, valid_to, prices from tariffs where home_id = $1 order by created_at', [
+    tank.homeId,
+  ]);
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -25,8 +41,23 @@ beforeAll(async () => {
   await addSolarHour(tank, day);
   await setLatest(tank, [40, 50, 53, 55]);
   // Priced at first by a home tariff stored directly (day/night, 10 p at night, 30 p by day).
-  await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 15, validFromMs: localDayBounds(day, 'Europe/London').startMs - 86_400_000, validToMs: null });
-  const own = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: tank.homeId, label: 'home-tariff-e2e' });
+  await setHomeTariff(tank, {
+    kind: 'day_night',
+    timeZone: 'Europe/London',
+    nightStartMin: 30,
+    nightEndMin: 330,
+    dayImportPence: 30,
+    nightImportPence: 10,
+    exportPence: 15,
+    validFromMs: localDayBounds(day, 'Europe/London').startMs - 86_400_000,
+    validToMs: null,
+  });
+  const own = await createAccount({
+    company: 'kestrel-vale',
+    role: 'householder',
+    homeId: tank.homeId,
+    label: 'home-tariff-e2e',
+  });
   householder = await signIn(baseUrl(), own.email, own.password);
 }, 60_000);
 afterAll(async () => {
@@ -59,7 +90,9 @@ describe('a home’s tariff and its solar heat in Chromium', () => {
     await page.getByRole('button', { name: 'Save tariff for this home' }).click();
     await page.getByTestId('tariff-errors').waitFor();
     await expect(page.locator('[data-field-error="nightStart"]').textContent()).resolves.toMatch(/HH:MM/);
-    await expect(page.locator('[data-field-error="nightImport"]').textContent()).resolves.toMatch(/^Must be given: the night import price/);
+    await expect(page.locator('[data-field-error="nightImport"]').textContent()).resolves.toMatch(
+      /^Must be given: the night import price/,
+    );
     await expect(page.getByLabel('Night from').getAttribute('aria-invalid')).resolves.toBe('true');
     await screenshot(page, 'energy-home-tariff-errors');
     await page.getByLabel('Night from').fill('00:30');
@@ -76,7 +109,9 @@ describe('a home’s tariff and its solar heat in Chromium', () => {
     await page.getByLabel('First day').fill('2027-01-01');
     await page.getByLabel('Last day').fill('2027-06-30');
     await page.getByRole('button', { name: 'Save tariff for this home' }).click();
-    await expect(page.getByTestId('tariff-saved').textContent()).resolves.toBe('Saved: Wendmoor Two Rate (e2e) prices this home from 1 Jan 2027 to 30 Jun 2027.');
+    await expect(page.getByTestId('tariff-saved').textContent()).resolves.toBe(
+      'Saved: Wendmoor Two Rate (e2e) prices this home from 1 Jan 2027 to 30 Jun 2027.',
+    );
     await page.getByTestId('home-tariff-list').getByText('Wendmoor Two Rate (e2e)').waitFor();
     await expect(page.getByTestId('tariff-errors').count()).resolves.toBe(0);
     const rows = await ownTariffs();
@@ -99,7 +134,9 @@ describe('a home’s tariff and its solar heat in Chromium', () => {
     const sentence = page.getByTestId('solar-sentence');
     await sentence.waitFor({ timeout: 20_000 });
     // 1.5 kWh ÷ (0.9902 kg × 4.180 kJ/(kg·K) × 30 K ≈ 0.0345 kWh per litre at 40 °C from 10 °C mains; IAPWS-IF97 water at 45 °C) ≈ 43.5 litres.
-    await expect(sentence.textContent()).resolves.toMatch(/^Your solar panels heated about 4[2-4] litres of it for free over the last (day|\d+ days), with spare power/);
+    await expect(sentence.textContent()).resolves.toMatch(
+      /^Your solar panels heated about 4[2-4] litres of it for free over the last (day|\d+ days), with spare power/,
+    );
     await sentence.scrollIntoViewIfNeeded();
     await screenshot(page, 'energy-home-solar');
   }, 90_000);

@@ -12,20 +12,33 @@ import { signedInContext } from '../views/helpers';
 
 let browser: Browser;
 let fx: Fixture;
-beforeAll(async () => { [browser, fx] = await Promise.all([launchBrowser(), createFixture('kestrel-vale', 'Harrowby')]); });
-afterAll(async () => { await browser?.close(); if (fx) await dropFixture(fx); await closeTestDb(); });
+beforeAll(async () => {
+  [browser, fx] = await Promise.all([launchBrowser(), createFixture('kestrel-vale', 'Harrowby')]);
+});
+afterAll(async () => {
+  await browser?.close();
+  if (fx) await dropFixture(fx);
+  await closeTestDb();
+});
 
-interface Watch { violations: () => Promise<string[]>; consoleErrors: string[] }
+interface Watch {
+  violations: () => Promise<string[]>;
+  consoleErrors: string[];
+}
 
 /** Records every CSP violation the page reports (the listener is installed outside the page's policy). */
 async function watchPolicy(page: Page): Promise<Watch> {
   await page.addInitScript(() => {
     const seen: string[] = [];
     (window as unknown as { cspViolations: string[] }).cspViolations = seen;
-    document.addEventListener('securitypolicyviolation', (e) => seen.push(`${e.effectiveDirective} refused ${e.blockedURI || 'inline'} (${e.sourceFile}:${e.lineNumber})`));
+    document.addEventListener('securitypolicyviolation', (e) =>
+      seen.push(`${e.effectiveDirective} refused ${e.blockedURI || 'inline'} (${e.sourceFile}:${e.lineNumber})`),
+    );
   });
   const consoleErrors: string[] = [];
-  page.on('console', (m) => { if (m.type() === 'error') consoleErrors.push(m.text()); });
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text());
+  });
   page.on('pageerror', (e) => consoleErrors.push(`uncaught: ${e.message}`));
   return {
     consoleErrors,
@@ -51,7 +64,11 @@ async function expectStylesAndFonts(page: Page): Promise<void> {
 
 describe('pages under their Content-Security-Policy in Chromium', () => {
   it('signs in through the form and works the fleet list, with nothing refused', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 1000 }, locale: 'en-GB', timezoneId: 'UTC' });
+    const context = await browser.newContext({
+      viewport: { width: 1440, height: 1000 },
+      locale: 'en-GB',
+      timezoneId: 'UTC',
+    });
     const page = await context.newPage();
     const watch = await watchPolicy(page);
     await page.goto(`${baseUrl()}/signin?next=/fleet`);
@@ -81,7 +98,7 @@ describe('pages under their Content-Security-Policy in Chromium', () => {
     await context.close();
   });
 
-  it('draws a tank page\'s charts and changes its range, with nothing refused', async () => {
+  it("draws a tank page's charts and changes its range, with nothing refused", async () => {
     const context = await signedInContext(browser, await signInAs(baseUrl(), 'engineer'));
     const page = await context.newPage();
     const watch = await watchPolicy(page);
@@ -100,8 +117,16 @@ describe('pages under their Content-Security-Policy in Chromium', () => {
   });
 
   it('shows a householder their hot water and saves their assumptions, with nothing refused', async () => {
-    const person = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: fx.healthy.homeId, label: 'csp-home' });
-    const context = await signedInContext(browser, await signIn(baseUrl(), person.email, person.password), { width: 390, height: 844 });
+    const person = await createAccount({
+      company: 'kestrel-vale',
+      role: 'householder',
+      homeId: fx.healthy.homeId,
+      label: 'csp-home',
+    });
+    const context = await signedInContext(browser, await signIn(baseUrl(), person.email, person.password), {
+      width: 390,
+      height: 844,
+    });
     const page = await context.newPage();
     const watch = await watchPolicy(page);
     await page.goto(`${baseUrl()}/home`);

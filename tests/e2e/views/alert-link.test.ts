@@ -20,15 +20,31 @@ beforeAll(async () => {
   [browser, fx] = await Promise.all([launchBrowser(), createFixture('kestrel-vale', 'Ashby Wend')]);
   // An alert on the tank with two days of readings, its evidence 18 h back: the link spans 24 h to 12 h ago.
   at = fx.now.getTime() - 18 * HOUR;
-  await query(`insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at) values ($1, $2, 'low_hot_water', 'warning', 'open', $3, $4)`, [
-    await companyId('kestrel-vale'), fx.healthy.id,
-    JSON.stringify({ summary: 'About 40 L of hot water at 40 °C is stored, but the home usually uses about 120 L in the next 3 h.', facts: {}, at }), new Date(at),
-  ]);
+  await query(
+    `insert into alerts (company_id, tank_id, kind, severity, state, evidence, opened_at) values ($1, $2, 'low_hot_water', 'warning', 'open', $3, $4)`,
+    [
+      await companyId('kestrel-vale'),
+      fx.healthy.id,
+      JSON.stringify({
+        summary: 'About 40 L of hot water at 40 °C is stored, but the home usually uses about 120 L in the next 3 h.',
+        facts: {},
+        at,
+      }),
+      new Date(at),
+    ],
+  );
 });
-afterAll(async () => { await browser?.close(); if (fx) await dropFixture(fx); await closeTestDb(); });
+afterAll(async () => {
+  await browser?.close();
+  if (fx) await dropFixture(fx);
+  await closeTestDb();
+});
 
 async function readingsRange(page: Page, action: () => Promise<unknown>): Promise<{ from: string; to: string }> {
-  const [res] = await Promise.all([page.waitForResponse((r) => r.url().includes(`/api/tanks/${fx.healthy.id}/readings?`) && r.status() === 200), action()]);
+  const [res] = await Promise.all([
+    page.waitForResponse((r) => r.url().includes(`/api/tanks/${fx.healthy.id}/readings?`) && r.status() === 200),
+    action(),
+  ]);
   const u = new URL(res.url());
   return { from: u.searchParams.get('from')!, to: u.searchParams.get('to')! };
 }
@@ -45,7 +61,10 @@ describe('a tank opened from an alert link', () => {
     const to = new Date(at + 6 * HOUR).toISOString();
     expect(await link.getAttribute('href')).toBe(`/tanks/${fx.healthy.id}?from=${from}&to=${to}`);
 
-    const asked = await readingsRange(page, async () => { await link.click(); await page.waitForURL(`**/tanks/${fx.healthy.id}?from=*`); });
+    const asked = await readingsRange(page, async () => {
+      await link.click();
+      await page.waitForURL(`**/tanks/${fx.healthy.id}?from=*`);
+    });
     expect(asked).toEqual({ from, to });
     await waitForIslands(page);
     await page.getByText('720 points, every reading').waitFor();
@@ -56,7 +75,9 @@ describe('a tank opened from an alert link', () => {
     // The oldest point shown is the link's start (one reading a minute in the fixture).
     await page.getByLabel('Move through time (arrow keys)').focus();
     await page.keyboard.press('Home');
-    await expect(page.getByTestId('readout-time').textContent()).resolves.toContain(localInput(at - 6 * HOUR).slice(11));
+    await expect(page.getByTestId('readout-time').textContent()).resolves.toContain(
+      localInput(at - 6 * HOUR).slice(11),
+    );
     // The tank page lists the same alert, and can show its evidence's time again after a change of range.
     await expect(page.getByText(/About 40 L of hot water at 40 °C is stored/).count()).resolves.toBe(1);
     await screenshot(page, 'views-tank-from-alert-link');
@@ -104,7 +125,9 @@ describe('a tank opened from an alert link', () => {
     }
     await screenshot(page, 'views-tank-bad-link-range');
     await page.getByRole('button', { name: 'Dismiss' }).click();
-    await expect(page.getByRole('alert').filter({ hasText: 'Showing the last 24 hours instead.' }).count()).resolves.toBe(0);
+    await expect(
+      page.getByRole('alert').filter({ hasText: 'Showing the last 24 hours instead.' }).count(),
+    ).resolves.toBe(0);
     await context.close();
   });
 });

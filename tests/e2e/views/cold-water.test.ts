@@ -37,13 +37,17 @@ describe('a home’s cold water supply in Chromium', () => {
     await error.waitFor();
     await expect(error.textContent()).resolves.toMatch(/at most 25/);
     await expect(field.getAttribute('aria-invalid')).resolves.toBe('true');
-    expect((await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [tank.homeId]))[0]!.c).toBeNull();
+    expect(
+      (await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [tank.homeId]))[0]!.c,
+    ).toBeNull();
     await field.fill('14');
     await page.getByRole('button', { name: 'Save' }).click();
     await page.getByText('Saved.').waitFor();
     await page.getByText('(measured at this home)').waitFor();
     await screenshot(page, 'cold-water-engineer');
-    expect((await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [tank.homeId]))[0]!.c).toBe(14);
+    expect(
+      (await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [tank.homeId]))[0]!.c,
+    ).toBe(14);
     const api = await page.request.get(`${baseUrl()}/api/tanks/${tank.id}`);
     expect((await api.json()).figures.coldC).toBe(14);
   });

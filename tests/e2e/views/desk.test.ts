@@ -8,8 +8,14 @@ import { signedInContext } from './helpers';
 
 let browser: Browser;
 let fx: Fixture;
-beforeAll(async () => { [browser, fx] = await Promise.all([launchBrowser(), createFixture('kestrel-vale', 'Cobbmere')]); });
-afterAll(async () => { await browser?.close(); if (fx) await dropFixture(fx); await closeTestDb(); });
+beforeAll(async () => {
+  [browser, fx] = await Promise.all([launchBrowser(), createFixture('kestrel-vale', 'Cobbmere')]);
+});
+afterAll(async () => {
+  await browser?.close();
+  if (fx) await dropFixture(fx);
+  await closeTestDb();
+});
 
 describe('service desk in Chromium', () => {
   it('finds the tank with a sensor fault and opens it', async () => {
@@ -55,7 +61,16 @@ describe('service desk in Chromium', () => {
     await waitForIslands(page);
     await page.locator('thead th').first().waitFor();
     const heads = await page.locator('thead th').allTextContents();
-    expect(heads.map((h) => h.replace(/[▲▼↕]/g, '').trim())).toEqual(['Serial', 'Needs', 'Home', 'V40', 'State of charge', 'Top', 'Last reading', 'Heat source']);
+    expect(heads.map((h) => h.replace(/[▲▼↕]/g, '').trim())).toEqual([
+      'Serial',
+      'Needs',
+      'Home',
+      'V40',
+      'State of charge',
+      'Top',
+      'Last reading',
+      'Heat source',
+    ]);
     await context.close();
   });
 });

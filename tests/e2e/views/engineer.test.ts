@@ -8,8 +8,14 @@ import { signedInContext } from './helpers';
 
 let browser: Browser;
 let fx: Fixture;
-beforeAll(async () => { [browser, fx] = await Promise.all([launchBrowser(), createFixture()]); });
-afterAll(async () => { await browser?.close(); if (fx) await dropFixture(fx); await closeTestDb(); });
+beforeAll(async () => {
+  [browser, fx] = await Promise.all([launchBrowser(), createFixture()]);
+});
+afterAll(async () => {
+  await browser?.close();
+  if (fx) await dropFixture(fx);
+  await closeTestDb();
+});
 
 const sensorValue = (page: import('playwright-core').Page, layer: number) =>
   page.locator(`[data-testid="layer-readout"] li[data-layer="${layer}"] .figure`).textContent();
@@ -57,7 +63,10 @@ describe('field engineer in Chromium', () => {
     const page = await context.newPage();
     const full: string[] = [];
     const polls: string[] = [];
-    page.on('request', (r) => { if (r.url().includes(`/api/tanks/${fx.healthy.id}/readings`)) (r.url().includes('since=') ? polls : full).push(r.url()); });
+    page.on('request', (r) => {
+      if (r.url().includes(`/api/tanks/${fx.healthy.id}/readings`))
+        (r.url().includes('since=') ? polls : full).push(r.url());
+    });
     await page.goto(`${baseUrl()}/tanks/${fx.healthy.id}`);
     await waitForIslands(page);
     await page.getByRole('radio', { name: '6 hours' }).click();
@@ -67,7 +76,8 @@ describe('field engineer in Chromium', () => {
     await query(
       `insert into readings (tank_id, ts, layers_cc, compressor, immersion_w, draw_dlpm, flow_cc)
        values ($1, date_trunc('minute', now()), array[1500, 3000, 4800, 5600]::smallint[], false, 0, 0, 5800) on conflict do nothing`,
-      [fx.healthy.id]);
+      [fx.healthy.id],
+    );
     // The readout follows the newest point: the top sensor's 56 °C is the new reading's.
     await expect.poll(() => sensorValue(page, 4), { timeout: 25_000 }).toBe('56.0 °C');
     expect(polls.length).toBeGreaterThan(0);

@@ -8,10 +8,21 @@ import { evaluateTankReadings } from '../../../src/lib/alerts/evaluate.server';
 import { TelemetryWriter, type IngestItem } from '../../../src/lib/telemetry/writer.server';
 import { runClock } from '../../../src/lib/alerts/runner.server';
 import { query } from '../../support/db';
-import { MIN, addTank, alertsOf, createCompany, dropCompany, openKinds, startDaysAgo, type AlertCompany } from './harness';
+import {
+  MIN,
+  addTank,
+  alertsOf,
+  createCompany,
+  dropCompany,
+  openKinds,
+  startDaysAgo,
+  type AlertCompany,
+} from './harness';
 
 let company: AlertCompany | undefined;
-afterAll(async () => { await dropCompany(company); }, 60_000);
+afterAll(async () => {
+  await dropCompany(company);
+}, 60_000);
 
 describe('a burst of readings', () => {
   it('opens one alert however often and however concurrently the readings arrive', async () => {
@@ -20,7 +31,17 @@ describe('a burst of readings', () => {
     const start = startDaysAgo(10);
     const items: IngestItem[] = [];
     for (let i = 0; i < 120; i++) {
-      items.push({ tank: { id: t.id, serial: t.serial, companyId: company.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(start + i * MIN) });
+      items.push({
+        tank: {
+          id: t.id,
+          serial: t.serial,
+          companyId: company.id,
+          sensorCount: t.demo.sensorCount,
+          volumeL: t.demo.volumeL,
+          targetC: 60,
+        },
+        reading: t.sim.step(start + i * MIN),
+      });
     }
     const writer = new TelemetryWriter(getPool());
     await Promise.all([1, 2, 3, 4].map(() => writer.write({ readings: items })));
@@ -29,7 +50,10 @@ describe('a burst of readings', () => {
     await evaluateTankReadings(t.id);
     const alerts = await alertsOf([t.id]);
     expect(alerts.map((a) => [a.kind, a.state])).toEqual([['sensor_fault', 'open']]);
-    const [s] = await query<{ ms: string }>(`select (extract(epoch from evaluated_to) * 1000)::int8 as ms from alert_tank_state where tank_id = $1`, [t.id]);
+    const [s] = await query<{ ms: string }>(
+      `select (extract(epoch from evaluated_to) * 1000)::int8 as ms from alert_tank_state where tank_id = $1`,
+      [t.id],
+    );
     expect(Number(s!.ms)).toBe(start + 119 * MIN);
   });
 
@@ -37,7 +61,17 @@ describe('a burst of readings', () => {
     const t = await addTank(company!, 27);
     const start = startDaysAgo(9);
     const writer = new TelemetryWriter(getPool());
-    const items: IngestItem[] = [0, 1, 2].map((i) => ({ tank: { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(start + i * MIN) }));
+    const items: IngestItem[] = [0, 1, 2].map((i) => ({
+      tank: {
+        id: t.id,
+        serial: t.serial,
+        companyId: company!.id,
+        sensorCount: t.demo.sensorCount,
+        volumeL: t.demo.volumeL,
+        targetC: 60,
+      },
+      reading: t.sim.step(start + i * MIN),
+    }));
     await writer.write({ readings: items });
     await evaluateTankReadings(t.id);
     const last = start + 2 * MIN;
@@ -58,7 +92,21 @@ describe('a burst of readings', () => {
     const now = Date.now();
     const oldTs = now - 3 * 86_400_000; // a backlog three days old, received just now
     const writer = new TelemetryWriter(getPool());
-    await writer.write({ readings: [{ tank: { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 }, reading: t.sim.step(oldTs) }] });
+    await writer.write({
+      readings: [
+        {
+          tank: {
+            id: t.id,
+            serial: t.serial,
+            companyId: company!.id,
+            sensorCount: t.demo.sensorCount,
+            volumeL: t.demo.volumeL,
+            targetC: 60,
+          },
+          reading: t.sim.step(oldTs),
+        },
+      ],
+    });
     await evaluateTankReadings(t.id);
     await runClock(Date.now() + 1000, { companyId: company!.id, log: () => undefined });
     expect(await openKinds(t.id)).toEqual([]);
@@ -70,7 +118,14 @@ describe('a burst of readings', () => {
 
   it('on the real clock, judges each tank when it looks at it: a backlog received during a long turn is heard', async () => {
     const t = await addTank(company!, 15);
-    const tank = { id: t.id, serial: t.serial, companyId: company!.id, sensorCount: t.demo.sensorCount, volumeL: t.demo.volumeL, targetC: 60 };
+    const tank = {
+      id: t.id,
+      serial: t.serial,
+      companyId: company!.id,
+      sensorCount: t.demo.sensorCount,
+      volumeL: t.demo.volumeL,
+      targetC: 60,
+    };
     const writer = new TelemetryWriter(getPool());
     await writer.write({ readings: [{ tank, reading: t.sim.step(Date.now() - 3 * 86_400_000) }] });
     const turnStarted = Date.now();

@@ -27,12 +27,27 @@ const demo = (i: number): DemoTank => demoTanks().filter((t) => t.companySlug ==
  */
 const HEALTHY = [3, 18, 27, 15] as const;
 
-export interface SimTankRow { id: string; serial: string; homeId: string; sim: SimTank; demo: DemoTank; offlineWindows: boolean }
-export interface AlertCompany { id: string; slug: string; name: string; operator: { id: string; email: string }; householder: { id: string; email: string } }
+export interface SimTankRow {
+  id: string;
+  serial: string;
+  homeId: string;
+  sim: SimTank;
+  demo: DemoTank;
+  offlineWindows: boolean;
+}
+export interface AlertCompany {
+  id: string;
+  slug: string;
+  name: string;
+  operator: { id: string; email: string };
+  householder: { id: string; email: string };
+}
 
 async function user(email: string, name: string): Promise<string> {
-  const [u] = await query<{ id: string }>(`insert into "user" (id, email, name, password_hash, "emailVerified") values ($1, $2, $3, $4, now()) returning id`,
-    [randomUUID(), email, name, await hash('alerts-test-password')]);
+  const [u] = await query<{ id: string }>(
+    `insert into "user" (id, email, name, password_hash, "emailVerified") values ($1, $2, $3, $4, now()) returning id`,
+    [randomUUID(), email, name, await hash('alerts-test-password')],
+  );
   return u!.id;
 }
 
@@ -41,28 +56,69 @@ export async function createCompany(): Promise<AlertCompany> {
   const tag = randomUUID().slice(0, 8);
   const slug = `alerts-${tag}`;
   const name = `Brackenfold Heating ${tag}`;
-  const [c] = await query<{ id: string }>(`insert into companies (slug, name, email_domain) values ($1, $2, 'brackenfold.example.com') returning id`, [slug, name]);
-  const operator = { id: await user(`operator-${tag}@brackenfold.example.com`, 'Test operator'), email: `operator-${tag}@brackenfold.example.com` };
-  const householder = { id: await user(`home-${tag}@brackenfold.example.com`, 'Test householder'), email: `home-${tag}@brackenfold.example.com` };
-  await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'operator'), ($3, $2, 'householder')`, [operator.id, c!.id, householder.id]);
+  const [c] = await query<{ id: string }>(
+    `insert into companies (slug, name, email_domain) values ($1, $2, 'brackenfold.example.com') returning id`,
+    [slug, name],
+  );
+  const operator = {
+    id: await user(`operator-${tag}@brackenfold.example.com`, 'Test operator'),
+    email: `operator-${tag}@brackenfold.example.com`,
+  };
+  const householder = {
+    id: await user(`home-${tag}@brackenfold.example.com`, 'Test householder'),
+    email: `home-${tag}@brackenfold.example.com`,
+  };
+  await query(
+    `insert into memberships (user_id, company_id, role) values ($1, $2, 'operator'), ($3, $2, 'householder')`,
+    [operator.id, c!.id, householder.id],
+  );
   return { id: c!.id, slug, name, operator, householder };
 }
 
 /** Adds demo tank `index` to the company as a new install (new serial), with `faults` injected; the householder lives at the first. */
-export async function addTank(company: AlertCompany, index: number, faults: FaultKind[] = [], opts: { householder?: boolean } = {}): Promise<SimTankRow> {
+export async function addTank(
+  company: AlertCompany,
+  index: number,
+  faults: FaultKind[] = [],
+  opts: { householder?: boolean } = {},
+): Promise<SimTankRow> {
   const d = demo(index);
   const healthy = (HEALTHY as readonly number[]).includes(index);
   const spec: DemoTank = { ...d, faults: [], targetC: healthy ? 60 : d.targetC };
   const serial = `BF${randomUUID().slice(0, 6).toUpperCase()}-${index}`;
   const [home] = await query<{ id: string }>(
     `insert into homes (company_id, reference, address_line, town, postcode, occupants, has_solar) values ($1, $2, $3, $4, 'WM9 1AA', $5, $6) returning id`,
-    [company.id, `${serial}-H`, `${index + 1} Fold Lane`, index % 2 ? 'Larkholt' : 'Cobbmere', d.occupants, d.hasSolar]);
+    [company.id, `${serial}-H`, `${index + 1} Fold Lane`, index % 2 ? 'Larkholt' : 'Cobbmere', d.occupants, d.hasSolar],
+  );
   const [tank] = await query<{ id: string }>(
     `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, declared_loss_w, target_c, hysteresis_k, commissioned_at)
      values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, now() - interval '60 days') returning id`,
-    [company.id, home!.id, serial, d.model, d.volumeL, d.heightM, d.sensorCount, d.heatSource, d.hpOutputW, d.immersionW, d.declaredLossW, spec.targetC, d.hysteresisK]);
-  if (opts.householder) await query('insert into home_members (home_id, user_id) values ($1, $2)', [home!.id, company.householder.id]);
-  return { id: tank!.id, serial, homeId: home!.id, sim: new SimTank(spec, faults), demo: spec, offlineWindows: faults.includes('network_outage') };
+    [
+      company.id,
+      home!.id,
+      serial,
+      d.model,
+      d.volumeL,
+      d.heightM,
+      d.sensorCount,
+      d.heatSource,
+      d.hpOutputW,
+      d.immersionW,
+      d.declaredLossW,
+      spec.targetC,
+      d.hysteresisK,
+    ],
+  );
+  if (opts.householder)
+    await query('insert into home_members (home_id, user_id) values ($1, $2)', [home!.id, company.householder.id]);
+  return {
+    id: tank!.id,
+    serial,
+    homeId: home!.id,
+    sim: new SimTank(spec, faults),
+    demo: spec,
+    offlineWindows: faults.includes('network_outage'),
+  };
 }
 
 /** Clears a tank's injected faults (and puts back the set-point a low_setpoint fault lowered). */
@@ -72,7 +128,10 @@ export function clearFaults(t: SimTankRow): void {
 }
 
 /** The simulator's network_outage windows (simulator/fleet.ts): 02:00–02:30 and 14:00–14:30. */
-const inOutage = (ts: number) => { const m = Math.floor((ts % DAY) / MIN); return (m >= 120 && m < 150) || (m >= 840 && m < 870); };
+const inOutage = (ts: number) => {
+  const m = Math.floor((ts % DAY) / MIN);
+  return (m >= 120 && m < 150) || (m >= 840 && m < 870);
+};
 
 export class AcceleratedFleet {
   readonly writer = new TelemetryWriter(getPool());
@@ -80,7 +139,12 @@ export class AcceleratedFleet {
   private pending: IngestItem[] = [];
   now: number;
 
-  constructor(readonly company: AlertCompany, readonly tanks: SimTankRow[], start: number, readonly o = { batchMin: 30, clockMin: 10 }) {
+  constructor(
+    readonly company: AlertCompany,
+    readonly tanks: SimTankRow[],
+    start: number,
+    readonly o = { batchMin: 30, clockMin: 10 },
+  ) {
     this.now = start;
   }
 
@@ -92,11 +156,27 @@ export class AcceleratedFleet {
     while (this.now < until) {
       const t = this.now;
       for (const tank of this.tanks) {
-        const item: IngestItem = { tank: { id: tank.id, serial: tank.serial, companyId: this.company.id, sensorCount: tank.demo.sensorCount, volumeL: tank.demo.volumeL, targetC: tank.sim.targetC }, reading: tank.sim.step(t) };
+        const item: IngestItem = {
+          tank: {
+            id: tank.id,
+            serial: tank.serial,
+            companyId: this.company.id,
+            sensorCount: tank.demo.sensorCount,
+            volumeL: tank.demo.volumeL,
+            targetC: tank.sim.targetC,
+          },
+          reading: tank.sim.step(t),
+        };
         // A tank off the network keeps its readings and sends them as a backlog when it is back.
-        if (tank.offlineWindows && tank.sim.faults.has('network_outage') && inOutage(t)) { this.held.set(tank.id, [...(this.held.get(tank.id) ?? []), item]); continue; }
+        if (tank.offlineWindows && tank.sim.faults.has('network_outage') && inOutage(t)) {
+          this.held.set(tank.id, [...(this.held.get(tank.id) ?? []), item]);
+          continue;
+        }
         const backlog = this.held.get(tank.id);
-        if (backlog) { this.pending.push(...backlog); this.held.delete(tank.id); }
+        if (backlog) {
+          this.pending.push(...backlog);
+          this.held.delete(tank.id);
+        }
         this.pending.push(item);
       }
       this.now += MIN;
@@ -122,13 +202,30 @@ export class AcceleratedFleet {
   }
 }
 
-export interface StoredAlert { id: string; tank_id: string; kind: AlertKind; severity: string; state: string; evidence: any; opened_at: Date; resolved_at: Date | null }
+export interface StoredAlert {
+  id: string;
+  tank_id: string;
+  kind: AlertKind;
+  severity: string;
+  state: string;
+  evidence: any;
+  opened_at: Date;
+  resolved_at: Date | null;
+}
 
 export const alertsOf = (tankIds: string[]) =>
-  query<StoredAlert>(`select id, tank_id, kind, severity, state, evidence, opened_at, resolved_at from alerts where tank_id = any($1::uuid[]) order by opened_at`, [tankIds]);
+  query<StoredAlert>(
+    `select id, tank_id, kind, severity, state, evidence, opened_at, resolved_at from alerts where tank_id = any($1::uuid[]) order by opened_at`,
+    [tankIds],
+  );
 
 export async function openKinds(tankId: string): Promise<AlertKind[]> {
-  return (await query<{ kind: AlertKind }>(`select kind from alerts where tank_id = $1 and state <> 'resolved' order by kind`, [tankId])).map((r) => r.kind);
+  return (
+    await query<{ kind: AlertKind }>(
+      `select kind from alerts where tank_id = $1 and state <> 'resolved' order by kind`,
+      [tankId],
+    )
+  ).map((r) => r.kind);
 }
 
 /** Mail to `address` whose subject matches, waiting a little for the fake server to write it. */

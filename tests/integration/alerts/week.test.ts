@@ -8,10 +8,25 @@ import { randomUUID } from 'node:crypto';
 import { query } from '../../support/db';
 import { mailTo } from '../../support/mail';
 import { setNoticePreference } from '../../../src/db/queries/alerts';
-import { AcceleratedFleet, DAY, HOUR, addTank, alertsOf, clearFaults, createCompany, dropCompany, mailMatching, openKinds, startDaysAgo, type AlertCompany } from './harness';
+import {
+  AcceleratedFleet,
+  DAY,
+  HOUR,
+  addTank,
+  alertsOf,
+  clearFaults,
+  createCompany,
+  dropCompany,
+  mailMatching,
+  openKinds,
+  startDaysAgo,
+  type AlertCompany,
+} from './harness';
 
 let company: AlertCompany | undefined;
-afterAll(async () => { await dropCompany(company); }, 60_000);
+afterAll(async () => {
+  await dropCompany(company);
+}, 60_000);
 
 describe('a simulated week', () => {
   it('raises nothing on healthy tanks and a legionella alert on the tank kept at 45 °C, then resolves it', async () => {
@@ -19,8 +34,14 @@ describe('a simulated week', () => {
     const faulty = await addTank(company, 18, ['low_setpoint'], { householder: true });
     // A second person at the same home who opted out of notices.
     const quietEmail = `quiet-${randomUUID().slice(0, 8)}@brackenfold.example.com`;
-    const [quiet] = await query<{ id: string }>(`insert into "user" (id, email, name) values ($1, $2, 'Quiet householder') returning id`, [randomUUID(), quietEmail]);
-    await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'householder')`, [quiet!.id, company.id]);
+    const [quiet] = await query<{ id: string }>(
+      `insert into "user" (id, email, name) values ($1, $2, 'Quiet householder') returning id`,
+      [randomUUID(), quietEmail],
+    );
+    await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'householder')`, [
+      quiet!.id,
+      company.id,
+    ]);
     await query('insert into home_members (home_id, user_id) values ($1, $2)', [faulty.homeId, quiet!.id]);
     await setNoticePreference(quiet!.id, false);
     const healthy = [await addTank(company, 3), await addTank(company, 27), await addTank(company, 15)];
@@ -30,14 +51,27 @@ describe('a simulated week', () => {
     // The legionella window is 7 days: nothing can be said before, and it must open soon after.
     await fleet.run(start + 7 * DAY + 2 * HOUR, async () => (await openKinds(faulty.id)).includes('legionella_risk'));
     expect(await openKinds(faulty.id)).toEqual(['legionella_risk']);
-    for (const h of healthy) expect((await alertsOf([h.id])).map((a) => a.kind), `alerts of healthy tank ${h.serial} over the week`).toEqual([]);
+    for (const h of healthy)
+      expect(
+        (await alertsOf([h.id])).map((a) => a.kind),
+        `alerts of healthy tank ${h.serial} over the week`,
+      ).toEqual([]);
     const [alert] = await alertsOf([faulty.id]);
     expect(alert!.severity).toBe('critical');
     expect(alert!.opened_at.getTime()).toBe(start + 7 * DAY); // the first reading plus the 7-day window
-    expect(alert!.evidence.facts).toMatchObject({ thresholdC: 60, holdMin: 60, sharePct: 50, windowDays: 7, lastHeldAt: null });
+    expect(alert!.evidence.facts).toMatchObject({
+      thresholdC: 60,
+      holdMin: 60,
+      sharePct: 50,
+      windowDays: 7,
+      lastHeldAt: null,
+    });
     expect(alert!.evidence.facts.hottestTopC).toBeLessThan(60);
 
-    const [severe] = await mailMatching(company.operator.email, new RegExp(`Severe: Legionella risk at ${faulty.serial}`));
+    const [severe] = await mailMatching(
+      company.operator.email,
+      new RegExp(`Severe: Legionella risk at ${faulty.serial}`),
+    );
     expect(severe, 'the immediate e-mail to the operator').toBeDefined();
     expect(severe!.links.some((l) => l.includes(`/tanks/${faulty.id}`))).toBe(true);
     const [notice] = await mailMatching(company.householder.email, /not been getting hot enough/);

@@ -17,10 +17,26 @@ let log = '';
 
 beforeAll(async () => {
   const env = { ...process.env, PORT: String(port), AUTH_URL: url, TRUSTED_PROXIES: '', TRUST_PROXY: '0' };
-  web = spawn(process.execPath, ['--import', 'tsx', 'scripts/web-server.ts', join(buildDir(), 'server/entry.mjs')], { env, stdio: ['ignore', 'pipe', 'pipe'] });
-  web.stdout!.on('data', (d) => { log += d; });
-  web.stderr!.on('data', (d) => { log += d; });
-  await eventually(() => fetch(`${url}/api/health`).then((r) => r.ok, () => false), (ok) => ok, 30_000, `the second web server (log: ${log})`);
+  web = spawn(process.execPath, ['--import', 'tsx', 'scripts/web-server.ts', join(buildDir(), 'server/entry.mjs')], {
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  web.stdout!.on('data', (d) => {
+    log += d;
+  });
+  web.stderr!.on('data', (d) => {
+    log += d;
+  });
+  await eventually(
+    () =>
+      fetch(`${url}/api/health`).then(
+        (r) => r.ok,
+        () => false,
+      ),
+    (ok) => ok,
+    30_000,
+    `the second web server (log: ${log})`,
+  );
 }, 40_000);
 
 afterAll(async () => {
@@ -34,9 +50,15 @@ describe('with no trusted proxy', () => {
     const startedAt = new Date();
     const { res } = await attemptSignIn(url, email, 'guess', { 'x-forwarded-for': '203.0.113.66' });
     expect(new URL(res.headers.get('location') ?? '', url).searchParams.get('code')).toBe('credentials');
-    const [entry] = await query(`select detail->>'address' as address from audit_log where subject = $1 and action = 'signin.failed'`, [email]);
+    const [entry] = await query(
+      `select detail->>'address' as address from audit_log where subject = $1 and action = 'signin.failed'`,
+      [email],
+    );
     expect(entry.address).toBe('127.0.0.1');
-    const keys = await query<{ key: string }>(`select key from throttle_events where at >= $1 and (key = $2 or key like $3)`, [startedAt, '203.0.113.66', `${email} %`]);
+    const keys = await query<{ key: string }>(
+      `select key from throttle_events where at >= $1 and (key = $2 or key like $3)`,
+      [startedAt, '203.0.113.66', `${email} %`],
+    );
     expect(keys.map((k) => k.key)).toEqual([`${email} 127.0.0.1`]);
     // Leave loopback's per-address count as it was for the rest of the suite.
     await query(`delete from throttle_events where kind = 'address' and key = '127.0.0.1' and at >= $1`, [startedAt]);

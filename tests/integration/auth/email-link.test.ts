@@ -11,7 +11,8 @@ afterAll(closeTestDb);
 async function askForLink(email: string): Promise<Response> {
   const { token, jar } = await csrf(baseUrl());
   return fetch(`${baseUrl()}/api/auth/signin/nodemailer`, {
-    method: 'POST', redirect: 'manual',
+    method: 'POST',
+    redirect: 'manual',
     headers: { 'content-type': 'application/x-www-form-urlencoded', origin: baseUrl(), cookie: cookieHeader(jar) },
     body: new URLSearchParams({ csrfToken: token, email, callbackUrl: '/' }),
   });
@@ -46,7 +47,9 @@ describe('sign-in by e-mail link (API, fake mail server)', () => {
     const again = await follow(link);
     expect(again.cookie).toBeNull();
     expect(again.res.headers.get('location')).toBe(`${baseUrl()}/signin?error=Verification`);
-    const audit = await query(`select detail from audit_log where action = 'signin.succeeded' and actor_user_id = $1`, [acct.id]);
+    const audit = await query(`select detail from audit_log where action = 'signin.succeeded' and actor_user_id = $1`, [
+      acct.id,
+    ]);
     expect(audit.map((r) => r.detail.method)).toEqual(['link']);
   });
 
@@ -55,7 +58,9 @@ describe('sign-in by e-mail link (API, fake mail server)', () => {
     const since = new Date();
     await askForLink(acct.email);
     const link = linkIn(await waitForMail(acct.email, /sign-in link/, since), baseUrl());
-    await query(`update "verificationToken" set expires = now() - interval '1 minute' where identifier = $1`, [acct.email]);
+    await query(`update "verificationToken" set expires = now() - interval '1 minute' where identifier = $1`, [
+      acct.email,
+    ]);
     const { res, cookie } = await follow(link);
     expect(cookie).toBeNull();
     expect(res.headers.get('location')).toBe(`${baseUrl()}/signin?error=Verification`);

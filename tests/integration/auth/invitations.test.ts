@@ -15,15 +15,27 @@ beforeAll(async () => {
   engineer = await signInAs(baseUrl(), 'engineer');
 });
 
-const call = (method: string, path: string, cookie: string | null, body?: unknown, headers: Record<string, string> = {}) => fetch(`${baseUrl()}${path}`, {
-  method,
-  headers: { 'content-type': 'application/json', origin: baseUrl(), ...(cookie ? { cookie } : {}), ...headers },
-  body: body === undefined ? undefined : JSON.stringify(body),
-});
-const fresh = (label: string, domain = 'kestrelvale.example.com') => `${label}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@${domain}`;
+const call = (
+  method: string,
+  path: string,
+  cookie: string | null,
+  body?: unknown,
+  headers: Record<string, string> = {},
+) =>
+  fetch(`${baseUrl()}${path}`, {
+    method,
+    headers: { 'content-type': 'application/json', origin: baseUrl(), ...(cookie ? { cookie } : {}), ...headers },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
+const fresh = (label: string, domain = 'kestrelvale.example.com') =>
+  `${label}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@${domain}`;
 const tokenOf = (link: string) => new URL(link).searchParams.get('token')!;
 
-async function invite(cookie: string, path: string, body: Record<string, string>): Promise<{ id: string; link: string }> {
+async function invite(
+  cookie: string,
+  path: string,
+  body: Record<string, string>,
+): Promise<{ id: string; link: string }> {
   const since = new Date();
   const res = await call('POST', path, cookie, body);
   expect(res.status).toBe(201);
@@ -49,14 +61,22 @@ describe('staff invitations', () => {
     const { res, cookie } = await accept(link, { password: 'a long enough passphrase' });
     expect(res.status).toBe(200);
     const me = await (await call('GET', '/api/me', cookie)).json();
-    expect(me).toMatchObject({ email, role: 'engineer', companyName: 'Kestrel Vale Heating Co-operative', name: 'Wren Hollins' });
+    expect(me).toMatchObject({
+      email,
+      role: 'engineer',
+      companyName: 'Kestrel Vale Heating Co-operative',
+      name: 'Wren Hollins',
+    });
 
     const reused = await accept(link, { password: 'a long enough passphrase' });
     expect(reused.res.status).toBe(410);
     expect((await reused.res.json()).error.code).toBe('InvitationUsed');
     expect(reused.cookie).toBeNull();
     expect((await fetch(link)).status).toBe(410);
-    const audit = await query(`select action from audit_log where (subject = $1 or actor_user_id = $2) and action like 'invitation.%' order by id`, [email, me.userId]);
+    const audit = await query(
+      `select action from audit_log where (subject = $1 or actor_user_id = $2) and action like 'invitation.%' order by id`,
+      [email, me.userId],
+    );
     expect(audit.map((r) => r.action)).toEqual(['invitation.created', 'invitation.accepted']);
   });
 
@@ -84,9 +104,14 @@ describe('staff invitations', () => {
   });
 
   it('refuses to invite someone already on the staff, and non-admins may not invite staff', async () => {
-    const dup = await call('POST', '/api/invitations', admin, { email: 'operator@kestrelvale.example.com', role: 'engineer' });
+    const dup = await call('POST', '/api/invitations', admin, {
+      email: 'operator@kestrelvale.example.com',
+      role: 'engineer',
+    });
     expect(dup.status).toBe(409);
-    expect((await call('POST', '/api/invitations', engineer, { email: fresh('x'), role: 'engineer' })).status).toBe(403);
+    expect((await call('POST', '/api/invitations', engineer, { email: fresh('x'), role: 'engineer' })).status).toBe(
+      403,
+    );
     const bad = await call('POST', '/api/invitations', admin, { email: fresh('x'), role: 'householder' });
     expect(bad.status).toBe(400);
     expect((await bad.json()).error.fields[0].field).toBe('role');
@@ -101,11 +126,18 @@ describe('staff invitations', () => {
   });
 
   it('refuses a cross-site request even with a valid session', async () => {
-    const evil = await call('POST', '/api/invitations', admin, { email: fresh('csrf'), role: 'admin' }, { origin: 'https://attacker.example.net' });
+    const evil = await call(
+      'POST',
+      '/api/invitations',
+      admin,
+      { email: fresh('csrf'), role: 'admin' },
+      { origin: 'https://attacker.example.net' },
+    );
     expect(evil.status).toBe(403);
     expect((await evil.json()).error.code).toBe('CrossSiteRequest');
     const res = await fetch(`${baseUrl()}/api/invitations`, {
-      method: 'POST', headers: { 'content-type': 'application/json', cookie: admin, 'sec-fetch-site': 'cross-site' },
+      method: 'POST',
+      headers: { 'content-type': 'application/json', cookie: admin, 'sec-fetch-site': 'cross-site' },
       body: JSON.stringify({ email: fresh('csrf'), role: 'admin' }),
     });
     expect(res.status).toBe(403);
@@ -127,7 +159,12 @@ describe('householder invitations at handover', () => {
 
   it('an existing householder invited to a second home keeps one account and sees both', async () => {
     const [firstHome, secondHome] = await homeIds('kestrel-vale', 3).then((ids) => [ids[1], ids[2]]);
-    const person = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: firstHome, label: 'two-homes' });
+    const person = await createAccount({
+      company: 'kestrel-vale',
+      role: 'householder',
+      homeId: firstHome,
+      label: 'two-homes',
+    });
     const { link } = await invite(engineer, `/api/homes/${secondHome}/invitations`, { email: person.email });
     expect(await (await fetch(link)).text()).toContain('Accept and sign in');
     const { cookie } = await accept(link);

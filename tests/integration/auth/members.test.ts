@@ -13,9 +13,12 @@ beforeAll(async () => {
   obAdmin = await signInAs(baseUrl(), 'admin', 'orrin-bay');
 });
 
-const call = (method: string, path: string, cookie: string, body?: unknown) => fetch(`${baseUrl()}${path}`, {
-  method, headers: { 'content-type': 'application/json', origin: baseUrl(), cookie }, body: body === undefined ? undefined : JSON.stringify(body),
-});
+const call = (method: string, path: string, cookie: string, body?: unknown) =>
+  fetch(`${baseUrl()}${path}`, {
+    method,
+    headers: { 'content-type': 'application/json', origin: baseUrl(), cookie },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
 
 describe('staff roles', () => {
   it('a role change ends the member’s sessions at once; signed in again they have the new role; it is audited', async () => {
@@ -29,7 +32,9 @@ describe('staff roles', () => {
     const fresh = await signIn(baseUrl(), member.email, member.password);
     expect((await call('GET', '/api/me', fresh).then((r) => r.json())).role).toBe('admin');
     expect((await call('GET', '/api/audit', fresh)).status).toBe(200);
-    const [row] = await query(`select detail from audit_log where action = 'member.role_changed' and subject = $1`, [`user:${member.id}`]);
+    const [row] = await query(`select detail from audit_log where action = 'member.role_changed' and subject = $1`, [
+      `user:${member.id}`,
+    ]);
     expect(row.detail).toEqual({ from: 'engineer', to: 'admin', sessionsEnded: 2 });
   });
 
@@ -55,7 +60,10 @@ describe('staff roles', () => {
     expect((await call('DELETE', `/api/members/${member.id}`, kvAdmin)).status).toBe(204);
     expect((await call('GET', '/api/me', session)).status).toBe(401);
     // Taken back (a new invitation would do this): the copied cookie still opens nothing.
-    await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'operator')`, [member.id, member.companyId]);
+    await query(`insert into memberships (user_id, company_id, role) values ($1, $2, 'operator')`, [
+      member.id,
+      member.companyId,
+    ]);
     expect((await call('GET', '/api/me', session)).status).toBe(401);
     expect((await call('GET', '/api/me', await signIn(baseUrl(), member.email, member.password))).status).toBe(200);
   });

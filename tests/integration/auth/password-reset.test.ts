@@ -8,9 +8,12 @@ import { attemptSignIn, cookiesFrom, signIn } from '../../support/session';
 
 afterAll(closeTestDb);
 
-const post = (path: string, body: unknown, headers: Record<string, string> = {}) => fetch(`${baseUrl()}${path}`, {
-  method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), ...headers }, body: JSON.stringify(body),
-});
+const post = (path: string, body: unknown, headers: Record<string, string> = {}) =>
+  fetch(`${baseUrl()}${path}`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: baseUrl(), ...headers },
+    body: JSON.stringify(body),
+  });
 const tokenOf = (link: string) => new URL(link).searchParams.get('token')!;
 
 async function resetLinkFor(email: string): Promise<string> {
@@ -45,16 +48,25 @@ describe('forgotten password', () => {
     const link = await resetLinkFor(acct.email);
     expect((await fetch(link)).status).toBe(200);
 
-    const short = await post('/api/password-resets/complete', { token: tokenOf(link), password: 'x'.repeat(PASSWORD_MIN_LENGTH - 1) });
+    const short = await post('/api/password-resets/complete', {
+      token: tokenOf(link),
+      password: 'x'.repeat(PASSWORD_MIN_LENGTH - 1),
+    });
     expect(short.status).toBe(400);
-    expect((await short.json()).error.fields).toEqual([{ field: 'password', message: expect.stringContaining(`${PASSWORD_MIN_LENGTH} characters`) }]);
+    expect((await short.json()).error.fields).toEqual([
+      { field: 'password', message: expect.stringContaining(`${PASSWORD_MIN_LENGTH} characters`) },
+    ]);
 
     const newPassword = 'a brand new passphrase';
     const done = await post('/api/password-resets/complete', { token: tokenOf(link), password: newPassword });
     expect(done.status).toBe(200);
     const jar = cookiesFrom(done);
-    expect(done.headers.getSetCookie().find((l) => l.startsWith('authjs.session-token='))).toMatch(/HttpOnly.*SameSite=Lax|SameSite=Lax.*HttpOnly/i);
-    const me = await fetch(`${baseUrl()}/api/me`, { headers: { cookie: `authjs.session-token=${jar.get('authjs.session-token')}` } });
+    expect(done.headers.getSetCookie().find((l) => l.startsWith('authjs.session-token='))).toMatch(
+      /HttpOnly.*SameSite=Lax|SameSite=Lax.*HttpOnly/i,
+    );
+    const me = await fetch(`${baseUrl()}/api/me`, {
+      headers: { cookie: `authjs.session-token=${jar.get('authjs.session-token')}` },
+    });
     expect((await me.json()).email).toBe(acct.email);
 
     expect((await fetch(`${baseUrl()}/api/me`, { headers: { cookie: oldSession } })).status).toBe(401);
@@ -62,11 +74,17 @@ describe('forgotten password', () => {
     expect(withOld.res.headers.get('location')).toContain('code=credentials');
     await signIn(baseUrl(), acct.email, newPassword);
 
-    const reused = await post('/api/password-resets/complete', { token: tokenOf(link), password: 'yet another passphrase' });
+    const reused = await post('/api/password-resets/complete', {
+      token: tokenOf(link),
+      password: 'yet another passphrase',
+    });
     expect(reused.status).toBe(410);
     expect((await reused.json()).error.code).toBe('ResetLinkUsed');
     expect((await fetch(link)).status).toBe(410);
-    const audit = await query(`select action from audit_log where subject = $1 and action like 'password.%' order by id`, [`user:${acct.id}`]);
+    const audit = await query(
+      `select action from audit_log where subject = $1 and action like 'password.%' order by id`,
+      [`user:${acct.id}`],
+    );
     expect(audit.map((r) => r.action)).toEqual(['password.reset_requested', 'password.reset']);
   });
 
@@ -74,11 +92,17 @@ describe('forgotten password', () => {
     const acct = await createAccount({ company: 'orrin-bay', role: 'engineer', label: 'reset-expired' });
     const link = await resetLinkFor(acct.email);
     await query(`update password_resets set expires_at = now() - interval '1 minute' where user_id = $1`, [acct.id]);
-    const res = await post('/api/password-resets/complete', { token: tokenOf(link), password: 'a brand new passphrase' });
+    const res = await post('/api/password-resets/complete', {
+      token: tokenOf(link),
+      password: 'a brand new passphrase',
+    });
     expect(res.status).toBe(410);
     expect((await res.json()).error.code).toBe('ResetLinkExpired');
     expect((await fetch(link)).status).toBe(410);
-    const madeUp = await post('/api/password-resets/complete', { token: 'x'.repeat(43), password: 'a brand new passphrase' });
+    const madeUp = await post('/api/password-resets/complete', {
+      token: 'x'.repeat(43),
+      password: 'a brand new passphrase',
+    });
     expect(madeUp.status).toBe(404);
   });
 });

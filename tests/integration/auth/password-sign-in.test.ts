@@ -15,7 +15,12 @@ describe('password sign-in through Auth.js (API)', () => {
     const session = await (await fetch(`${baseUrl()}/api/auth/session`, { headers: { cookie } })).json();
     expect(session.user.email).toBe('operator@kestrelvale.example.com');
     const me = await (await fetch(`${baseUrl()}/api/me`, { headers: { cookie } })).json();
-    expect(me).toMatchObject({ email: 'operator@kestrelvale.example.com', role: 'operator', companyName: 'Kestrel Vale Heating Co-operative', homeIds: null });
+    expect(me).toMatchObject({
+      email: 'operator@kestrelvale.example.com',
+      role: 'operator',
+      companyName: 'Kestrel Vale Heating Co-operative',
+      homeIds: null,
+    });
   });
 
   it('refuses a wrong password and an unknown address with the same answer', async () => {
@@ -29,8 +34,11 @@ describe('password sign-in through Auth.js (API)', () => {
 
   it('records sign-ins and failures in the audit log of the account’s company', async () => {
     await signIn(baseUrl(), demoEmail('engineer', 'kestrel-vale'), demoPassword());
-    const rows = await query(`select a.action, a.detail from audit_log a join companies c on c.id = a.company_id
-      where c.slug = 'kestrel-vale' and a.subject = (select 'user:' || id from "user" where email = $1) order by a.id desc limit 1`, ['engineer@kestrelvale.example.com']);
+    const rows = await query(
+      `select a.action, a.detail from audit_log a join companies c on c.id = a.company_id
+      where c.slug = 'kestrel-vale' and a.subject = (select 'user:' || id from "user" where email = $1) order by a.id desc limit 1`,
+      ['engineer@kestrelvale.example.com'],
+    );
     expect(rows[0]?.action).toBe('signin.succeeded');
     expect(rows[0]?.detail.method).toBe('password');
   });

@@ -15,7 +15,13 @@ import type { Role } from '../../../src/db/schema/companies';
 // tank: a seeded tank of the home; spareTank: a fresh tank in that home (for routes that change it).
 export type SampleKind = 'home' | 'tank' | 'spareTank' | 'invitation' | 'member' | 'commissioning';
 export type Who = 'anyone' | 'signedIn' | 'device' | readonly Role[];
-export interface MethodExpectation { who: Who; scope?: 'company' | 'home'; body?: unknown; ok?: readonly number[]; endsSession?: true }
+export interface MethodExpectation {
+  who: Who;
+  scope?: 'company' | 'home';
+  body?: unknown;
+  ok?: readonly number[];
+  endsSession?: true;
+}
 export type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 export interface RouteExpectation {
   params?: Record<string, SampleKind | { fixed: string }>;
@@ -52,7 +58,10 @@ export const routeExpectations: Record<string, RouteExpectation> = {
 
   // endpoints
   '/api/health': { methods: { GET: { who: 'anyone' } } },
-  '/api/auth/[...auth]': { params: { auth: { fixed: 'session' } }, methods: { GET: { who: 'anyone' }, POST: { who: 'anyone', ok: [302, 400] } } },
+  '/api/auth/[...auth]': {
+    params: { auth: { fixed: 'session' } },
+    methods: { GET: { who: 'anyone' }, POST: { who: 'anyone', ok: [302, 400] } },
+  },
   '/api/me': { methods: { GET: { who: 'signedIn' } } },
   '/api/me/sessions/revoke': { methods: { POST: { who: 'signedIn', endsSession: true } } },
   '/api/password-resets': { methods: { POST: { who: 'anyone' } } },
@@ -60,9 +69,18 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/invitations': { methods: { GET: { who: admin }, POST: { who: admin } } },
   '/api/invitations/accept': { methods: { POST: { who: 'anyone' } } },
   '/api/invitations/[id]': { params: { id: 'invitation' }, methods: { DELETE: { who: admin, scope: 'company' } } },
-  '/api/members/[id]': { params: { id: 'member' }, methods: { PATCH: { who: admin, scope: 'company' }, DELETE: { who: admin, scope: 'company' } } },
-  '/api/homes/[id]': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' }, PATCH: { who: ['admin', 'engineer'], scope: 'home' } } },
-  '/api/homes/[id]/invitations': { params: { id: 'home' }, methods: { GET: { who: staff, scope: 'home' }, POST: { who: staff, scope: 'home' } } },
+  '/api/members/[id]': {
+    params: { id: 'member' },
+    methods: { PATCH: { who: admin, scope: 'company' }, DELETE: { who: admin, scope: 'company' } },
+  },
+  '/api/homes/[id]': {
+    params: { id: 'home' },
+    methods: { GET: { who: staff, scope: 'home' }, PATCH: { who: ['admin', 'engineer'], scope: 'home' } },
+  },
+  '/api/homes/[id]/invitations': {
+    params: { id: 'home' },
+    methods: { GET: { who: staff, scope: 'home' }, POST: { who: staff, scope: 'home' } },
+  },
   '/api/audit': { methods: { GET: { who: admin } } },
   '/api/ingest': { methods: { POST: { who: 'device' } } },
   '/api/fleet/summary': { methods: { GET: { who: desk } } },
@@ -71,7 +89,10 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/api/tanks/[id]/readings': { params: { id: 'tank' }, methods: { GET: { who: everyone, scope: 'home' } } },
   '/api/tanks/[id]/events': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/api/tanks/[id]/export.csv': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
-  '/api/tanks/[id]/commands': { params: { id: 'spareTank' }, methods: { GET: { who: everyone, scope: 'home' }, POST: { who: everyone, scope: 'home' } } },
+  '/api/tanks/[id]/commands': {
+    params: { id: 'spareTank' },
+    methods: { GET: { who: everyone, scope: 'home' }, POST: { who: everyone, scope: 'home' } },
+  },
   '/api/tanks/[id]/device-token': { params: { id: 'spareTank' }, methods: { POST: { who: admin, scope: 'home' } } },
 
   // commissioning, handover and service records (ids that name nothing answer 404 to those let in)
@@ -82,14 +103,35 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/service': { methods: { GET: { who: staff } } },
   '/service/tanks/[id]': { params: { id: 'tank' }, methods: { GET: { who: staff, scope: 'home' } } },
   '/api/commissioning': { methods: { GET: { who: staff }, POST: { who: ['admin', 'engineer'] } } },
-  '/api/commissioning/[id]': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' }, PATCH: { who: ['admin', 'engineer'], scope: 'company' } } },
-  '/api/commissioning/[id]/registration': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
-  '/api/commissioning/[id]/connection': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' } } },
-  '/api/commissioning/[id]/sign-off': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
-  '/api/commissioning/[id]/record.pdf': { params: { id: 'commissioning' }, methods: { GET: { who: staff, scope: 'company' } } },
-  '/api/commissioning/[id]/amendments': { params: { id: 'commissioning' }, methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } } },
+  '/api/commissioning/[id]': {
+    params: { id: 'commissioning' },
+    methods: { GET: { who: staff, scope: 'company' }, PATCH: { who: ['admin', 'engineer'], scope: 'company' } },
+  },
+  '/api/commissioning/[id]/registration': {
+    params: { id: 'commissioning' },
+    methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } },
+  },
+  '/api/commissioning/[id]/connection': {
+    params: { id: 'commissioning' },
+    methods: { GET: { who: staff, scope: 'company' } },
+  },
+  '/api/commissioning/[id]/sign-off': {
+    params: { id: 'commissioning' },
+    methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } },
+  },
+  '/api/commissioning/[id]/record.pdf': {
+    params: { id: 'commissioning' },
+    methods: { GET: { who: staff, scope: 'company' } },
+  },
+  '/api/commissioning/[id]/amendments': {
+    params: { id: 'commissioning' },
+    methods: { POST: { who: ['admin', 'engineer'], scope: 'company' } },
+  },
   '/api/commissioning/heat-pump-models': { methods: { GET: { who: staff }, POST: { who: admin } } },
-  '/api/commissioning/heat-pump-models/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { DELETE: { who: admin, ok: [404] } } },
+  '/api/commissioning/heat-pump-models/[id]': {
+    params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } },
+    methods: { DELETE: { who: admin, ok: [404] } },
+  },
   '/api/uploads': { methods: { POST: { who: staff } } },
   '/alerts': { methods: { GET: { who: staff } } },
   '/alerts/preferences': { methods: { GET: { who: 'signedIn' } } },
@@ -97,12 +139,21 @@ export const routeExpectations: Record<string, RouteExpectation> = {
   '/admin/tariffs': { methods: { GET: { who: admin } } },
   '/api/alerts': { methods: { GET: { who: staff } } },
   '/api/alerts/acknowledge': { methods: { POST: { who: staff } } },
-  '/api/alerts/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: staff, ok: [404] }, PATCH: { who: staff } } },
+  '/api/alerts/[id]': {
+    params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } },
+    methods: { GET: { who: staff, ok: [404] }, PATCH: { who: staff } },
+  },
   '/api/alerts/thresholds': { methods: { GET: { who: admin }, PUT: { who: admin } } },
   '/api/alerts/preferences': { methods: { GET: { who: 'signedIn' }, PUT: { who: 'signedIn' } } },
-  '/api/uploads/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: everyone, ok: [404] } } },
+  '/api/uploads/[id]': {
+    params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } },
+    methods: { GET: { who: everyone, ok: [404] } },
+  },
   '/api/visits': { methods: { GET: { who: staff }, POST: { who: staff } } },
-  '/api/visits/[id]': { params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } }, methods: { GET: { who: staff, ok: [404] } } },
+  '/api/visits/[id]': {
+    params: { id: { fixed: '00000000-0000-4000-8000-000000000000' } },
+    methods: { GET: { who: staff, ok: [404] } },
+  },
   '/api/imports/installs': { methods: { POST: { who: admin } } },
   '/api/imports/installs/preview': { methods: { POST: { who: admin } } },
   '/api/imports/installs/template.csv': { methods: { GET: { who: admin } } },

@@ -11,16 +11,23 @@ import { signIn, signOut } from '../../support/session';
 
 afterAll(closeTestDb);
 
-const call = (method: string, path: string, cookie: string, body?: unknown) => fetch(`${baseUrl()}${path}`, {
-  method, redirect: 'manual', headers: { 'content-type': 'application/json', origin: baseUrl(), cookie }, body: body === undefined ? undefined : JSON.stringify(body),
-});
+const call = (method: string, path: string, cookie: string, body?: unknown) =>
+  fetch(`${baseUrl()}${path}`, {
+    method,
+    redirect: 'manual',
+    headers: { 'content-type': 'application/json', origin: baseUrl(), cookie },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
 const me = (cookie: string) => call('GET', '/api/me', cookie);
 
 /** A tank of its own in one of the company's homes, so commands sent here disturb no other test. */
 async function spareTank(): Promise<string> {
   const [home] = await homeIds('kestrel-vale', 1);
-  const [t] = await query<{ id: string }>(`insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source)
-    select company_id, id, $2, 'C210 cylinder', 210, 1.4, 12, 'hp_plate' from homes where id = $1 returning id`, [home, `SESSION-${randomUUID().slice(0, 12)}`]);
+  const [t] = await query<{ id: string }>(
+    `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source)
+    select company_id, id, $2, 'C210 cylinder', 210, 1.4, 12, 'hp_plate' from homes where id = $1 returning id`,
+    [home, `SESSION-${randomUUID().slice(0, 12)}`],
+  );
   return t.id;
 }
 
@@ -31,7 +38,9 @@ describe('signing out ends the session on the server', () => {
     const cookie = await signIn(baseUrl(), acct.email, acct.password);
     const copied = cookie;
     expect((await me(cookie)).status).toBe(200);
-    expect((await call('POST', `/api/tanks/${tankId}/commands`, cookie, { kind: 'boost', minutes: 30 })).status).toBeLessThan(300);
+    expect(
+      (await call('POST', `/api/tanks/${tankId}/commands`, cookie, { kind: 'boost', minutes: 30 })).status,
+    ).toBeLessThan(300);
 
     const out = await signOut(baseUrl(), cookie);
     expect(out.status).toBe(302);
@@ -40,9 +49,13 @@ describe('signing out ends the session on the server', () => {
     const replay = await me(copied);
     expect(replay.status).toBe(401);
     expect((await replay.json()).error.code).toBe('SignInRequired');
-    expect((await call('POST', `/api/tanks/${tankId}/commands`, copied, { kind: 'boost', minutes: 30 })).status).toBe(401);
+    expect((await call('POST', `/api/tanks/${tankId}/commands`, copied, { kind: 'boost', minutes: 30 })).status).toBe(
+      401,
+    );
     expect((await call('GET', '/tanks', copied)).headers.get('location')).toMatch(/^\/signin\?next=/);
-    const [{ n }] = await query<{ n: number }>(`select count(*)::int as n from user_sessions where user_id = $1`, [acct.id]);
+    const [{ n }] = await query<{ n: number }>(`select count(*)::int as n from user_sessions where user_id = $1`, [
+      acct.id,
+    ]);
     expect(n).toBe(0);
   });
 
@@ -68,12 +81,22 @@ describe('sign out everywhere', () => {
     expect(res.status).toBe(200);
     expect(await res.json()).toEqual({ sessionsEnded: 2 });
     // This browser's cookie is cleared too.
-    expect(res.headers.getSetCookie().some((l) => /^authjs\.session-token=;|^authjs\.session-token=deleted/.test(l) || (/^authjs\.session-token=/.test(l) && /expires=Thu, 01 Jan 1970|max-age=0/i.test(l)))).toBe(true);
+    expect(
+      res.headers
+        .getSetCookie()
+        .some(
+          (l) =>
+            /^authjs\.session-token=;|^authjs\.session-token=deleted/.test(l) ||
+            (/^authjs\.session-token=/.test(l) && /expires=Thu, 01 Jan 1970|max-age=0/i.test(l)),
+        ),
+    ).toBe(true);
 
     expect((await me(here)).status).toBe(401);
     expect((await me(elsewhere)).status).toBe(401);
     expect((await me(theirs)).status).toBe(200);
-    const [row] = await query(`select action, detail from audit_log where subject = $1 and action = 'sessions.ended'`, [`user:${acct.id}`]);
+    const [row] = await query(`select action, detail from audit_log where subject = $1 and action = 'sessions.ended'`, [
+      `user:${acct.id}`,
+    ]);
     expect(row.detail).toEqual({ sessionsEnded: 2 });
     // Signing in again works as usual.
     expect((await me(await signIn(baseUrl(), acct.email, acct.password))).status).toBe(200);
@@ -82,13 +105,23 @@ describe('sign out everywhere', () => {
   it('answers a plain form post by going to the sign-in page, and refuses a signed-out caller and another site', async () => {
     const acct = await createAccount({ company: 'kestrel-vale', role: 'householder', label: 'form' });
     const cookie = await signIn(baseUrl(), acct.email, acct.password);
-    const crossSite = await fetch(`${baseUrl()}/api/me/sessions/revoke`, { method: 'POST', headers: { cookie, origin: 'http://attacker.example.net' } });
+    const crossSite = await fetch(`${baseUrl()}/api/me/sessions/revoke`, {
+      method: 'POST',
+      headers: { cookie, origin: 'http://attacker.example.net' },
+    });
     expect(crossSite.status).toBe(403);
     expect((await me(cookie)).status).toBe(200);
 
     const form = await fetch(`${baseUrl()}/api/me/sessions/revoke`, {
-      method: 'POST', redirect: 'manual',
-      headers: { cookie, origin: baseUrl(), 'content-type': 'application/x-www-form-urlencoded', 'sec-fetch-mode': 'navigate', accept: 'text/html' },
+      method: 'POST',
+      redirect: 'manual',
+      headers: {
+        cookie,
+        origin: baseUrl(),
+        'content-type': 'application/x-www-form-urlencoded',
+        'sec-fetch-mode': 'navigate',
+        accept: 'text/html',
+      },
     });
     expect(form.status).toBe(303);
     expect(form.headers.get('location')).toBe('/signin?signedOut=everywhere');

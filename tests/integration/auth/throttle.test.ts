@@ -12,19 +12,26 @@ afterAll(closeTestDb);
 let next = 0;
 const run = Date.now() % 200;
 /** A fresh address per call, within 192.0.2.0/24 and 198.51.100.0/24, not reused in this file. */
-const freshAddress = () => { const n = run + next++; return `${n % 2 ? '192.0.2' : '198.51.100'}.${(n >> 1) % 250 + 1}`; };
+const freshAddress = () => {
+  const n = run + next++;
+  return `${n % 2 ? '192.0.2' : '198.51.100'}.${((n >> 1) % 250) + 1}`;
+};
 const at = (address: string) => ({ 'x-forwarded-for': address });
 const outcome = (res: Response) => new URL(res.headers.get('location') ?? '', baseUrl()).searchParams.get('code');
 const signedIn = (jar: Map<string, string>) => [...jar.keys()].some((k) => k.endsWith('authjs.session-token'));
 /** Moves every counted failure of a key back in time, as if the wait had passed. */
-const age = (key: string, seconds: number) => query(`update throttle_events set at = at - make_interval(secs => $2) where key = $1`, [key, seconds]);
+const age = (key: string, seconds: number) =>
+  query(`update throttle_events set at = at - make_interval(secs => $2) where key = $1`, [key, seconds]);
 
 async function clean(...addresses: string[]) {
-  await query(`delete from throttle_events where key = any($1::text[]) or split_part(key, ' ', 2) = any($1::text[])`, [addresses]);
+  await query(`delete from throttle_events where key = any($1::text[]) or split_part(key, ' ', 2) = any($1::text[])`, [
+    addresses,
+  ]);
 }
 
 async function failTimes(email: string, address: string, n: number) {
-  for (let i = 0; i < n; i++) expect(outcome((await attemptSignIn(baseUrl(), email, `wrong-${i}`, at(address))).res)).toBe('credentials');
+  for (let i = 0; i < n; i++)
+    expect(outcome((await attemptSignIn(baseUrl(), email, `wrong-${i}`, at(address))).res)).toBe('credentials');
 }
 
 // Limits from src/lib/auth/throttle.ts (OWASP Authentication Cheat Sheet, "Protect against
@@ -53,9 +60,14 @@ describe('brute force is throttled per account and address, with growing delays'
     const owner = await attemptSignIn(baseUrl(), acct.email, acct.password, at(usual));
     expect(signedIn(owner.jar)).toBe(true);
 
-    const audit = await query(`select action, detail->>'address' as address from audit_log where subject in ($1, $2) order by id`, [acct.email, `user:${acct.id}`]);
+    const audit = await query(
+      `select action, detail->>'address' as address from audit_log where subject in ($1, $2) order by id`,
+      [acct.email, `user:${acct.id}`],
+    );
     expect(audit.map((r) => `${r.action} ${r.address}`)).toEqual([
-      ...Array(freeFailures).fill(`signin.failed ${attacker}`), `signin.throttled ${attacker}`, `signin.succeeded ${usual}`,
+      ...Array(freeFailures).fill(`signin.failed ${attacker}`),
+      `signin.throttled ${attacker}`,
+      `signin.succeeded ${usual}`,
     ]);
   });
 
@@ -92,7 +104,11 @@ describe('brute force is throttled per account and address, with growing delays'
     const address = freshAddress();
     await clean(address);
     await failTimes(acct.email, address, freeFailures);
-    const held = await attemptSignIn(baseUrl(), acct.email, acct.password, { ...at(address), 'sec-fetch-mode': 'navigate', accept: 'text/html' });
+    const held = await attemptSignIn(baseUrl(), acct.email, acct.password, {
+      ...at(address),
+      'sec-fetch-mode': 'navigate',
+      accept: 'text/html',
+    });
     expect(held.res.status).toBe(302);
     expect(Number(held.res.headers.get('retry-after'))).toBeGreaterThan(50);
     const location = new URL(held.res.headers.get('location')!, baseUrl());

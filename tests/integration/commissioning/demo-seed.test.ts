@@ -19,18 +19,40 @@ afterAll(closeTestDb);
 
 /** 31 Jan + 1 month = 28/29 Feb: calendar months, written out here rather than taken from the product. */
 function monthsLater(d: Date, months: number): Date {
-  const y = d.getUTCFullYear(), m = d.getUTCMonth() + months;
+  const y = d.getUTCFullYear(),
+    m = d.getUTCMonth() + months;
   const last = new Date(Date.UTC(y, m + 1, 0)).getUTCDate();
-  return new Date(Date.UTC(y, m, Math.min(d.getUTCDate(), last), d.getUTCHours(), d.getUTCMinutes(), d.getUTCSeconds(), d.getUTCMilliseconds()));
+  return new Date(
+    Date.UTC(
+      y,
+      m,
+      Math.min(d.getUTCDate(), last),
+      d.getUTCHours(),
+      d.getUTCMinutes(),
+      d.getUTCSeconds(),
+      d.getUTCMilliseconds(),
+    ),
+  );
 }
 
 describe('the lived-in demo', () => {
   it('gives most demo tanks a signed commissioning record, with its PDF and a photo or two', async () => {
-    const rows = await query<{ id: string; serial: string; pdf_key: string | null; handover_sent_at: Date | null; photos: number; signed_at: Date; commissioned_at: Date }>(`
+    const rows = await query<{
+      id: string;
+      serial: string;
+      pdf_key: string | null;
+      handover_sent_at: Date | null;
+      photos: number;
+      signed_at: Date;
+      commissioned_at: Date;
+    }>(
+      `
       select c.id, t.serial, c.pdf_key, c.handover_sent_at, c.signed_at, t.commissioned_at,
         (select count(*)::int from uploads u where u.commissioning_id = c.id and u.kind = 'photo') as photos
       from commissionings c join tanks t on t.id = c.tank_id
-      where c.status = 'signed' and t.serial = any($1)`, [serials]);
+      where c.status = 'signed' and t.serial = any($1)`,
+      [serials],
+    );
     // "Most": seven in eight, as the scenario has it, and at least three quarters of the fleet.
     expect(rows.length).toBe(kestrel.filter((t) => t.commissioning).length);
     expect(rows.length).toBeGreaterThanOrEqual(0.75 * kestrel.length);
@@ -47,7 +69,9 @@ describe('the lived-in demo', () => {
     // A handful, spread over the fleet: the PDF downloads and says what was signed; the photos are real JPEGs.
     const sample = rows.filter((_, i) => i % 45 === 0);
     for (const r of sample) {
-      const pdf = await fetch(`${baseUrl()}/api/commissioning/${r.id}/record.pdf`, { headers: { cookie: operator.cookie } });
+      const pdf = await fetch(`${baseUrl()}/api/commissioning/${r.id}/record.pdf`, {
+        headers: { cookie: operator.cookie },
+      });
       expect(pdf.status, r.serial).toBe(200);
       expect(pdf.headers.get('content-type')).toBe('application/pdf');
       const text = await pdfText(new Uint8Array(await pdf.arrayBuffer()));
@@ -71,13 +95,21 @@ describe('the lived-in demo', () => {
 
   it('dates each tank’s next inspection from its service history, and a few are overdue', async () => {
     // Every demo tank is due within a year of its last inspection, so a year's look-ahead lists them all.
-    const due = (await call(operator, 'GET', '/api/visits?withinDays=366')).body.due as { serial: string; dueAt: string; state: string; lastInspection: string | null }[];
+    const due = (await call(operator, 'GET', '/api/visits?withinDays=366')).body.due as {
+      serial: string;
+      dueAt: string;
+      state: string;
+      lastInspection: string | null;
+    }[];
     const listed = new Map(due.filter((d) => serials.includes(d.serial)).map((d) => [d.serial, d]));
     expect(listed.size).toBe(kestrel.length);
 
-    const history = await query<{ serial: string; commissioned_at: Date; last: Date | null; visits: number }>(`
+    const history = await query<{ serial: string; commissioned_at: Date; last: Date | null; visits: number }>(
+      `
       select t.serial, t.commissioned_at, max(v.visited_at) filter (where v.kind = 'annual_inspection') as last, count(v.id)::int as visits
-      from tanks t left join service_visits v on v.tank_id = t.id where t.serial = any($1) group by t.serial, t.commissioned_at`, [serials]);
+      from tanks t left join service_visits v on v.tank_id = t.id where t.serial = any($1) group by t.serial, t.commissioned_at`,
+      [serials],
+    );
     const now = Date.now();
     for (const h of history) {
       const t = kestrel.find((k) => k.serial === h.serial)!;

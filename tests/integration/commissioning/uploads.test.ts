@@ -23,7 +23,11 @@ async function upload(api: Api, name: string, bytes: Buffer, type: string) {
   const form = new FormData();
   form.set('file', new Blob([new Uint8Array(bytes)], { type }), name);
   form.set('commissioningId', draftId);
-  const res = await fetch(`${api.base}/api/uploads`, { method: 'POST', headers: { origin: api.base, cookie: api.cookie }, body: form });
+  const res = await fetch(`${api.base}/api/uploads`, {
+    method: 'POST',
+    headers: { origin: api.base, cookie: api.cookie },
+    body: form,
+  });
   return { status: res.status, body: await res.json() };
 }
 
@@ -31,12 +35,20 @@ describe('uploads', () => {
   it('refuses a file of the wrong type with a message naming it', async () => {
     const r = await upload(kestrel, 'wiring.jpg', Buffer.from('#!/bin/sh\necho not a photo\n'), 'image/jpeg');
     expect(r.status).toBe(415);
-    expect(r.body.error).toMatchObject({ code: 'UnsupportedFileType', fields: [{ field: 'file', message: 'Only JPEG, PNG, WebP or PDF.' }] });
+    expect(r.body.error).toMatchObject({
+      code: 'UnsupportedFileType',
+      fields: [{ field: 'file', message: 'Only JPEG, PNG, WebP or PDF.' }],
+    });
     expect(r.body.error.message).toMatch(/“wiring.jpg” is not a photo/);
   });
 
   it('refuses a file that is too large', async () => {
-    const r = await upload(kestrel, 'huge.jpg', Buffer.concat([await jpegPhoto(64, 64), Buffer.alloc(16 * 1024 * 1024)]), 'image/jpeg');
+    const r = await upload(
+      kestrel,
+      'huge.jpg',
+      Buffer.concat([await jpegPhoto(64, 64), Buffer.alloc(16 * 1024 * 1024)]),
+      'image/jpeg',
+    );
     expect(r.status).toBe(413);
     expect(r.body.error.code).toBe('FileTooLarge');
     expect(r.body.error.message).toMatch(/at most 15.0 MB/);
@@ -57,8 +69,17 @@ describe('uploads', () => {
   it('stores a photo downscaled through S3, viewable by its company only', async () => {
     const r = await upload(kestrel, 'cylinder.png', await pngImage(3000, 2000), 'image/png');
     expect(r.status).toBe(201);
-    expect(r.body.upload).toMatchObject({ kind: 'photo', filename: 'cylinder.jpg', width: 2048, height: 1365, downscaled: true });
-    const [row] = await query<{ storage_key: string; company_id: string }>('select storage_key, company_id from uploads where id = $1', [r.body.upload.id]);
+    expect(r.body.upload).toMatchObject({
+      kind: 'photo',
+      filename: 'cylinder.jpg',
+      width: 2048,
+      height: 1365,
+      downscaled: true,
+    });
+    const [row] = await query<{ storage_key: string; company_id: string }>(
+      'select storage_key, company_id from uploads where id = $1',
+      [r.body.upload.id],
+    );
     expect(row.storage_key.startsWith(`${row.company_id}/uploads/`)).toBe(true);
     // The object itself is in the S3 bucket (the fake S3 server), already downscaled.
     const stored = await getObject(row.storage_key);
@@ -83,7 +104,11 @@ describe('uploads', () => {
     const form = new FormData();
     form.set('file', new Blob([new Uint8Array(await jpegPhoto(32, 32))], { type: 'image/jpeg' }), 'x.jpg');
     form.set('commissioningId', draftId);
-    const res = await fetch(`${baseUrl()}/api/uploads`, { method: 'POST', headers: { origin: baseUrl(), cookie: orrin.cookie }, body: form });
+    const res = await fetch(`${baseUrl()}/api/uploads`, {
+      method: 'POST',
+      headers: { origin: baseUrl(), cookie: orrin.cookie },
+      body: form,
+    });
     expect(res.status).toBe(404);
   });
 });

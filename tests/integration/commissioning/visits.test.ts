@@ -16,7 +16,8 @@ beforeAll(async () => {
 });
 afterAll(closeTestDb);
 
-const dueSerials = async (api: Api) => (await call(api, 'GET', '/api/visits?withinDays=30')).body.due as { tankId: string; state: string; dueAt: string }[];
+const dueSerials = async (api: Api) =>
+  (await call(api, 'GET', '/api/visits?withinDays=30')).body.due as { tankId: string; state: string; dueAt: string }[];
 
 describe('service visits', () => {
   it('lists a tank for its annual inspection a year after commissioning, then after its last inspection', async () => {
@@ -32,20 +33,40 @@ describe('service visits', () => {
     const form = new FormData();
     form.set('file', new Blob([new Uint8Array(await jpegPhoto(800, 600))], { type: 'image/jpeg' }), 'relief-valve.jpg');
     form.set('tankId', tankId);
-    const up = await (await fetch(`${baseUrl()}/api/uploads`, { method: 'POST', headers: { origin: baseUrl(), cookie: engineer.cookie }, body: form })).json();
+    const up = await (
+      await fetch(`${baseUrl()}/api/uploads`, {
+        method: 'POST',
+        headers: { origin: baseUrl(), cookie: engineer.cookie },
+        body: form,
+      })
+    ).json();
 
     // An alert the desk raised for this tank, which the visit deals with.
-    const [alert] = await query<{ id: string }>(`insert into alerts (company_id, tank_id, kind, severity, evidence, opened_at)
+    const [alert] = await query<{ id: string }>(
+      `insert into alerts (company_id, tank_id, kind, severity, evidence, opened_at)
       select company_id, id, 'heat_loss', 'warning', $2::jsonb, now() - interval '2 days' from tanks where id = $1 returning id`,
-      [tankId, JSON.stringify({ summary: 'Standing loss above the declared figure.', facts: {}, at: Date.now() })]);
+      [tankId, JSON.stringify({ summary: 'Standing loss above the declared figure.', facts: {}, at: Date.now() })],
+    );
     const visit = await call(engineer, 'POST', '/api/visits', {
-      tankId, kind: 'annual_inspection', visitedAt: new Date().toISOString(), findings: 'Relief valve operated and reseated; vessel recharged.',
-      parts: [{ name: 'anode', quantity: 1 }], readings: { topC: '58.5', inletPressureBar: '3.0', vesselPrechargeBar: '3.0', reliefValveTested: true },
-      resolvedAlertIds: [alert.id], uploadIds: [up.upload.id],
+      tankId,
+      kind: 'annual_inspection',
+      visitedAt: new Date().toISOString(),
+      findings: 'Relief valve operated and reseated; vessel recharged.',
+      parts: [{ name: 'anode', quantity: 1 }],
+      readings: { topC: '58.5', inletPressureBar: '3.0', vesselPrechargeBar: '3.0', reliefValveTested: true },
+      resolvedAlertIds: [alert.id],
+      uploadIds: [up.upload.id],
     });
     expect(visit.status).toBe(201);
-    expect(visit.body.visit.readings).toMatchObject({ topC: 58.5, reliefValveTested: true, telemetryLayersC: [15, 22, 35, 48, 55, 58] });
-    const [resolved] = await query<{ state: string; email: string }>('select a.state, u.email from alerts a join "user" u on u.id = a.resolved_by where a.id = $1', [alert.id]);
+    expect(visit.body.visit.readings).toMatchObject({
+      topC: 58.5,
+      reliefValveTested: true,
+      telemetryLayersC: [15, 22, 35, 48, 55, 58],
+    });
+    const [resolved] = await query<{ state: string; email: string }>(
+      'select a.state, u.email from alerts a join "user" u on u.id = a.resolved_by where a.id = $1',
+      [alert.id],
+    );
     expect(resolved).toEqual({ state: 'resolved', email: 'engineer@kestrelvale.example.com' });
     expect(visit.body.visit.resolvedAlerts).toEqual([alert.id]);
     const [photo] = await query<{ visit_id: string }>('select visit_id from uploads where id = $1', [up.upload.id]);
@@ -58,21 +79,45 @@ describe('service visits', () => {
     expect(html).toContain('1 × anode');
     expect(html).toContain('Commissioned');
     expect(html).toContain('Alerts resolved: Heat loss above declared');
-    expect((await fetch(`${baseUrl()}/service/tanks/${tankId}`, { headers: { cookie: orrin.cookie } })).status).toBe(404);
+    expect((await fetch(`${baseUrl()}/service/tanks/${tankId}`, { headers: { cookie: orrin.cookie } })).status).toBe(
+      404,
+    );
   });
 
   it('refuses a visit with bad readings naming the field, and stores nothing', async () => {
     const before = (await query('select id from service_visits where tank_id = $1', [tankId])).length;
-    const r = await call(engineer, 'POST', '/api/visits', { tankId, kind: 'fault', visitedAt: new Date().toISOString(), findings: 'No hot water', readings: { inletPressureBar: '40' } });
+    const r = await call(engineer, 'POST', '/api/visits', {
+      tankId,
+      kind: 'fault',
+      visitedAt: new Date().toISOString(),
+      findings: 'No hot water',
+      readings: { inletPressureBar: '40' },
+    });
     expect(r.status).toBe(400);
-    expect(r.body.error.fields).toEqual([{ field: 'readings.inletPressureBar', message: 'The incoming pressure must be at most 16 bar.' }]);
+    expect(r.body.error.fields).toEqual([
+      { field: 'readings.inletPressureBar', message: 'The incoming pressure must be at most 16 bar.' },
+    ]);
     expect((await query('select id from service_visits where tank_id = $1', [tankId])).length).toBe(before);
     // An alert already resolved (the one above) cannot be resolved again: nothing is stored.
-    const [done] = await query<{ id: string }>("select id from alerts where tank_id = $1 and state = 'resolved' limit 1", [tankId]);
-    const again = await call(engineer, 'POST', '/api/visits', { tankId, kind: 'repair', visitedAt: new Date().toISOString(), findings: 'Replaced the vessel', resolvedAlertIds: [done.id] });
+    const [done] = await query<{ id: string }>(
+      "select id from alerts where tank_id = $1 and state = 'resolved' limit 1",
+      [tankId],
+    );
+    const again = await call(engineer, 'POST', '/api/visits', {
+      tankId,
+      kind: 'repair',
+      visitedAt: new Date().toISOString(),
+      findings: 'Replaced the vessel',
+      resolvedAlertIds: [done.id],
+    });
     expect([again.status, again.body.error.code]).toEqual([422, 'UnknownAlerts']);
     expect((await query('select id from service_visits where tank_id = $1', [tankId])).length).toBe(before);
-    const foreign = await call(orrin, 'POST', '/api/visits', { tankId, kind: 'fault', visitedAt: new Date().toISOString(), findings: 'No hot water' });
+    const foreign = await call(orrin, 'POST', '/api/visits', {
+      tankId,
+      kind: 'fault',
+      visitedAt: new Date().toISOString(),
+      findings: 'No hot water',
+    });
     expect(foreign.status).toBe(404);
   });
 });

@@ -15,15 +15,36 @@ beforeAll(async () => {
   day = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
   const { startMs } = localDayBounds(day, 'Europe/London');
   // Day/night: 10 p/kWh from 00:30 to 05:30 local, 30 p/kWh otherwise (test values).
-  await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 0, validFromMs: startMs - 86_400_000, validToMs: null });
+  await setHomeTariff(tank, {
+    kind: 'day_night',
+    timeZone: 'Europe/London',
+    nightStartMin: 30,
+    nightEndMin: 330,
+    dayImportPence: 30,
+    nightImportPence: 10,
+    exportPence: 0,
+    validFromMs: startMs - 86_400_000,
+    validToMs: null,
+  });
   await writeHandWorkedDay(tank, day);
-  const own = await createAccount({ company: 'kestrel-vale', role: 'householder', homeId: tank.homeId, label: 'energy-home' });
+  const own = await createAccount({
+    company: 'kestrel-vale',
+    role: 'householder',
+    homeId: tank.homeId,
+    label: 'energy-home',
+  });
   [cookies.engineer, cookies.own, cookies.otherHouseholder, cookies.otherCompany] = await Promise.all([
-    signInAs(process.env.TEST_BASE_URL!, 'engineer'), signIn(process.env.TEST_BASE_URL!, own.email, own.password),
-    signInAs(process.env.TEST_BASE_URL!, 'householder'), signInAs(process.env.TEST_BASE_URL!, 'operator', 'orrin-bay'),
+    signInAs(process.env.TEST_BASE_URL!, 'engineer'),
+    signIn(process.env.TEST_BASE_URL!, own.email, own.password),
+    signInAs(process.env.TEST_BASE_URL!, 'householder'),
+    signInAs(process.env.TEST_BASE_URL!, 'operator', 'orrin-bay'),
   ]);
 }, 60_000);
-afterAll(async () => { await query('delete from tariffs where home_id = $1', [tank.homeId]); await dropTanks(); await closeTestDb(); });
+afterAll(async () => {
+  await query('delete from tariffs where home_id = $1', [tank.homeId]);
+  await dropTanks();
+  await closeTestDb();
+});
 
 describe('GET /api/tanks/{id}/energy', () => {
   it('accounts the day against the hand-worked figures', async () => {
@@ -52,21 +73,31 @@ describe('GET /api/tanks/{id}/energy', () => {
     expect(d.drawnLitres40 / 83.333).toBeLessThan(1.02);
     expect(d.storedChangeKWh).toBeCloseTo(0, 9);
     // The month holds the same day.
-    expect(res.body.months).toEqual([expect.objectContaining({ month: day.slice(0, 7), days: 1, costPence: d.costPence })]);
+    expect(res.body.months).toEqual([
+      expect.objectContaining({ month: day.slice(0, 7), days: 1, costPence: d.costPence }),
+    ]);
     expect(res.body.totals).toMatchObject({ days: 1 });
     expect(res.body.totals.costPence).toBeCloseTo(55, 9);
   });
 
   it('shows the householder their own home, and nobody else’s', async () => {
     expect((await call(cookies.own!, 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`)).status).toBe(200);
-    expect((await call(cookies.otherHouseholder!, 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`)).status).toBe(404);
-    expect((await call(cookies.otherCompany!, 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`)).status).toBe(404);
+    expect(
+      (await call(cookies.otherHouseholder!, 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`)).status,
+    ).toBe(404);
+    expect(
+      (await call(cookies.otherCompany!, 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`)).status,
+    ).toBe(404);
   });
 
   it('refuses a bad range naming the field', async () => {
     const res = await call(cookies.engineer!, 'GET', `/api/tanks/${tank.id}/energy?from=2026-01-01&to=2026-12-31`);
     expect(res.status).toBe(400);
-    expect(res.body.error.fields).toEqual([expect.objectContaining({ field: 'to', message: expect.stringMatching(/at most 62/) })]);
-    expect((await call(cookies.engineer!, 'GET', `/api/tanks/${tank.id}/energy?from=yesterday`)).body.error.fields[0].field).toBe('from');
+    expect(res.body.error.fields).toEqual([
+      expect.objectContaining({ field: 'to', message: expect.stringMatching(/at most 62/) }),
+    ]);
+    expect(
+      (await call(cookies.engineer!, 'GET', `/api/tanks/${tank.id}/energy?from=yesterday`)).body.error.fields[0].field,
+    ).toBe('from');
   });
 });

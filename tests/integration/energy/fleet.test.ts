@@ -6,7 +6,19 @@ import { localDayBounds } from '../../../src/lib/energy';
 import { refreshEnergyDays } from '../../../src/lib/tank-energy/energy-days.server';
 import { closeTestDb, query } from '../../support/db';
 import { signInAs } from '../../support/session';
-import { base, call, dropCompany, dropTanks, homeWithDays, makeTank, ownCompany, setHomeTariff, staffOf, writeHandWorkedDay, type EnergyTank } from './fixtures';
+import {
+  base,
+  call,
+  dropCompany,
+  dropTanks,
+  homeWithDays,
+  makeTank,
+  ownCompany,
+  setHomeTariff,
+  staffOf,
+  writeHandWorkedDay,
+  type EnergyTank,
+} from './fixtures';
 
 const DAY_MS = 86_400_000;
 const dateOf = (ms: number) => new Date(ms).toISOString().slice(0, 10);
@@ -28,18 +40,37 @@ beforeAll(async () => {
   const c = await ownCompany('Fernholt');
   company = { id: c.id, operator: await staffOf(c, 'operator'), engineer: await staffOf(c, 'engineer') };
   for (let i = 0; i < 8; i++) {
-    const id = await homeWithDays(c.id, i + 1, rangeDays.map((date) => ({ date, litres: 100, cost: costPer100L[i]!, hpElec: 1, hpHeat: cop[i]! })));
+    const id = await homeWithDays(
+      c.id,
+      i + 1,
+      rangeDays.map((date) => ({ date, litres: 100, cost: costPer100L[i]!, hpElec: 1, hpHeat: cop[i]! })),
+    );
     tankIds.push(id);
     if (i === 7) expensive = id;
   }
   // Mostly away: 5 L a day (below 15 L, the least compared) at 10 p a day, and a heat pump that hardly ran (0.1 kWh a day).
-  tankIds.push(await homeWithDays(c.id, 9, rangeDays.map((date) => ({ date, litres: 5, cost: 10, hpElec: 0.1, hpHeat: 0.05 }))));
+  tankIds.push(
+    await homeWithDays(
+      c.id,
+      9,
+      rangeDays.map((date) => ({ date, litres: 5, cost: 10, hpElec: 0.1, hpHeat: 0.05 })),
+    ),
+  );
   // Only two days in the range (three are needed), however odd they are.
-  tankIds.push(await homeWithDays(c.id, 10, rangeDays.slice(0, 2).map((date) => ({ date, litres: 100, cost: 500, hpElec: 1, hpHeat: 0.2 }))));
+  tankIds.push(
+    await homeWithDays(
+      c.id,
+      10,
+      rangeDays.slice(0, 2).map((date) => ({ date, litres: 100, cost: 500, hpElec: 1, hpHeat: 0.2 })),
+    ),
+  );
   // A day outside the range is not counted.
-  await query(`insert into energy_days (tank_id, day, company_id, cost_pence, heat_pump_heat_kwh, heat_pump_electricity_kwh, immersion_grid_heat_kwh,
+  await query(
+    `insert into energy_days (tank_id, day, company_id, cost_pence, heat_pump_heat_kwh, heat_pump_electricity_kwh, immersion_grid_heat_kwh,
       immersion_solar_heat_kwh, drawn_litres40, standing_loss_kwh, solar_export_forgone_pence, unpriced_kwh, covered_minutes)
-    values ($1, ($2::date - 1), $3, 99999, 0, 50, 0, 0, 1, 0, 0, 0, 1440)`, [tankIds[0], from, c.id]);
+    values ($1, ($2::date - 1), $3, 99999, 0, 50, 0, 0, 1, 0, 0, 0, 1440)`,
+    [tankIds[0], from, c.id],
+  );
 }, 60_000);
 
 afterAll(async () => {
@@ -111,9 +142,19 @@ describe('GET /api/fleet/energy', () => {
     const c = await ownCompany('Marrowby');
     const operator = await staffOf(c, 'operator');
     try {
-      for (let i = 0; i < 8; i++) await homeWithDays(c.id, i + 1, rangeDays.map((date) => ({ date, litres: 100, cost: 10 + i, hpElec: 1, hpHeat: 2.8 })));
+      for (let i = 0; i < 8; i++)
+        await homeWithDays(
+          c.id,
+          i + 1,
+          rangeDays.map((date) => ({ date, litres: 100, cost: 10 + i, hpElec: 1, hpHeat: 2.8 })),
+        );
       // Immersion only: 100 L at 40 °C a day for 40 p, far above the heat-pump homes' upper fence.
-      const immersion = await homeWithDays(c.id, 9, rangeDays.map((date) => ({ date, litres: 100, cost: 40, hpElec: 0, hpHeat: 0 })), 'immersion_only');
+      const immersion = await homeWithDays(
+        c.id,
+        9,
+        rangeDays.map((date) => ({ date, litres: 100, cost: 40, hpElec: 0, hpHeat: 0 })),
+        'immersion_only',
+      );
       const b = (await call(operator, 'GET', `/api/fleet/energy?from=${from}&to=${to}`)).body;
       expect(b.homes).toBe(9);
       expect(b.fences.cost_per_100l.homes).toBe(8);
@@ -129,7 +170,9 @@ describe('GET /api/fleet/energy', () => {
     expect(bad.body.error.fields[0].field).toBe('from');
     const long = await call(company.operator, 'GET', '/api/fleet/energy?from=2025-01-01&to=2026-06-30');
     expect(long.status).toBe(400);
-    expect(long.body.error.fields).toEqual([expect.objectContaining({ field: 'to', message: expect.stringMatching(/at most 366/) })]);
+    expect(long.body.error.fields).toEqual([
+      expect.objectContaining({ field: 'to', message: expect.stringMatching(/at most 366/) }),
+    ]);
     const unknown = await call(company.operator, 'GET', '/api/fleet/energy?sort=cost');
     expect(unknown.status).toBe(400);
   });
@@ -150,32 +193,62 @@ describe('the energy-day job', () => {
     tank = await makeTank('kestrel-vale', { declaredLossW: 45 });
     day = dateOf(Date.now() - 2 * DAY_MS);
     const { startMs } = localDayBounds(day, 'Europe/London');
-    await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 0, validFromMs: startMs - DAY_MS, validToMs: null });
+    await setHomeTariff(tank, {
+      kind: 'day_night',
+      timeZone: 'Europe/London',
+      nightStartMin: 30,
+      nightEndMin: 330,
+      dayImportPence: 30,
+      nightImportPence: 10,
+      exportPence: 0,
+      validFromMs: startMs - DAY_MS,
+      validToMs: null,
+    });
     await writeHandWorkedDay(tank, day);
   }, 60_000);
-  afterAll(async () => { await query('delete from tariffs where home_id = $1', [tank.homeId]); });
+  afterAll(async () => {
+    await query('delete from tariffs where home_id = $1', [tank.homeId]);
+  });
 
   it('queues the hours whose hourly rollup is written (trigger on rollups_1h)', async () => {
     const { startMs } = localDayBounds(day, 'Europe/London');
     const hour = new Date(startMs + 5 * 3_600_000);
-    await query(`insert into rollups_1h (tank_id, bucket, samples, layers_avg_cc, compressor_samples, immersion_samples) values ($1, $2, 60, '{2000,4000,5000,6000}', 0, 0)`, [tank.id, hour]);
+    await query(
+      `insert into rollups_1h (tank_id, bucket, samples, layers_avg_cc, compressor_samples, immersion_samples) values ($1, $2, 60, '{2000,4000,5000,6000}', 0, 0)`,
+      [tank.id, hour],
+    );
     await query(`update rollups_1h set samples = 59 where tank_id = $1 and bucket = $2`, [tank.id, hour]);
-    const queued = await query<{ n: number }>(`select count(*)::int as n from energy_day_dirty where tank_id = $1 and hour = $2`, [tank.id, hour]);
+    const queued = await query<{ n: number }>(
+      `select count(*)::int as n from energy_day_dirty where tank_id = $1 and hour = $2`,
+      [tank.id, hour],
+    );
     expect(queued[0]!.n).toBe(1);
   });
 
   it('stores the day as the tank’s own energy endpoint accounts it, once the day has ended', async () => {
     // The worker's own job may take the queued hour first; either way the day ends up stored.
     for (let i = 0; i < 5; i++) await refreshEnergyDays({ limit: 5000 });
-    const [row] = await query<{ cost_pence: number; heat_pump_electricity_kwh: number; immersion_grid_heat_kwh: number; drawn_litres40: number; company_id: string }>(
-      `select cost_pence, heat_pump_electricity_kwh, immersion_grid_heat_kwh, drawn_litres40, company_id from energy_days where tank_id = $1 and day = $2`, [tank.id, day]);
+    const [row] = await query<{
+      cost_pence: number;
+      heat_pump_electricity_kwh: number;
+      immersion_grid_heat_kwh: number;
+      drawn_litres40: number;
+      company_id: string;
+    }>(
+      `select cost_pence, heat_pump_electricity_kwh, immersion_grid_heat_kwh, drawn_litres40, company_id from energy_days where tank_id = $1 and day = $2`,
+      [tank.id, day],
+    );
     // 1 kWh of heat pump at 10 p + 1.5 kWh of immersion at 30 p = 55 p (arithmetic of the hand-worked day).
     expect(row).toBeDefined();
     expect(row!.cost_pence).toBeCloseTo(55, 3);
     expect(row!.heat_pump_electricity_kwh).toBeCloseTo(1, 5);
     expect(row!.immersion_grid_heat_kwh).toBeCloseTo(1.5, 5);
     expect(row!.company_id).toBe(tank.companyId);
-    const api = await call(await signInAs(base(), 'engineer'), 'GET', `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`);
+    const api = await call(
+      await signInAs(base(), 'engineer'),
+      'GET',
+      `/api/tanks/${tank.id}/energy?from=${day}&to=${day}`,
+    );
     expect(row!.drawn_litres40).toBeCloseTo(api.body.days[0].drawnLitres40, 3);
   });
 
@@ -183,10 +256,16 @@ describe('the energy-day job', () => {
     const admin = await signInAs(base(), 'admin');
     const { startMs } = localDayBounds(day, 'Europe/London');
     // A flat 20 p/kWh for this home from the start of the day: 2.5 kWh × 20 p = 50 p.
-    const res = await call(admin, 'POST', '/api/tariffs', { homeId: tank.homeId, tariff: { kind: 'flat', unit: 'p/kWh', import: 20, export: 0, validFrom: new Date(startMs).toISOString() } });
+    const res = await call(admin, 'POST', '/api/tariffs', {
+      homeId: tank.homeId,
+      tariff: { kind: 'flat', unit: 'p/kWh', import: 20, export: 0, validFrom: new Date(startMs).toISOString() },
+    });
     expect(res.status).toBe(201);
     for (let i = 0; i < 5; i++) await refreshEnergyDays({ limit: 5000 });
-    const [row] = await query<{ cost_pence: number }>(`select cost_pence from energy_days where tank_id = $1 and day = $2`, [tank.id, day]);
+    const [row] = await query<{ cost_pence: number }>(
+      `select cost_pence from energy_days where tank_id = $1 and day = $2`,
+      [tank.id, day],
+    );
     expect(row!.cost_pence).toBeCloseTo(50, 3);
   });
 });

@@ -50,8 +50,22 @@ describe('the simulator follows a sent charge plan over a day', () => {
     // simulated heat pump gives the house in winter and from its pasteurisation cycle (test prices).
     const admin = await signInAs(baseUrl(), 'admin');
     const tariff = await fetch(`${baseUrl()}/api/tariffs`, {
-      method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), cookie: admin },
-      body: JSON.stringify({ homeId, tariff: { kind: 'day_night', unit: 'p/kWh', timeZone: ZONE, nightStart: '10:00', nightEnd: '14:00', dayImport: 30, nightImport: 8, export: 15, validFrom: new Date(now - DAY).toISOString() } }),
+      method: 'POST',
+      headers: { 'content-type': 'application/json', origin: baseUrl(), cookie: admin },
+      body: JSON.stringify({
+        homeId,
+        tariff: {
+          kind: 'day_night',
+          unit: 'p/kWh',
+          timeZone: ZONE,
+          nightStart: '10:00',
+          nightEnd: '14:00',
+          dayImport: 30,
+          nightImport: 8,
+          export: 15,
+          validFrom: new Date(now - DAY).toISOString(),
+        },
+      }),
     });
     expect(tariff.status).toBe(201);
     // Fourteen days of the household's life through the HTTP batch path, so that the planner learns
@@ -59,7 +73,10 @@ describe('the simulator follows a sent charge plan over a day', () => {
     sim = new SimTank(tank.demo, []);
     const history: Reading[] = [];
     const until = Math.floor(Date.now() / MIN) * MIN;
-    while (now < until) { now += MIN; history.push(sim.step(now)); }
+    while (now < until) {
+      now += MIN;
+      history.push(sim.step(now));
+    }
     lastLayers = history.at(-1)!.layersC as number[];
     device = new SimDevice(sim, { mqttUrl: mqttUrl(), token: tank.token, now: () => now });
     await device.postBatch(`${baseUrl()}/api/ingest`, history);
@@ -75,10 +92,15 @@ describe('the simulator follows a sent charge plan over a day', () => {
   it('heats in the planned windows, outside them only for the controller’s rules, and heats the store back whenever V40 falls below the floor', async () => {
     const engineer = await signInAs(baseUrl(), 'engineer');
     // A full tank may need nothing for a day at the first floor; then ask for more in reserve.
-    let sent: { plan: { windows: { from: string; to: string }[]; comfortFloorL40: number; floorMet: boolean }; command: { id: string } } | null = null;
+    let sent: {
+      plan: { windows: { from: string; to: string }[]; comfortFloorL40: number; floorMet: boolean };
+      command: { id: string };
+    } | null = null;
     for (const floor of FLOORS) {
       const res = await fetch(`${baseUrl()}/api/tanks/${tank.id}/plan/send`, {
-        method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), cookie: engineer }, body: JSON.stringify({ comfortFloorL40: floor, hours: 24 }),
+        method: 'POST',
+        headers: { 'content-type': 'application/json', origin: baseUrl(), cookie: engineer },
+        body: JSON.stringify({ comfortFloorL40: floor, hours: 24 }),
       });
       const body = await res.json();
       if (res.status === 409 && body.error.code === 'NothingToSchedule') continue;
@@ -92,7 +114,8 @@ describe('the simulator follows a sent charge plan over a day', () => {
     const floor = plan.comfortFloorL40;
 
     // The command went through the broker and the tank took it.
-    const state = () => db.query(`select state from commands where id = $1`, [sent!.command.id]).then((r) => r.rows[0]?.state as string);
+    const state = () =>
+      db.query(`select state from commands where id = $1`, [sent!.command.id]).then((r) => r.rows[0]?.state as string);
     await eventually(state, (s) => s === 'applied', 15_000, 'the schedule to be applied');
     expect(sim.windows).toEqual(plan.windows);
     expect(sim.comfortFloorL40).toBe(floor);
@@ -109,7 +132,12 @@ describe('the simulator follows a sent charge plan over a day', () => {
     let calling = false;
     const immersionWhy = new Set<HeatReason>();
     // V40 as every screen shows it: the thermal core's figures (EN 16147's 10 °C cold water and 40 °C delivery).
-    const geometry = { volumeL: tank.volumeL, heightM: sim.spec.heightM, sensorCount: sim.spec.sensorCount, targetC: sim.targetC };
+    const geometry = {
+      volumeL: tank.volumeL,
+      heightM: sim.spec.heightM,
+      sensorCount: sim.spec.sensorCount,
+      targetC: sim.targetC,
+    };
     const v40Of = (layersC: readonly (number | null)[]) => tankFigures({ layersC }, geometry).v40L ?? 0;
     let v40 = v40Of(lastLayers);
     for (let i = 0; i < 1440; i++) {

@@ -21,7 +21,14 @@ let engineer: string;
  * Export earns 15 p/kWh.
  */
 function handWorkedReading(startMs: number, m: number) {
-  const r: Record<string, unknown> = { ts: startMs + m * MIN, layersC: [20, 40, 50, 60], compressor: m >= 60 && m < 120, immersionW: 0, powerW: 0, drawLpm: 0 };
+  const r: Record<string, unknown> = {
+    ts: startMs + m * MIN,
+    layersC: [20, 40, 50, 60],
+    compressor: m >= 60 && m < 120,
+    immersionW: 0,
+    powerW: 0,
+    drawLpm: 0,
+  };
   if (m >= 60 && m < 120) r.powerW = 1000;
   if (m >= 720 && m < 780) Object.assign(r, { immersionW: 2000, powerW: 2000, solarSurplusW: 1500 });
   if (m >= 780 && m < 810) r.solarSurplusW = 800;
@@ -36,11 +43,22 @@ beforeAll(async () => {
   day = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
   const { startMs, endMs } = localDayBounds(day, 'Europe/London');
   // Day/night: 10 p/kWh from 00:30 to 05:30 local, 30 p/kWh otherwise, export 15 p/kWh (test values).
-  await setHomeTariff(tank, { kind: 'day_night', timeZone: 'Europe/London', nightStartMin: 30, nightEndMin: 330, dayImportPence: 30, nightImportPence: 10, exportPence: 15, validFromMs: startMs - 86_400_000, validToMs: null });
+  await setHomeTariff(tank, {
+    kind: 'day_night',
+    timeZone: 'Europe/London',
+    nightStartMin: 30,
+    nightEndMin: 330,
+    dayImportPence: 30,
+    nightImportPence: 10,
+    exportPence: 15,
+    validFromMs: startMs - 86_400_000,
+    validToMs: null,
+  });
   const all = Array.from({ length: (endMs - startMs) / MIN + 1 }, (_, m) => handWorkedReading(startMs, m));
   for (let i = 0; i < all.length; i += 1000) {
     const res = await fetch(`${base()}/api/ingest`, {
-      method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
       body: JSON.stringify({ readings: all.slice(i, i + 1000) }),
     });
     expect(res.status).toBe(202);
@@ -48,12 +66,18 @@ beforeAll(async () => {
   }
   engineer = await signInAs(base(), 'engineer');
 }, 60_000);
-afterAll(async () => { await query('delete from tariffs where home_id = $1', [tank.homeId]); await dropTanks(); await closeTestDb(); });
+afterAll(async () => {
+  await query('delete from tariffs where home_id = $1', [tank.homeId]);
+  await dropTanks();
+  await closeTestDb();
+});
 
 describe('solar surplus, from the wire to the cost', () => {
   it('stores each reading’s surplus in its column, and none where the device sent none', async () => {
     const [row] = await query<{ with_surplus: number; total: number; max: number }>(
-      `select count(solar_surplus_w)::int as with_surplus, count(*)::int as total, max(solar_surplus_w)::int as max from readings where tank_id = $1`, [tank.id]);
+      `select count(solar_surplus_w)::int as with_surplus, count(*)::int as total, max(solar_surplus_w)::int as max from readings where tank_id = $1`,
+      [tank.id],
+    );
     expect(row).toMatchObject({ with_surplus: 90, max: 1500 });
     expect(row!.total).toBeGreaterThan(1400);
   });

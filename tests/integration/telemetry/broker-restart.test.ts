@@ -7,7 +7,18 @@ import { findDeviceTokenHash } from '../../../src/db/queries/telemetry';
 import { startBroker, type TelemetryBroker } from '../../../src/lib/telemetry/broker.server';
 import { SERVICE_USERNAME } from '../../../src/lib/telemetry/device-token';
 import { IngestWorker } from '../../../src/lib/telemetry/ingest-worker.server';
-import { clearTelemetry, connectDevice, eventually, portInBlock, publishReading, reading, readingCount, tankWithToken, testPg, type TestTank } from './helpers';
+import {
+  clearTelemetry,
+  connectDevice,
+  eventually,
+  portInBlock,
+  publishReading,
+  reading,
+  readingCount,
+  tankWithToken,
+  testPg,
+  type TestTank,
+} from './helpers';
 
 const MIN = 60_000;
 const SERVICE_PASSWORD = 'broker-restart-test-service-password';
@@ -19,14 +30,27 @@ describe('broker restarted mid-stream', () => {
   let worker: IngestWorker;
   const port = portInBlock(26);
   const url = `mqtt://127.0.0.1:${port}`;
-  const start = () => startBroker({ port, servicePassword: SERVICE_PASSWORD, lookupTokenHash: findDeviceTokenHash, log: () => undefined });
+  const start = () =>
+    startBroker({
+      port,
+      servicePassword: SERVICE_PASSWORD,
+      lookupTokenHash: findDeviceTokenHash,
+      log: () => undefined,
+    });
 
   beforeAll(async () => {
     db = testPg();
     tank = await tankWithToken(db, 180);
     await clearTelemetry(db, [tank.id]);
     broker = await start();
-    worker = new IngestWorker({ mqttUrl: url, username: SERVICE_USERNAME, password: SERVICE_PASSWORD, pool: getPool(), retentionDays: 90, log: () => undefined });
+    worker = new IngestWorker({
+      mqttUrl: url,
+      username: SERVICE_USERNAME,
+      password: SERVICE_PASSWORD,
+      pool: getPool(),
+      retentionDays: 90,
+      log: () => undefined,
+    });
     const ready = new Promise((r) => worker.once('ready', r));
     worker.start();
     await ready;
@@ -58,9 +82,17 @@ describe('broker restarted mid-stream', () => {
     }
     await Promise.all(pending);
     await dev.endAsync();
-    await eventually(() => readingCount(db, tank.id), (n) => n >= N, 30_000, `${N} readings`);
+    await eventually(
+      () => readingCount(db, tank.id),
+      (n) => n >= N,
+      30_000,
+      `${N} readings`,
+    );
     await new Promise((r) => setTimeout(r, 500));
-    const { rows } = await db.query(`select count(*)::int as n, count(distinct seq)::int as seqs, min(seq) as lo, max(seq) as hi from readings where tank_id = $1`, [tank.id]);
+    const { rows } = await db.query(
+      `select count(*)::int as n, count(distinct seq)::int as seqs, min(seq) as lo, max(seq) as hi from readings where tank_id = $1`,
+      [tank.id],
+    );
     expect(rows[0]).toEqual({ n: N, seqs: N, lo: 1, hi: N });
     expect(drained?.undelivered).toBe(0);
     expect(worker.connected).toBe(true);

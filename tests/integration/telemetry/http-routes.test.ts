@@ -6,13 +6,23 @@ import { baseUrl } from '../../support/browser';
 import { signInAs } from '../../support/session';
 import { demoTanks } from '../../../src/lib/demo/scenario';
 import { limits } from '../../../src/lib/telemetry/wire';
-import { clearTelemetry, connectDevice, count, mqttUrl, reading, tankWithToken, testPg, type TestTank } from './helpers';
+import {
+  clearTelemetry,
+  connectDevice,
+  count,
+  mqttUrl,
+  reading,
+  tankWithToken,
+  testPg,
+  type TestTank,
+} from './helpers';
 
 const MIN = 60_000;
 
 async function post(path: string, body: unknown, headers: Record<string, string> = {}): Promise<Response> {
   return fetch(`${baseUrl()}${path}`, {
-    method: 'POST', headers: { 'content-type': 'application/json', origin: baseUrl(), ...headers },
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: baseUrl(), ...headers },
     body: typeof body === 'string' ? body : JSON.stringify(body),
   });
 }
@@ -37,7 +47,9 @@ describe('POST /api/ingest', () => {
     const none = await post('/api/ingest', reading(tank, Date.now() - MIN));
     expect(none.status).toBe(401);
     expect((await none.json()).error.code).toBe('DeviceTokenRequired');
-    const wrong = await post('/api/ingest', reading(tank, Date.now() - MIN), { authorization: 'Bearer hldt_not-a-token' });
+    const wrong = await post('/api/ingest', reading(tank, Date.now() - MIN), {
+      authorization: 'Bearer hldt_not-a-token',
+    });
     expect(wrong.status).toBe(401);
     expect((await wrong.json()).error.code).toBe('DeviceTokenInvalid');
   });
@@ -47,33 +59,63 @@ describe('POST /api/ingest', () => {
     const one = await post('/api/ingest', reading(tank, t0), bearer(tank));
     expect(one.status).toBe(202);
     expect(await one.json()).toMatchObject({ accepted: 1, duplicate: 0, rejected: 0 });
-    const batch = { readings: [...Array.from({ length: 5 }, (_, i) => reading(tank, t0 + (i + 1) * MIN)), { ts: t0 + 9 * MIN, layersC: 'warm' }] };
+    const batch = {
+      readings: [
+        ...Array.from({ length: 5 }, (_, i) => reading(tank, t0 + (i + 1) * MIN)),
+        { ts: t0 + 9 * MIN, layersC: 'warm' },
+      ],
+    };
     const first = await post('/api/ingest', batch, bearer(tank));
     expect(first.status).toBe(202);
     const body = await first.json();
     expect(body).toMatchObject({ accepted: 5, duplicate: 0, rejected: 1 });
-    expect(body.rejections[0]).toMatchObject({ index: 5, code: 'InvalidReading', fields: [{ field: 'readings[5].layersC' }] });
+    expect(body.rejections[0]).toMatchObject({
+      index: 5,
+      code: 'InvalidReading',
+      fields: [{ field: 'readings[5].layersC' }],
+    });
     const again = await post('/api/ingest', batch, bearer(tank));
     expect(await again.json()).toMatchObject({ accepted: 0, duplicate: 5, rejected: 1 });
     expect(await count(db, `select count(*) as n from readings where tank_id = $1`, [tank.id])).toBe(6);
-    expect(await count(db, `select count(*) as n from dead_letters where tank_id = $1 and transport = 'http'`, [tank.id])).toBe(2);
+    expect(
+      await count(db, `select count(*) as n from dead_letters where tank_id = $1 and transport = 'http'`, [tank.id]),
+    ).toBe(2);
   });
 
   it('stores only the new readings of a batch that overlaps what is stored and repeats a reading', async () => {
     const t0 = Math.floor(Date.now() / MIN) * MIN - 400 * MIN;
-    const first = await post('/api/ingest', { readings: [0, 1, 2].map((i) => reading(third, t0 + i * MIN)) }, bearer(third));
+    const first = await post(
+      '/api/ingest',
+      { readings: [0, 1, 2].map((i) => reading(third, t0 + i * MIN)) },
+      bearer(third),
+    );
     expect(await first.json()).toMatchObject({ accepted: 3, duplicate: 0 });
     // Readings 1 and 2 are stored already, 3 comes twice, 4 is new: two new, three duplicates.
-    const mixed = await post('/api/ingest', { readings: [1, 2, 3, 3, 4].map((i) => reading(third, t0 + i * MIN)) }, bearer(third));
+    const mixed = await post(
+      '/api/ingest',
+      { readings: [1, 2, 3, 3, 4].map((i) => reading(third, t0 + i * MIN)) },
+      bearer(third),
+    );
     expect(await mixed.json()).toMatchObject({ accepted: 2, duplicate: 3, rejected: 0 });
-    expect(await count(db, `select count(*) as n from readings where tank_id = $1 and ts >= $2`, [third.id, new Date(t0).toISOString()])).toBe(5);
+    expect(
+      await count(db, `select count(*) as n from readings where tank_id = $1 and ts >= $2`, [
+        third.id,
+        new Date(t0).toISOString(),
+      ]),
+    ).toBe(5);
     const latest = await db.query(`select ts from tank_latest_state where tank_id = $1`, [third.id]);
     expect(new Date(latest.rows[0].ts).getTime()).toBe(t0 + 4 * MIN);
     // The 15-minute bucket of the new readings is queued for its rollup, or rolled up already by
     // the ingest worker's job (which takes the queue entry in the same transaction).
     const bucket = new Date(Math.floor((t0 + 4 * MIN) / (15 * MIN)) * 15 * MIN).toISOString();
-    expect(await count(db, `select (select count(*) from rollup_dirty where tank_id = $1 and bucket = $2)
-      + (select count(*) from rollups_15m where tank_id = $1 and bucket = $2) as n`, [third.id, bucket])).toBe(1);
+    expect(
+      await count(
+        db,
+        `select (select count(*) from rollup_dirty where tank_id = $1 and bucket = $2)
+      + (select count(*) from rollups_15m where tank_id = $1 and bucket = $2) as n`,
+        [third.id, bucket],
+      ),
+    ).toBe(1);
   });
 
   it('answers 400 naming the field for a malformed body, and dead-letters it', async () => {
@@ -83,23 +125,36 @@ describe('POST /api/ingest', () => {
     const hot = await post('/api/ingest', reading(tank, Date.now() - MIN, { flowC: 300 }), bearer(tank));
     expect(hot.status).toBe(400);
     expect((await hot.json()).error).toMatchObject({ code: 'InvalidReading', fields: [{ field: 'flowC' }] });
-    const letters = await db.query(`select reason_code from dead_letters where tank_id = $1 and reason_code in ('InvalidJson', 'InvalidReading') and transport = 'http'`, [tank.id]);
+    const letters = await db.query(
+      `select reason_code from dead_letters where tank_id = $1 and reason_code in ('InvalidJson', 'InvalidReading') and transport = 'http'`,
+      [tank.id],
+    );
     expect(letters.rows.map((r) => r.reason_code)).toEqual(expect.arrayContaining(['InvalidJson', 'InvalidReading']));
   });
 
-  it('answers 403 when the body names another tank than the token\'s', async () => {
-    const res = await post('/api/ingest', { serial: other.serial, readings: [reading(other, Date.now() - MIN)] }, bearer(tank));
+  it("answers 403 when the body names another tank than the token's", async () => {
+    const res = await post(
+      '/api/ingest',
+      { serial: other.serial, readings: [reading(other, Date.now() - MIN)] },
+      bearer(tank),
+    );
     expect(res.status).toBe(403);
     expect((await res.json()).error.code).toBe('SerialMismatch');
     expect(await count(db, `select count(*) as n from readings where tank_id = $1`, [other.id])).toBe(0);
   });
 
   it('answers 413 for a batch over the limit and for a body over the size limit', async () => {
-    const many = { readings: Array.from({ length: limits.maxBatch + 1 }, (_, i) => reading(tank, Date.now() - (2000 + i) * MIN)) };
+    const many = {
+      readings: Array.from({ length: limits.maxBatch + 1 }, (_, i) => reading(tank, Date.now() - (2000 + i) * MIN)),
+    };
     const res = await post('/api/ingest', many, bearer(tank));
     expect(res.status).toBe(413);
     expect((await res.json()).error.code).toBe('BatchTooLarge');
-    const huge = await post('/api/ingest', JSON.stringify({ readings: [], pad: 'x'.repeat(limits.maxPayloadBytes) }), bearer(tank));
+    const huge = await post(
+      '/api/ingest',
+      JSON.stringify({ readings: [], pad: 'x'.repeat(limits.maxPayloadBytes) }),
+      bearer(tank),
+    );
     expect(huge.status).toBe(413);
     expect((await huge.json()).error.code).toBe('PayloadTooLarge');
   });
@@ -132,12 +187,18 @@ describe('POST /api/tanks/{id}/device-token', () => {
     expect(stored.rows[0].device_token_hash).not.toContain(body.token);
     const ok = await post('/api/ingest', reading(tank, Date.now() - MIN), { authorization: `Bearer ${body.token}` });
     expect(ok.status).toBe(202);
-    const old = await post('/api/ingest', reading(tank, Date.now() - 2 * MIN), { authorization: `Bearer ${tank.token}` });
+    const old = await post('/api/ingest', reading(tank, Date.now() - 2 * MIN), {
+      authorization: `Bearer ${tank.token}`,
+    });
     expect(old.status).toBe(401);
     await expect(connectDevice(mqttUrl(), tank)).rejects.toThrow();
     const dev = await connectDevice(mqttUrl(), { serial: tank.serial, token: body.token });
     await dev.endAsync();
-    expect(await count(db, `select count(*) as n from audit_log where action = 'device_token.rotated' and subject = $1`, [`tank:${tank.id}`])).toBe(1);
+    expect(
+      await count(db, `select count(*) as n from audit_log where action = 'device_token.rotated' and subject = $1`, [
+        `tank:${tank.id}`,
+      ]),
+    ).toBe(1);
   });
 });
 
@@ -161,19 +222,40 @@ describe('/api/tanks/{id}/commands', () => {
     expect(command).toMatchObject({ kind: 'boost', state: 'sent', params: { minutes: 30 } });
     const list = await fetch(`${baseUrl()}/api/tanks/${own.id}/commands`, { headers: { cookie: householder } });
     expect((await list.json()).commands.map((c: { id: string }) => c.id)).toContain(command.id);
-    expect(await count(db, `select count(*) as n from audit_log where action = 'command.sent' and detail->>'commandId' = $1`, [command.id])).toBe(1);
+    expect(
+      await count(
+        db,
+        `select count(*) as n from audit_log where action = 'command.sent' and detail->>'commandId' = $1`,
+        [command.id],
+      ),
+    ).toBe(1);
   });
 
-  it('keeps the storage target for staff, hides other homes\' tanks, and names bad fields', async () => {
+  it("keeps the storage target for staff, hides other homes' tanks, and names bad fields", async () => {
     const householder = await signInAs(baseUrl(), 'householder');
-    const target = await post(`/api/tanks/${own.id}/commands`, { kind: 'set_target', targetC: 55 }, { cookie: householder });
+    const target = await post(
+      `/api/tanks/${own.id}/commands`,
+      { kind: 'set_target', targetC: 55 },
+      { cookie: householder },
+    );
     expect(target.status).toBe(403);
-    expect((await post(`/api/tanks/${elsewhere.id}/commands`, { kind: 'boost', minutes: 30 }, { cookie: householder })).status).toBe(404);
+    expect(
+      (await post(`/api/tanks/${elsewhere.id}/commands`, { kind: 'boost', minutes: 30 }, { cookie: householder }))
+        .status,
+    ).toBe(404);
     const engineer = await signInAs(baseUrl(), 'engineer');
-    const bad = await post(`/api/tanks/${elsewhere.id}/commands`, { kind: 'boost', minutes: 5000 }, { cookie: engineer });
+    const bad = await post(
+      `/api/tanks/${elsewhere.id}/commands`,
+      { kind: 'boost', minutes: 5000 },
+      { cookie: engineer },
+    );
     expect(bad.status).toBe(400);
     expect((await bad.json()).error.fields[0].field).toBe('minutes');
-    const low = await post(`/api/tanks/${elsewhere.id}/commands`, { kind: 'set_target', targetC: 50 }, { cookie: engineer });
+    const low = await post(
+      `/api/tanks/${elsewhere.id}/commands`,
+      { kind: 'set_target', targetC: 50 },
+      { cookie: engineer },
+    );
     expect(low.status).toBe(202);
     // HSE HSG274 Part 2: stored hot water at 60 °C or above, so a lower target carries a caution.
     expect((await low.json()).warnings[0]).toMatch(/60 °C/);

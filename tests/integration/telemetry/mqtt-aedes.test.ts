@@ -4,4 +4,8 @@ import { servicePassword } from '../../../src/lib/telemetry/device-token';
 import { describeBrokerContract } from './broker-contract';
 import { mqttUrl } from './helpers';
 
-describeBrokerContract('Heatlayer\'s aedes broker and ingest worker processes', 150, async () => ({ url: mqttUrl(), servicePassword: servicePassword(process.env), stop: async () => undefined }));
+describeBrokerContract("Heatlayer's aedes broker and ingest worker processes", 150, async () => ({
+  url: mqttUrl(),
+  servicePassword: servicePassword(process.env),
+  stop: async () => undefined,
+}));

@@ -19,32 +19,62 @@ describeBrokerContract('Mosquitto', 160, async () => {
   // that user may not reach into the checkout (a private folder): they go in a folder of its own
   // under /tmp, owned by the broker's user and readable by it alone.
   const dir = mkdtempSync(join('/tmp', `heatlayer-mosquitto-${port}-`));
-  const brokerUser = process.getuid?.() === 0
-    ? { uid: Number(execFileSync('id', ['-u', 'mosquitto'], { encoding: 'utf8' })), gid: Number(execFileSync('id', ['-g', 'mosquitto'], { encoding: 'utf8' })) }
-    : null;
+  const brokerUser =
+    process.getuid?.() === 0
+      ? {
+          uid: Number(execFileSync('id', ['-u', 'mosquitto'], { encoding: 'utf8' })),
+          gid: Number(execFileSync('id', ['-g', 'mosquitto'], { encoding: 'utf8' })),
+        }
+      : null;
   const handToBroker = () => {
     chmodSync(dir, 0o700);
     for (const name of readdirSync(dir)) chmodSync(join(dir, name), 0o600);
-    if (brokerUser) for (const p of [dir, ...readdirSync(dir).map((n) => join(dir, n))]) chownSync(p, brokerUser.uid, brokerUser.gid);
+    if (brokerUser)
+      for (const p of [dir, ...readdirSync(dir).map((n) => join(dir, n))]) chownSync(p, brokerUser.uid, brokerUser.gid);
   };
   const passwd = join(dir, 'passwd');
   const addUser = (user: string, password: string) => {
-    const r = spawnSync('mosquitto_passwd', ['-b', ...(spawnSync('test', ['-e', passwd]).status === 0 ? [] : ['-c']), passwd, user, password], { encoding: 'utf8' });
+    const r = spawnSync(
+      'mosquitto_passwd',
+      ['-b', ...(spawnSync('test', ['-e', passwd]).status === 0 ? [] : ['-c']), passwd, user, password],
+      { encoding: 'utf8' },
+    );
     if (r.status !== 0) throw new Error(`mosquitto_passwd failed: ${r.stderr}`);
     handToBroker();
   };
   addUser(SERVICE_USERNAME, SERVICE_PASSWORD);
   // The equivalent of src/lib/telemetry/acl.ts for Mosquitto (%u is the username, i.e. the serial).
-  writeFileSync(join(dir, 'acl'), [
-    `user ${SERVICE_USERNAME}`, 'topic readwrite heatlayer/v1/#', '',
-    'pattern write heatlayer/v1/tanks/%u/telemetry', 'pattern write heatlayer/v1/tanks/%u/status',
-    'pattern write heatlayer/v1/tanks/%u/replies', 'pattern read heatlayer/v1/tanks/%u/commands', '',
-  ].join('\n'));
+  writeFileSync(
+    join(dir, 'acl'),
+    [
+      `user ${SERVICE_USERNAME}`,
+      'topic readwrite heatlayer/v1/#',
+      '',
+      'pattern write heatlayer/v1/tanks/%u/telemetry',
+      'pattern write heatlayer/v1/tanks/%u/status',
+      'pattern write heatlayer/v1/tanks/%u/replies',
+      'pattern read heatlayer/v1/tanks/%u/commands',
+      '',
+    ].join('\n'),
+  );
   const conf = join(dir, 'mosquitto.conf');
-  const writeConf = () => writeFileSync(conf, [
-    `listener ${port} 127.0.0.1`, 'allow_anonymous false', `password_file ${passwd}`, `acl_file ${join(dir, 'acl')}`,
-    'persistence false', 'max_inflight_messages 1000', 'max_queued_messages 100000', 'log_dest stdout', 'log_type error', 'log_type warning', '',
-  ].join('\n'));
+  const writeConf = () =>
+    writeFileSync(
+      conf,
+      [
+        `listener ${port} 127.0.0.1`,
+        'allow_anonymous false',
+        `password_file ${passwd}`,
+        `acl_file ${join(dir, 'acl')}`,
+        'persistence false',
+        'max_inflight_messages 1000',
+        'max_queued_messages 100000',
+        'log_dest stdout',
+        'log_type error',
+        'log_type warning',
+        '',
+      ].join('\n'),
+    );
   writeConf();
   handToBroker();
   let proc: ChildProcess | null = null;
@@ -53,7 +83,10 @@ describeBrokerContract('Mosquitto', 160, async () => {
     for (let i = 0; i < 100; i++) {
       const up = await new Promise<boolean>((resolve) => {
         const s = createConnection({ host: '127.0.0.1', port });
-        s.once('connect', () => { s.end(); resolve(true); });
+        s.once('connect', () => {
+          s.end();
+          resolve(true);
+        });
         s.once('error', () => resolve(false));
       });
       if (up) return;
@@ -63,7 +96,15 @@ describeBrokerContract('Mosquitto', 160, async () => {
   };
   await run();
   const url = `mqtt://127.0.0.1:${port}`;
-  const worker = new IngestWorker({ mqttUrl: url, username: SERVICE_USERNAME, password: SERVICE_PASSWORD, pool: getPool(), retentionDays: 90, clientId: 'heatlayer-ingest-mosquitto', log: () => undefined });
+  const worker = new IngestWorker({
+    mqttUrl: url,
+    username: SERVICE_USERNAME,
+    password: SERVICE_PASSWORD,
+    pool: getPool(),
+    retentionDays: 90,
+    clientId: 'heatlayer-ingest-mosquitto',
+    log: () => undefined,
+  });
   const ready = new Promise<void>((resolve) => worker.once('ready', () => resolve()));
   worker.start();
   await ready;

@@ -18,16 +18,29 @@ describe('reading partitions', () => {
     tank = await tankWithToken(db, 180);
     await clearTelemetry(db, [tank.id]);
   });
-  afterAll(async () => { await db?.end(); await closeDb(); });
+  afterAll(async () => {
+    await db?.end();
+    await closeDb();
+  });
 
   const partitionOf = async (ts: Date) =>
-    (await db.query<{ p: string }>(`select tableoid::regclass::text as p from readings where tank_id = $1 and ts = $2`, [tank.id, ts])).rows[0]?.p;
+    (
+      await db.query<{ p: string }>(
+        `select tableoid::regclass::text as p from readings where tank_id = $1 and ts = $2`,
+        [tank.id, ts],
+      )
+    ).rows[0]?.p;
 
   it('has a partition for every day of the retention window', async () => {
     await setReadingsRetention(90);
     const today = Date.UTC(new Date().getUTCFullYear(), new Date().getUTCMonth(), new Date().getUTCDate());
-    const names = new Set((await db.query<{ p: string }>(
-      `select c.relname as p from pg_inherits i join pg_class c on c.oid = i.inhrelid where i.inhparent = 'public.readings'::regclass`)).rows.map((r) => r.p));
+    const names = new Set(
+      (
+        await db.query<{ p: string }>(
+          `select c.relname as p from pg_inherits i join pg_class c on c.oid = i.inhrelid where i.inhparent = 'public.readings'::regclass`,
+        )
+      ).rows.map((r) => r.p),
+    );
     const missing = Array.from({ length: 91 }, (_, i) => dayName(today - i * DAY)).filter((n) => !names.has(n));
     expect(missing).toEqual([]);
     // A reading 60 days old is stored in its day, not in the default partition.

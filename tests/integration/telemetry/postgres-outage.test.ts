@@ -27,15 +27,27 @@ describe('PostgreSQL stopped for 10 s mid-stream', () => {
 
   beforeAll(async () => {
     server = await startPostgres({ port: pgPort, dataDir, fresh: true });
-    env = { ...(process.env as Record<string, string>), DATABASE_URL: server.url, MQTT_PORT: String(mqttPort), DEVICE_TOKEN_SEED: SEED };
+    env = {
+      ...(process.env as Record<string, string>),
+      DATABASE_URL: server.url,
+      MQTT_PORT: String(mqttPort),
+      DEVICE_TOKEN_SEED: SEED,
+    };
     for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
       const r = spawnSync(process.execPath, ['--import', 'tsx', script], { cwd: root, env, encoding: 'utf8' });
       if (r.status !== 0) throw new Error(`${script} failed: ${r.stderr}`);
     }
     const url = `mqtt://127.0.0.1:${mqttPort}`;
     const password = servicePassword(env);
-    for (const [script, probe] of [['scripts/broker.ts', () => brokerAcceptsService(url, password)], ['scripts/ingest-worker.ts', () => ingestWorkerOnline(url, password)]] as const) {
-      const child = spawn(process.execPath, ['--import', 'tsx', script], { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'] });
+    for (const [script, probe] of [
+      ['scripts/broker.ts', () => brokerAcceptsService(url, password)],
+      ['scripts/ingest-worker.ts', () => ingestWorkerOnline(url, password)],
+    ] as const) {
+      const child = spawn(process.execPath, ['--import', 'tsx', script], {
+        cwd: root,
+        env,
+        stdio: ['ignore', 'inherit', 'inherit'],
+      });
       children.push(child);
       await waitFor(script, probe, 60_000);
     }
@@ -58,7 +70,9 @@ describe('PostgreSQL stopped for 10 s mid-stream', () => {
   it('loses nothing and stores nothing twice', async () => {
     const demo = demoTanks()[0];
     const tank = { serial: demo.serial, token: demoDeviceToken(SEED, demo.serial), sensorCount: demo.sensorCount };
-    const { rows: [row] } = await db.query(`select id from tanks where serial = $1`, [demo.serial]);
+    const {
+      rows: [row],
+    } = await db.query(`select id from tanks where serial = $1`, [demo.serial]);
     const dev = await connectDevice(`mqtt://127.0.0.1:${mqttPort}`, tank, { clean: false, reconnectPeriod: 500 });
     dev.on('error', () => undefined);
     const N = 300;
@@ -79,11 +93,23 @@ describe('PostgreSQL stopped for 10 s mid-stream', () => {
     await outage;
     await Promise.all(pending);
     await dev.endAsync();
-    const n = await eventually(async () => {
-      try { return Number((await db.query(`select count(*) as n from readings where tank_id = $1`, [row.id])).rows[0].n); } catch { return -1; }
-    }, (v) => v >= N, 60_000, `${N} readings after the outage`);
+    const n = await eventually(
+      async () => {
+        try {
+          return Number((await db.query(`select count(*) as n from readings where tank_id = $1`, [row.id])).rows[0].n);
+        } catch {
+          return -1;
+        }
+      },
+      (v) => v >= N,
+      60_000,
+      `${N} readings after the outage`,
+    );
     expect(n).toBe(N);
-    const { rows } = await db.query(`select count(distinct seq)::int as seqs, min(seq) as lo, max(seq) as hi from readings where tank_id = $1`, [row.id]);
+    const { rows } = await db.query(
+      `select count(distinct seq)::int as seqs, min(seq) as lo, max(seq) as hi from readings where tank_id = $1`,
+      [row.id],
+    );
     expect(rows[0]).toEqual({ seqs: N, lo: 1, hi: N });
     const latest = await db.query(`select seq from tank_latest_state where tank_id = $1`, [row.id]);
     expect(latest.rows[0].seq).toBe(N);

@@ -14,7 +14,9 @@ function documentedVersions(): Version[] {
   const doc = readFileSync(new URL('../../../docs/wire-contract.md', import.meta.url), 'utf8');
   const heading = doc.match(/^## MQTT\b(.*)$/m);
   if (!heading) throw new Error('docs/wire-contract.md has no "## MQTT" heading.');
-  const found = [...heading[1].matchAll(/\b(3\.1\.1|5(?:\.0)?)\b/g)].map((m) => (m[1].startsWith('5') ? '5' : '3.1.1') as Version);
+  const found = [...heading[1].matchAll(/\b(3\.1\.1|5(?:\.0)?)\b/g)].map(
+    (m) => (m[1].startsWith('5') ? '5' : '3.1.1') as Version,
+  );
   return [...new Set(found)];
 }
 
@@ -37,8 +39,13 @@ describe('MQTT protocol versions', () => {
   for (const version of Object.keys(levels) as Version[]) {
     it(`the broker takes MQTT ${version} exactly when the contract names it`, async () => {
       const documented = documentedVersions().includes(version);
-      const accepted = await connectDevice(mqttUrl(), tank, { protocolVersion: levels[version] })
-        .then(async (c) => { await c.endAsync(); return true; }, () => false);
+      const accepted = await connectDevice(mqttUrl(), tank, { protocolVersion: levels[version] }).then(
+        async (c) => {
+          await c.endAsync();
+          return true;
+        },
+        () => false,
+      );
       expect({ version, accepted }).toEqual({ version, accepted: documented });
     });
   }

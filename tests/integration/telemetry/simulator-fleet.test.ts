@@ -12,9 +12,13 @@ import { clearTelemetry, count, eventually, mqttUrl, readingCount, testPg } from
 
 const KEY = `fleet-test-${process.pid}`;
 // Kestrel Vale tanks without injected faults (a network_outage fault would take one offline on purpose), clear of other tests' tanks.
-const chosen = demoTanks().filter((t) => t.companySlug === 'kestrel-vale').slice(225).filter((t) => t.faults.length === 0).slice(0, 4);
+const chosen = demoTanks()
+  .filter((t) => t.companySlug === 'kestrel-vale')
+  .slice(225)
+  .filter((t) => t.faults.length === 0)
+  .slice(0, 4);
 
-describe('simulated fleet with one tank\'s token rotated', () => {
+describe("simulated fleet with one tank's token rotated", () => {
   let db: pg.Pool;
   let fleet: Fleet;
   const lines: string[] = [];
@@ -23,12 +27,25 @@ describe('simulated fleet with one tank\'s token rotated', () => {
   beforeAll(async () => {
     db = testPg();
     for (const t of chosen) {
-      const { rows } = await db.query(`update tanks set device_token_hash = $2 where serial = $1 returning id`, [t.serial, hashDeviceToken(demoDeviceToken(KEY, t.serial))]);
+      const { rows } = await db.query(`update tanks set device_token_hash = $2 where serial = $1 returning id`, [
+        t.serial,
+        hashDeviceToken(demoDeviceToken(KEY, t.serial)),
+      ]);
       ids.set(t.serial, rows[0].id);
     }
     await clearTelemetry(db, [...ids.values()]);
     // 600× speed: a simulated minute every 100 ms; each reading stamped with the real time.
-    fleet = new Fleet({ tanks: chosen, mqttUrl: mqttUrl(), tokenKey: KEY, speed: 600, backfillDays: 0, ingestUrl: null, stateFile: null, log: (l) => lines.push(l), sendTimeoutMs: 2000 });
+    fleet = new Fleet({
+      tanks: chosen,
+      mqttUrl: mqttUrl(),
+      tokenKey: KEY,
+      speed: 600,
+      backfillDays: 0,
+      ingestUrl: null,
+      stateFile: null,
+      log: (l) => lines.push(l),
+      sendTimeoutMs: 2000,
+    });
     await fleet.connect();
     fleet.live();
   });
@@ -42,11 +59,20 @@ describe('simulated fleet with one tank\'s token rotated', () => {
 
   it('keeps the other tanks reporting, says so once, and catches up when the tank can log in again', async () => {
     expect(chosen).toHaveLength(4);
-    for (const t of chosen) await eventually(() => readingCount(db, id(t.serial)), (n) => n >= 3, 15_000, `readings of ${t.serial}`);
+    for (const t of chosen)
+      await eventually(
+        () => readingCount(db, id(t.serial)),
+        (n) => n >= 3,
+        15_000,
+        `readings of ${t.serial}`,
+      );
     const [rotated, ...others] = chosen;
 
     const admin = await signInAs(baseUrl(), 'admin');
-    const res = await fetch(`${baseUrl()}/api/tanks/${id(rotated.serial)}/device-token`, { method: 'POST', headers: { origin: baseUrl(), cookie: admin } });
+    const res = await fetch(`${baseUrl()}/api/tanks/${id(rotated.serial)}/device-token`, {
+      method: 'POST',
+      headers: { origin: baseUrl(), cookie: admin },
+    });
     expect(res.status).toBe(201);
     const rotatedAt = new Date();
 
@@ -56,17 +82,30 @@ describe('simulated fleet with one tank\'s token rotated', () => {
     await new Promise((r) => setTimeout(r, 2000));
     const after = await Promise.all(others.map((t) => readingCount(db, id(t.serial))));
     // …every other tank stored more readings (about 20 in 2 s at 10 a second; at least 5 asked here).
-    for (const [i, t] of others.entries()) expect({ serial: t.serial, more: after[i] - before[i] >= 5 }).toEqual({ serial: t.serial, more: true });
+    for (const [i, t] of others.entries())
+      expect({ serial: t.serial, more: after[i] - before[i] >= 5 }).toEqual({ serial: t.serial, more: true });
     // The rotated tank stored nothing new, and said so once, not at every attempt.
-    const since = () => count(db, `select count(*) as n from readings where tank_id = $1 and ts > $2`, [id(rotated.serial), new Date(rotatedAt.getTime() + 1000)]);
+    const since = () =>
+      count(db, `select count(*) as n from readings where tank_id = $1 and ts > $2`, [
+        id(rotated.serial),
+        new Date(rotatedAt.getTime() + 1000),
+      ]);
     expect(await since()).toBe(0);
     expect(about(rotated.serial, 'cannot send')).toHaveLength(1);
     expect(lines.filter((l) => l.includes('cannot send'))).toHaveLength(1);
 
     // The tank's old token is put back (as if its controller were given the new one): it logs in
     // again, says so once, and the readings it kept arrive as a backlog.
-    await db.query(`update tanks set device_token_hash = $2 where id = $1`, [id(rotated.serial), hashDeviceToken(demoDeviceToken(KEY, rotated.serial))]);
-    await eventually(async () => about(rotated.serial, 'sending again').length, (n) => n === 1, 15_000, 'the rotated tank to say it sends again');
+    await db.query(`update tanks set device_token_hash = $2 where id = $1`, [
+      id(rotated.serial),
+      hashDeviceToken(demoDeviceToken(KEY, rotated.serial)),
+    ]);
+    await eventually(
+      async () => about(rotated.serial, 'sending again').length,
+      (n) => n === 1,
+      15_000,
+      'the rotated tank to say it sends again',
+    );
     // At least the 5 s + 2 s of ticks while it could not send (about 70 readings; 40 asked here).
     await eventually(since, (n) => n >= 40, 15_000, 'the kept readings to be stored');
     expect(about(rotated.serial, 'cannot send')).toHaveLength(1);
@@ -74,19 +113,40 @@ describe('simulated fleet with one tank\'s token rotated', () => {
 });
 
 describe('simulated fleet backfill with one tank refused', () => {
-  it('fills the other tanks\' history and leaves the refused one out, saying so once', async () => {
+  it("fills the other tanks' history and leaves the refused one out, saying so once", async () => {
     const db = testPg();
-    const tanks = demoTanks().filter((t) => t.companySlug === 'kestrel-vale').slice(235).filter((t) => t.faults.length === 0).slice(0, 3);
+    const tanks = demoTanks()
+      .filter((t) => t.companySlug === 'kestrel-vale')
+      .slice(235)
+      .filter((t) => t.faults.length === 0)
+      .slice(0, 3);
     const tankIds: string[] = [];
     for (const [i, t] of tanks.entries()) {
       // The first tank's stored token is another one: the server answers its batches 401.
       const token = i === 0 ? 'hldt_not-this-tank' : demoDeviceToken(KEY, t.serial);
-      tankIds.push((await db.query(`update tanks set device_token_hash = $2 where serial = $1 returning id`, [t.serial, hashDeviceToken(token)])).rows[0].id);
+      tankIds.push(
+        (
+          await db.query(`update tanks set device_token_hash = $2 where serial = $1 returning id`, [
+            t.serial,
+            hashDeviceToken(token),
+          ])
+        ).rows[0].id,
+      );
     }
     await clearTelemetry(db, tankIds);
     const lines: string[] = [];
     // 0.02 days = 28.8 minutes of history, through POST /api/ingest.
-    const fleet = new Fleet({ tanks, mqttUrl: mqttUrl(), tokenKey: KEY, speed: 600, backfillDays: 0.02, ingestUrl: `${baseUrl()}/api/ingest`, stateFile: null, log: (l) => lines.push(l), sendTimeoutMs: 2000 });
+    const fleet = new Fleet({
+      tanks,
+      mqttUrl: mqttUrl(),
+      tokenKey: KEY,
+      speed: 600,
+      backfillDays: 0.02,
+      ingestUrl: `${baseUrl()}/api/ingest`,
+      stateFile: null,
+      log: (l) => lines.push(l),
+      sendTimeoutMs: 2000,
+    });
     try {
       await fleet.backfill();
       const counts = await Promise.all(tankIds.map((t) => readingCount(db, t)));

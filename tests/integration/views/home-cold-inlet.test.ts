@@ -17,26 +17,41 @@ let tankId: string;
 let engineer: string, admin: string, operator: string, otherAdmin: string;
 
 async function homeWithTank(companyId: string, tag: string): Promise<{ homeId: string; tankId: string }> {
-  const [home] = await query<{ id: string }>(`insert into homes (company_id, reference, address_line, town, postcode, occupants) values ($1, $2, '7 Weir Lane', 'Cobbmere', 'WM9 3ZZ', 3) returning id`, [companyId, `CI-${tag}`]);
+  const [home] = await query<{ id: string }>(
+    `insert into homes (company_id, reference, address_line, town, postcode, occupants) values ($1, $2, '7 Weir Lane', 'Cobbmere', 'WM9 3ZZ', 3) returning id`,
+    [companyId, `CI-${tag}`],
+  );
   const [tank] = await query<{ id: string }>(
     `insert into tanks (company_id, home_id, serial, model, volume_l, height_m, sensor_count, heat_source, hp_output_w, immersion_w, target_c, hysteresis_k)
-     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 4, 'hp_plate', 5000, 3000, 55, 5) returning id`, [companyId, home!.id, `CI${tag}`]);
+     values ($1, $2, $3, 'C210 cylinder', 210, 1.4, 4, 'hp_plate', 5000, 3000, 55, 5) returning id`,
+    [companyId, home!.id, `CI${tag}`],
+  );
   // The latest state as the writer left it: the column, and figures from EN 16147's 10 °C.
   const f = tankFigures({ layersC: LAYERS_C }, geometry);
-  await query(`insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, soc, v40_l, figures_quality, compressor, online)
-    values ($1, now(), now(), $2, $3, $4, $5, false, true)`, [tank!.id, LAYERS_C.map((c) => c * 100), f.soc, f.v40L, JSON.stringify(f.quality)]);
+  await query(
+    `insert into tank_latest_state (tank_id, ts, last_seen_at, layers_cc, soc, v40_l, figures_quality, compressor, online)
+    values ($1, now(), now(), $2, $3, $4, $5, false, true)`,
+    [tank!.id, LAYERS_C.map((c) => c * 100), f.soc, f.v40L, JSON.stringify(f.quality)],
+  );
   return { homeId: home!.id, tankId: tank!.id };
 }
 
-const listed = async (cookie: string) => (await call(cookie, 'GET', `/api/tanks?q=CI${company.tag}`)).body.items.find((t: { id: string }) => t.id === tankId);
+const listed = async (cookie: string) =>
+  (await call(cookie, 'GET', `/api/tanks?q=CI${company.tag}`)).body.items.find((t: { id: string }) => t.id === tankId);
 const detail = async (cookie: string) => (await call(cookie, 'GET', `/api/tanks/${tankId}`)).body;
-const stored = async () => (await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [homeId]))[0]!.c;
+const stored = async () =>
+  (await query<{ c: number | null }>('select cold_inlet_c as c from homes where id = $1', [homeId]))[0]!.c;
 
 beforeAll(async () => {
   company = await ownCompany('Weirmoor');
   other = await ownCompany('Saltings');
   ({ homeId, tankId } = await homeWithTank(company.id, company.tag));
-  [engineer, admin, operator, otherAdmin] = [await staffOf(company, 'engineer'), await staffOf(company, 'admin'), await staffOf(company, 'operator'), await staffOf(other, 'admin')];
+  [engineer, admin, operator, otherAdmin] = [
+    await staffOf(company, 'engineer'),
+    await staffOf(company, 'admin'),
+    await staffOf(company, 'operator'),
+    await staffOf(other, 'admin'),
+  ];
 }, 60_000);
 
 afterAll(async () => {
@@ -69,15 +84,26 @@ describe('a home’s cold inlet', () => {
     expect(after.v40L).toBeGreaterThan(before.v40L);
     expect(after.soc).toBeCloseTo(expected.soc!, 3);
     expect(page.figures.soc).toBeCloseTo(expected.soc!, 3);
-    const [audit] = await query<{ detail: { fromC: number | null; toC: number } }>(`select detail from audit_log where action = 'home.cold_inlet_changed' and subject = $1 order by id desc limit 1`, [`home:${homeId}`]);
+    const [audit] = await query<{ detail: { fromC: number | null; toC: number } }>(
+      `select detail from audit_log where action = 'home.cold_inlet_changed' and subject = $1 order by id desc limit 1`,
+      [`home:${homeId}`],
+    );
     expect(audit!.detail).toMatchObject({ fromC: null, toC: 15 });
   });
 
   it('refuses a value that is not a cold supply, naming the field, and changes nothing', async () => {
-    for (const body of [{ coldInletC: 40 }, { coldInletC: 0 }, { coldInletC: 'cold' }, {}, { coldInletC: 12, colour: 'blue' }]) {
+    for (const body of [
+      { coldInletC: 40 },
+      { coldInletC: 0 },
+      { coldInletC: 'cold' },
+      {},
+      { coldInletC: 12, colour: 'blue' },
+    ]) {
       const res = await call(admin, 'PATCH', `/api/homes/${homeId}`, body);
       expect(res.status, JSON.stringify(body)).toBe(400);
-      expect(res.body.error.fields.map((f: { field: string }) => f.field).join(' '), JSON.stringify(body)).toMatch(/coldInletC|\(body\)/);
+      expect(res.body.error.fields.map((f: { field: string }) => f.field).join(' '), JSON.stringify(body)).toMatch(
+        /coldInletC|\(body\)/,
+      );
     }
     const res = await call(admin, 'PATCH', `/api/homes/${homeId}`, '{"coldInletC": 1');
     expect(res.status).toBe(400);

@@ -25,10 +25,19 @@ export const PATCH = endpoint(async ({ locals, params, request }) => {
   const id = params.id ?? '';
   if (!(await getAlert(scope, id))) throw notFound();
   if (body.action === 'resolve') {
-    if (!(await resolveAlert(scope, id, viewer.userId, body.note))) throw new HttpError(409, 'AlertAlreadyResolved', 'This alert is already resolved.');
+    if (!(await resolveAlert(scope, id, viewer.userId, body.note)))
+      throw new HttpError(409, 'AlertAlreadyResolved', 'This alert is already resolved.');
   } else if (!(await assignAlert(scope, id, body.assigneeId))) {
-    throw new HttpError(422, 'InvalidAssignee', 'The assignee must be a staff member of your company.', [{ field: 'assigneeId', message: 'is not a staff member of your company.' }]);
+    throw new HttpError(422, 'InvalidAssignee', 'The assignee must be a staff member of your company.', [
+      { field: 'assigneeId', message: 'is not a staff member of your company.' },
+    ]);
   }
-  await recordAudit({ companyId: viewer.companyId, actorUserId: viewer.userId, action: body.action === 'resolve' ? 'alerts.resolved' : 'alerts.assigned', subject: `alert:${id}`, detail: body });
+  await recordAudit({
+    companyId: viewer.companyId,
+    actorUserId: viewer.userId,
+    action: body.action === 'resolve' ? 'alerts.resolved' : 'alerts.assigned',
+    subject: `alert:${id}`,
+    detail: body,
+  });
   return json(await getAlert(scope, id));
 });

@@ -12,6 +12,13 @@ export const POST = endpoint(async ({ locals, request }) => {
   const viewer = requireViewer(locals, staffRoles);
   const body = await jsonBody(request, acknowledgeSchema);
   const done = await acknowledgeAlerts(scopeOf(viewer), body.ids, viewer.userId, body.note);
-  if (done.length) await recordAudit({ companyId: viewer.companyId, actorUserId: viewer.userId, action: 'alerts.acknowledged', subject: done.length === 1 ? `alert:${done[0]}` : null, detail: { ids: done, note: body.note } });
+  if (done.length)
+    await recordAudit({
+      companyId: viewer.companyId,
+      actorUserId: viewer.userId,
+      action: 'alerts.acknowledged',
+      subject: done.length === 1 ? `alert:${done[0]}` : null,
+      detail: { ids: done, note: body.note },
+    });
   return json({ acknowledged: done });
 });

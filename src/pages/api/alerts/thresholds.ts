@@ -18,6 +18,12 @@ export const PUT = endpoint(async ({ locals, request }) => {
   const viewer = requireViewer(locals, ['admin']);
   const overrides = await jsonBody(request, thresholdOverridesSchema);
   await saveThresholdOverrides(viewer.companyId, overrides, viewer.userId);
-  await recordAudit({ companyId: viewer.companyId, actorUserId: viewer.userId, action: 'alerts.thresholds_changed', subject: null, detail: overrides });
+  await recordAudit({
+    companyId: viewer.companyId,
+    actorUserId: viewer.userId,
+    action: 'alerts.thresholds_changed',
+    subject: null,
+    detail: overrides,
+  });
   return json({ overrides, effective: resolveThresholds(overrides) });
 });

@@ -8,7 +8,11 @@ import { json } from '../../../lib/server/http';
 
 function refuse(result: Extract<MemberChange, { ok: false }>): never {
   if (result.reason === 'last_admin') {
-    throw new HttpError(409, 'LastAdministrator', 'The company needs at least one administrator. Make someone else an administrator first.');
+    throw new HttpError(
+      409,
+      'LastAdministrator',
+      'The company needs at least one administrator. Make someone else an administrator first.',
+    );
   }
   throw new HttpError(404, 'NotFound', 'There is no member of staff with that id in your company.');
 }

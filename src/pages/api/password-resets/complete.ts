@@ -11,7 +11,11 @@ import { hashPassword } from '../../../lib/server/password';
 import { clientAddress, isHttps } from '../../../lib/server/request';
 
 const refusals = {
-  not_found: [404, 'ResetLinkNotFound', 'This reset link is not valid. Check that you copied all of it, or ask for a new one.'],
+  not_found: [
+    404,
+    'ResetLinkNotFound',
+    'This reset link is not valid. Check that you copied all of it, or ask for a new one.',
+  ],
   used: [410, 'ResetLinkUsed', 'This reset link has already been used. Ask for a new one if you still need it.'],
   expired: [410, 'ResetLinkExpired', 'This reset link has expired. Ask for a new one.'],
 } as const;
@@ -19,7 +23,11 @@ const refusals = {
 /** Choose a new password with a reset link: { token, password }. Signs out every other session, signs this one in. */
 export const POST = endpoint(async (context) => {
   const input = await jsonBody(context.request, resetCompleteSchema);
-  const outcome = await completePasswordReset(hashLinkToken(input.token), await hashPassword(input.password), clientAddress(context));
+  const outcome = await completePasswordReset(
+    hashLinkToken(input.token),
+    await hashPassword(input.password),
+    clientAddress(context),
+  );
   if (!outcome.ok) {
     const [status, code, message] = refusals[outcome.reason];
     throw new HttpError(status, code, message);

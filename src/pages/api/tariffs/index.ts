@@ -33,9 +33,16 @@ export const POST = endpoint(async ({ locals, request, url }) => {
     const q = tariffCsvQuery.parse(Object.fromEntries(url.searchParams));
     const homeId = await tariffOwner(viewer, scope, q.homeId);
     const parsed = tariffFromCsv(await csvFromRequest(request), {
-      ...(q.unit ? { unit: q.unit } : {}), ...(q.name ? { name: q.name } : {}), negativeImportAllowed: q.negativeImportAllowed === 'true',
+      ...(q.unit ? { unit: q.unit } : {}),
+      ...(q.name ? { name: q.name } : {}),
+      negativeImportAllowed: q.negativeImportAllowed === 'true',
     });
     return parsed.ok ? storeTariff(viewer, homeId, parsed.tariff) : tariffRefusal(parsed.problems);
   }
-  throw new HttpError(415, 'UnsupportedMediaType', 'Send a tariff as JSON (flat or day/night) or half-hourly prices as CSV (text/csv or a multipart file).', [{ field: '(body)', message: 'content-type must be application/json, text/csv or multipart/form-data.' }]);
+  throw new HttpError(
+    415,
+    'UnsupportedMediaType',
+    'Send a tariff as JSON (flat or day/night) or half-hourly prices as CSV (text/csv or a multipart file).',
+    [{ field: '(body)', message: 'content-type must be application/json, text/csv or multipart/form-data.' }],
+  );
 });

@@ -21,18 +21,31 @@ export const POST = endpoint(async ({ locals, request }) => {
   try {
     form = await request.formData();
   } catch {
-    throw new HttpError(400, 'InvalidUpload', 'Send the file as a multipart form with a “file” field.', [{ field: 'file', message: 'No file.' }]);
+    throw new HttpError(400, 'InvalidUpload', 'Send the file as a multipart form with a “file” field.', [
+      { field: 'file', message: 'No file.' },
+    ]);
   }
   const file = form.get('file');
-  if (!(file instanceof File)) throw new HttpError(400, 'FileRequired', 'Choose a photo or document to upload.', [{ field: 'file', message: 'No file chosen.' }]);
+  if (!(file instanceof File))
+    throw new HttpError(400, 'FileRequired', 'Choose a photo or document to upload.', [
+      { field: 'file', message: 'No file chosen.' },
+    ]);
 
   const commissioningId = String(form.get('commissioningId') ?? '') || null;
   let tankId = String(form.get('tankId') ?? '') || null;
-  if (!commissioningId && !tankId) throw new HttpError(400, 'TargetRequired', 'Say what the file belongs to: commissioningId or tankId.', [{ field: 'commissioningId', message: 'Missing.' }]);
+  if (!commissioningId && !tankId)
+    throw new HttpError(400, 'TargetRequired', 'Say what the file belongs to: commissioningId or tankId.', [
+      { field: 'commissioningId', message: 'Missing.' },
+    ]);
   if (commissioningId) {
     const c = await getCommissioning(viewer.companyId, commissioningId);
     if (!c) throw new HttpError(404, 'NotFound', 'There is no such commissioning record.');
-    if (c.status === 'signed') throw new HttpError(409, 'RecordLocked', 'This commissioning record is signed and locked. Add the photo to the tank’s service history instead.');
+    if (c.status === 'signed')
+      throw new HttpError(
+        409,
+        'RecordLocked',
+        'This commissioning record is signed and locked. Add the photo to the tank’s service history instead.',
+      );
     tankId = c.tankId;
   } else {
     await requireTank(findTankInScope, scopeOf(viewer), tankId!);
@@ -42,9 +55,33 @@ export const POST = endpoint(async ({ locals, request }) => {
   const storageKey = `${viewer.companyId}/uploads/${randomUUID()}`;
   await putObject(storageKey, prepared.body, prepared.contentType);
   const row = await insertUpload({
-    companyId: viewer.companyId, commissioningId, tankId, visitId: null, kind: prepared.kind, filename: prepared.filename,
-    contentType: prepared.contentType, bytes: prepared.body.length, width: prepared.width, height: prepared.height,
-    downscaled: prepared.downscaled, storageKey, uploadedBy: viewer.userId,
+    companyId: viewer.companyId,
+    commissioningId,
+    tankId,
+    visitId: null,
+    kind: prepared.kind,
+    filename: prepared.filename,
+    contentType: prepared.contentType,
+    bytes: prepared.body.length,
+    width: prepared.width,
+    height: prepared.height,
+    downscaled: prepared.downscaled,
+    storageKey,
+    uploadedBy: viewer.userId,
   });
-  return json({ upload: { id: row.id, kind: row.kind, filename: row.filename, bytes: row.bytes, width: row.width, height: row.height, downscaled: row.downscaled, url: `/api/uploads/${row.id}` } }, 201);
+  return json(
+    {
+      upload: {
+        id: row.id,
+        kind: row.kind,
+        filename: row.filename,
+        bytes: row.bytes,
+        width: row.width,
+        height: row.height,
+        downscaled: row.downscaled,
+        url: `/api/uploads/${row.id}`,
+      },
+    },
+    201,
+  );
 });

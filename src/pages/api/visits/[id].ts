@@ -10,5 +10,8 @@ export const GET = endpoint(async ({ locals, params }) => {
   const visit = await getVisit(viewer.companyId, params.id ?? '');
   if (!visit) throw new HttpError(404, 'NotFound', 'There is no such visit.');
   const photos = await listUploads(viewer.companyId, { visitId: visit.id });
-  return json({ visit, uploads: photos.map((u) => ({ id: u.id, kind: u.kind, filename: u.filename, url: `/api/uploads/${u.id}` })) });
+  return json({
+    visit,
+    uploads: photos.map((u) => ({ id: u.id, kind: u.kind, filename: u.filename, url: `/api/uploads/${u.id}` })),
+  });
 });

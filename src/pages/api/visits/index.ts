@@ -25,9 +25,24 @@ export const POST = endpoint(async ({ locals, request }) => {
   const tank = await requireTank(findTankInScope, scopeOf(viewer), input.tankId);
   // The tank's own layers at the time, kept with the engineer's readings.
   const t = await latestTelemetry(tank.id);
-  const readings = { ...input.readings, ...(t ? { telemetryLayersC: t.layersC, telemetryAt: t.ts.toISOString() } : {}) };
+  const readings = {
+    ...input.readings,
+    ...(t ? { telemetryLayersC: t.layersC, telemetryAt: t.ts.toISOString() } : {}),
+  };
   const r = await createVisit({ ...input, companyId: viewer.companyId, engineerUserId: viewer.userId, readings });
-  if (!r.ok && r.reason === 'alerts') throw new HttpError(422, 'UnknownAlerts', 'Some alerts are not this tank’s or are already resolved; nothing was recorded. Reload the page and choose again.', r.missing.map((id) => ({ field: 'resolvedAlertIds', message: `Alert ${id} cannot be resolved here.` })));
-  if (!r.ok) throw new HttpError(422, 'UnknownUploads', 'Some photos are not this tank’s or already belong to another visit; nothing was recorded. Upload them again.', r.missing.map((id) => ({ field: 'uploadIds', message: `Photo ${id} cannot be attached.` })));
+  if (!r.ok && r.reason === 'alerts')
+    throw new HttpError(
+      422,
+      'UnknownAlerts',
+      'Some alerts are not this tank’s or are already resolved; nothing was recorded. Reload the page and choose again.',
+      r.missing.map((id) => ({ field: 'resolvedAlertIds', message: `Alert ${id} cannot be resolved here.` })),
+    );
+  if (!r.ok)
+    throw new HttpError(
+      422,
+      'UnknownUploads',
+      'Some photos are not this tank’s or already belong to another visit; nothing was recorded. Upload them again.',
+      r.missing.map((id) => ({ field: 'uploadIds', message: `Photo ${id} cannot be attached.` })),
+    );
   return json({ visit: r.visit }, 201);
 });

@@ -11,11 +11,29 @@ import { json } from '../../../../lib/server/http';
 export const GET = endpoint(async ({ locals, params }) => {
   const viewer = requireViewer(locals);
   const row = await loadCommissioning(viewer, params.id ?? '');
-  const [uploads, amendments] = await Promise.all([listUploads(viewer.companyId, { commissioningId: row.id }), listAmendments(row.id)]);
+  const [uploads, amendments] = await Promise.all([
+    listUploads(viewer.companyId, { commissioningId: row.id }),
+    listAmendments(row.id),
+  ]);
   return json({
-    id: row.id, status: row.status, step: row.step, data: row.data, tankId: row.tankId, homeId: row.homeId, record: row.record,
-    signedAt: row.signedAt, handoverSentAt: row.handoverSentAt,
-    uploads: uploads.map((u) => ({ id: u.id, kind: u.kind, filename: u.filename, bytes: u.bytes, width: u.width, height: u.height, url: `/api/uploads/${u.id}` })),
+    id: row.id,
+    status: row.status,
+    step: row.step,
+    data: row.data,
+    tankId: row.tankId,
+    homeId: row.homeId,
+    record: row.record,
+    signedAt: row.signedAt,
+    handoverSentAt: row.handoverSentAt,
+    uploads: uploads.map((u) => ({
+      id: u.id,
+      kind: u.kind,
+      filename: u.filename,
+      bytes: u.bytes,
+      width: u.width,
+      height: u.height,
+      url: `/api/uploads/${u.id}`,
+    })),
     amendments,
   });
 });

@@ -13,7 +13,10 @@ export const GET = endpoint(async ({ locals }) => {
 });
 
 const num = (field: string, unit: string, min: number, max: number) =>
-  z.coerce.number({ error: `Enter the ${field} as a number (${unit}).` }).min(min, `The ${field} must be at least ${min} ${unit}.`).max(max, `The ${field} must be at most ${max} ${unit}.`);
+  z.coerce
+    .number({ error: `Enter the ${field} as a number (${unit}).` })
+    .min(min, `The ${field} must be at least ${min} ${unit}.`)
+    .max(max, `The ${field} must be at most ${max} ${unit}.`);
 
 export const heatPumpModelSchema = z.object({
   name: z.string(messages('Enter the model’s name.')).trim().min(1, 'Enter the model’s name.').max(120),
@@ -27,6 +30,9 @@ export const POST = endpoint(async ({ locals, request }) => {
   const viewer = requireViewer(locals, ['admin']);
   const input = await jsonBody(request, heatPumpModelSchema);
   const model = await createHeatPumpModel(viewer.companyId, viewer.userId, input);
-  if (!model) throw new HttpError(409, 'ModelExists', `Your company already lists a model called “${input.name}”.`, [{ field: 'name', message: 'Already listed.' }]);
+  if (!model)
+    throw new HttpError(409, 'ModelExists', `Your company already lists a model called “${input.name}”.`, [
+      { field: 'name', message: 'Already listed.' },
+    ]);
   return json({ model }, 201);
 });

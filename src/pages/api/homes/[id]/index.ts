@@ -15,8 +15,12 @@ export const GET = endpoint(async ({ locals, params }) => {
   const home = await homeSettings(scopeOf(viewer), params.id ?? '');
   if (!home) throw notFound();
   return json({
-    id: home.id, reference: home.reference, label: homeLabel(home), coldInletC: home.coldInletC,
-    coldWaterC: home.coldInletC ?? EN16147_COLD_C, coldWaterFrom: home.coldInletC === null ? 'EN 16147' : 'home',
+    id: home.id,
+    reference: home.reference,
+    label: homeLabel(home),
+    coldInletC: home.coldInletC,
+    coldWaterC: home.coldInletC ?? EN16147_COLD_C,
+    coldWaterFrom: home.coldInletC === null ? 'EN 16147' : 'home',
   });
 });
 

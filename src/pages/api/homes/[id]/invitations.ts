@@ -13,7 +13,10 @@ export const GET = endpoint(async ({ locals, params }) => {
   const viewer = requireViewer(locals);
   const home = await getHomeInScope(scopeOf(viewer), params.id ?? '');
   if (!home) throw new HttpError(404, 'NotFound', 'There is no such home.');
-  const [householders, invitations] = await Promise.all([listHomeHouseholders(home.id), listPendingInvitations(viewer.companyId, { homeId: home.id })]);
+  const [householders, invitations] = await Promise.all([
+    listHomeHouseholders(home.id),
+    listPendingInvitations(viewer.companyId, { homeId: home.id }),
+  ]);
   return json({ householders, invitations });
 });
 

@@ -14,7 +14,13 @@ import { isHttps, isPageNavigation } from '../../../../lib/server/request';
 export const POST = endpoint(async (context) => {
   const viewer = requireViewer(context.locals);
   const sessionsEnded = await endAllUserSessions(viewer.userId);
-  await recordAudit({ companyId: viewer.companyId, actorUserId: viewer.userId, action: 'sessions.ended', subject: `user:${viewer.userId}`, detail: { sessionsEnded } });
+  await recordAudit({
+    companyId: viewer.companyId,
+    actorUserId: viewer.userId,
+    action: 'sessions.ended',
+    subject: `user:${viewer.userId}`,
+    detail: { sessionsEnded },
+  });
   clearSessionCookie(context.cookies, isHttps(context));
   if (isPageNavigation(context)) return context.redirect('/signin?signedOut=everywhere', 303);
   return json({ sessionsEnded });

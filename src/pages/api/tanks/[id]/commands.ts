@@ -23,7 +23,11 @@ export const POST = endpoint(async ({ locals, params, request }) => {
   const tank = await requireTank(findTankInScope, scopeOf(viewer), params.id);
   const command = await jsonBody(request, commandRequestSchema);
   if (command.kind === 'set_target' && viewer.role === 'householder') {
-    throw new HttpError(403, 'NotAllowedForRole', 'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.');
+    throw new HttpError(
+      403,
+      'NotAllowedForRole',
+      'The storage temperature is set by your service company, because it matters for legionella control. You can boost or change the schedule.',
+    );
   }
   const sent = await sendCommand({ tank, request: command, actorUserId: viewer.userId });
   return json(sent, 202);

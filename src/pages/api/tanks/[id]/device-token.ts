@@ -13,11 +13,20 @@ export const POST = endpoint(async ({ locals, params }) => {
   const viewer = requireViewer(locals, ['admin']);
   const tank = await requireTank(findTankInScope, scopeOf(viewer), params.id);
   const { token, issuedAt } = await rotateDeviceToken({ tank, actorUserId: viewer.userId });
-  return json({
-    serial: tank.serial,
-    token,
-    issuedAt: issuedAt.toISOString(),
-    notice: 'This token is shown only once. Enter it in the tank\'s controller now; the previous token no longer works.',
-    mqtt: { username: tank.serial, telemetryTopic: topicFor(tank.serial, 'telemetry'), commandTopic: topicFor(tank.serial, 'commands'), statusTopic: topicFor(tank.serial, 'status') },
-  }, 201);
+  return json(
+    {
+      serial: tank.serial,
+      token,
+      issuedAt: issuedAt.toISOString(),
+      notice:
+        "This token is shown only once. Enter it in the tank's controller now; the previous token no longer works.",
+      mqtt: {
+        username: tank.serial,
+        telemetryTopic: topicFor(tank.serial, 'telemetry'),
+        commandTopic: topicFor(tank.serial, 'commands'),
+        statusTopic: topicFor(tank.serial, 'status'),
+      },
+    },
+    201,
+  );
 });

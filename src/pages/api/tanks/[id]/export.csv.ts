@@ -13,8 +13,16 @@ export const GET = endpoint(async ({ locals, params, url }) => {
   const tank = await requireTank(getTank, scopeOf(viewer), params.id);
   const range = rangeQuerySchema.parse(searchParams(url));
   const series = await tankSeries(tank, range);
-  const name = `${tank.serial}_${range.from.toISOString().slice(0, 16)}_${range.to.toISOString().slice(0, 16)}_${range.resolution}.csv`.replace(/:/g, '');
+  const name =
+    `${tank.serial}_${range.from.toISOString().slice(0, 16)}_${range.to.toISOString().slice(0, 16)}_${range.resolution}.csv`.replace(
+      /:/g,
+      '',
+    );
   return new Response(readingsCsv(series, tank.serial), {
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': contentDisposition(name), 'cache-control': 'no-store' },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8',
+      'content-disposition': contentDisposition(name),
+      'cache-control': 'no-store',
+    },
   });
 });
