@@ -15,7 +15,7 @@ import { ErrorNotice, Loading, OfflineBanner } from './ui/States';
 import { useNow } from './ui/useOnline';
 
 // The sizes form (react-hook-form and zod) loads when its section is opened, not with the page.
-const AssumptionsForm = lazy(() => import('./home/AssumptionsForm'));
+const AssumptionsForm = lazy(() => import('./homes/AssumptionsForm'));
 
 const ASSUMPTIONS_KEY = 'heatlayer.home.assumptions.v1';
 const standard = defaultAssumptions();

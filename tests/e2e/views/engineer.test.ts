@@ -69,7 +69,16 @@ describe('field engineer in Chromium', () => {
     });
     await page.goto(`${baseUrl()}/tanks/${fx.healthy.id}`);
     await waitForIslands(page);
-    await page.getByRole('radio', { name: '6 hours' }).click();
+    // The 6-hour window's first fetch (in full) must be in before the new reading is written.
+    await page.getByText('every reading').first().waitFor();
+    const sixHours = (url: string) => {
+      const q = new URL(url).searchParams;
+      return !q.has('since') && Date.parse(q.get('to')!) - Date.parse(q.get('from')!) === 6 * 3_600_000;
+    };
+    await Promise.all([
+      page.waitForResponse((r) => r.url().includes('/readings?') && sixHours(r.url()) && r.ok()),
+      page.getByRole('radio', { name: '6 hours' }).click(),
+    ]);
     await page.getByText('every reading').first().waitFor();
     await expect(sensorValue(page, 4)).resolves.toBe('55.0 °C');
     // A reading for the minute now, as the writer would store it: the next poll brings it in.
