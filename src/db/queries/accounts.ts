@@ -95,16 +95,19 @@ export interface StaffMember {
   since: Date;
 }
 
+/** The columns of a StaffMember. */
+const staffMemberColumns = {
+  userId: users.id,
+  email: users.email,
+  name: users.name,
+  role: memberships.role,
+  since: memberships.createdAt,
+};
+
 /** The company's staff (every role but householder), by role then name. */
 export async function listStaff(companyId: string): Promise<StaffMember[]> {
   return db()
-    .select({
-      userId: users.id,
-      email: users.email,
-      name: users.name,
-      role: memberships.role,
-      since: memberships.createdAt,
-    })
+    .select(staffMemberColumns)
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.companyId, companyId), ne(memberships.role, 'householder')))
@@ -114,13 +117,7 @@ export async function listStaff(companyId: string): Promise<StaffMember[]> {
 /** One member of the company, or null when the person is not a member (any other company: not found). */
 export async function findMember(companyId: string, userId: string): Promise<StaffMember | null> {
   const [row] = await db()
-    .select({
-      userId: users.id,
-      email: users.email,
-      name: users.name,
-      role: memberships.role,
-      since: memberships.createdAt,
-    })
+    .select(staffMemberColumns)
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.companyId, companyId), eq(memberships.userId, userId)));

@@ -14,18 +14,21 @@ export interface HomeSummary {
   postcode: string;
 }
 
+/** The columns of a HomeSummary. */
+const homeSummaryColumns = {
+  id: homes.id,
+  companyId: homes.companyId,
+  reference: homes.reference,
+  addressLine: homes.addressLine,
+  town: homes.town,
+  postcode: homes.postcode,
+};
+
 /** A home the viewer may see, or null (another company's, another householder's, or no such home). */
 export async function getHomeInScope(scope: Scope, homeId: string): Promise<HomeSummary | null> {
   if (!isUuid(homeId)) return null;
   const [row] = await db()
-    .select({
-      id: homes.id,
-      companyId: homes.companyId,
-      reference: homes.reference,
-      addressLine: homes.addressLine,
-      town: homes.town,
-      postcode: homes.postcode,
-    })
+    .select(homeSummaryColumns)
     .from(homes)
     .where(and(eq(homes.id, homeId), homeInScope(scope)));
   return row ?? null;
@@ -41,15 +44,7 @@ export async function homeSettings(
 ): Promise<(HomeSummary & { coldInletC: number | null }) | null> {
   if (!isUuid(homeId)) return null;
   const [row] = await db()
-    .select({
-      id: homes.id,
-      companyId: homes.companyId,
-      reference: homes.reference,
-      addressLine: homes.addressLine,
-      town: homes.town,
-      postcode: homes.postcode,
-      coldInletC: homes.coldInletC,
-    })
+    .select({ ...homeSummaryColumns, coldInletC: homes.coldInletC })
     .from(homes)
     .where(and(eq(homes.id, homeId), homeInScope(scope)));
   return row ?? null;

@@ -103,48 +103,35 @@ export interface CommandSummary {
   appliedAt: Date | null;
 }
 
+/** A `commands` row as SQL returns it, and as the views read it. */
+type CommandRowSql = {
+  id: string;
+  kind: string;
+  state: string;
+  params: Record<string, unknown>;
+  created_at: Date;
+  applied_at: Date | null;
+};
+const commandOf = (r: CommandRowSql): CommandSummary => ({
+  id: r.id,
+  kind: r.kind,
+  state: r.state,
+  params: r.params,
+  createdAt: new Date(r.created_at),
+  appliedAt: r.applied_at ? new Date(r.applied_at) : null,
+});
+
 /** Commands created in [from, to), oldest first. */
 export async function commandsInRange(tankId: string, from: Date, to: Date): Promise<CommandSummary[]> {
-  const res = await db().execute<{
-    id: string;
-    kind: string;
-    state: string;
-    params: Record<string, unknown>;
-    created_at: Date;
-    applied_at: Date | null;
-  }>(sql`
+  const res = await db().execute<CommandRowSql>(sql`
     select id, kind, state, params, created_at, applied_at from commands where tank_id = ${tankId} and created_at >= ${from} and created_at < ${to} order by created_at`);
-  return res.rows.map((r) => ({
-    id: r.id,
-    kind: r.kind,
-    state: r.state,
-    params: r.params,
-    createdAt: new Date(r.created_at),
-    appliedAt: r.applied_at ? new Date(r.applied_at) : null,
-  }));
+  return res.rows.map(commandOf);
 }
 
 /** The newest applied schedule command, if any (the household's schedule as the tank has it). */
 export async function latestAppliedSchedule(tankId: string): Promise<CommandSummary | null> {
-  const res = await db().execute<{
-    id: string;
-    kind: string;
-    state: string;
-    params: Record<string, unknown>;
-    created_at: Date;
-    applied_at: Date | null;
-  }>(sql`
+  const res = await db().execute<CommandRowSql>(sql`
     select id, kind, state, params, created_at, applied_at from commands where tank_id = ${tankId} and kind = 'set_schedule' and state = 'applied'
     order by created_at desc limit 1`);
-  const r = res.rows[0];
-  return r
-    ? {
-        id: r.id,
-        kind: r.kind,
-        state: r.state,
-        params: r.params,
-        createdAt: new Date(r.created_at),
-        appliedAt: r.applied_at ? new Date(r.applied_at) : null,
-      }
-    : null;
+  return res.rows[0] ? commandOf(res.rows[0]) : null;
 }

@@ -11,9 +11,8 @@ import {
   saveAlertState,
   storedReadingsAfter,
   type AlertTankRow,
-  type StoredReadingRow,
 } from '../../db/queries/alert-evaluation';
-import { fromStored } from '../telemetry/writer.server';
+import { readingOfRow } from '../telemetry/writer.server';
 import type { Reading } from '../telemetry/wire';
 import { evaluateClock, evaluateReadings, type EngineState, type TankFacts, type Transition } from './engine';
 import type { Thresholds } from './thresholds';
@@ -36,22 +35,6 @@ const factsOf = (r: AlertTankRow): TankFacts => ({
   targetC: r.target_c,
   coldInletC: r.cold_inlet_c,
 });
-
-const readingOf = (tankId: string, x: StoredReadingRow): Reading =>
-  fromStored({
-    tankId,
-    ts: Number(x.ts_ms),
-    seq: x.seq,
-    layersCc: x.layers_cc,
-    flowCc: x.flow_cc,
-    returnCc: x.return_cc,
-    compressor: x.compressor,
-    immersionW: x.immersion_w,
-    powerW: x.power_w,
-    pumpPct: x.pump_pct,
-    drawDlpm: x.draw_dlpm,
-    solarSurplusW: x.solar_surplus_w,
-  });
 
 export interface AppliedTransition {
   alertId: string;
@@ -111,7 +94,7 @@ export async function evaluateTankReadings(tankId: string): Promise<AppliedTrans
     const applied: AppliedTransition[] = [];
     for (;;) {
       const readings: Reading[] = (await storedReadingsAfter(tx, tankId, after, CHUNK)).map((x) =>
-        readingOf(tankId, x),
+        readingOfRow(tankId, x),
       );
       if (readings.length === 0) break;
       const res = evaluateReadings(state, readings, factsOf(tank), th, open);

@@ -20,6 +20,7 @@ import {
   type StuckState,
   type TankGeometry,
 } from '../thermal';
+import type { StoredReadingRow } from '../../db/queries/alert-evaluation';
 import type { DeadLetterInput, IngestTank } from '../../db/queries/telemetry';
 import { deriveEvents, emptyDeriveState, type DeriveState, type EventRecord } from './events';
 import type { Reading } from './wire';
@@ -83,8 +84,25 @@ function toStored(tankId: string, r: Reading): StoredReading {
   };
 }
 
+/** A `readings` row as SQL returns it (time as epoch ms text) back in wire units. */
+export const readingOfRow = (tankId: string, x: StoredReadingRow): Reading =>
+  fromStored({
+    tankId,
+    ts: Number(x.ts_ms),
+    seq: x.seq,
+    layersCc: x.layers_cc,
+    flowCc: x.flow_cc,
+    returnCc: x.return_cc,
+    compressor: x.compressor,
+    immersionW: x.immersion_w,
+    powerW: x.power_w,
+    pumpPct: x.pump_pct,
+    drawDlpm: x.draw_dlpm,
+    solarSurplusW: x.solar_surplus_w,
+  });
+
 /** Back to wire units, as event derivation sees it (the same whether fresh or re-read). */
-export function fromStored(s: StoredReading): Reading {
+function fromStored(s: StoredReading): Reading {
   const r: Reading = { ts: s.ts, layersC: s.layersCc.map((v) => (v === null ? null : v / 100)) };
   if (s.flowCc !== null) r.flowC = s.flowCc / 100;
   if (s.returnCc !== null) r.returnC = s.returnCc / 100;
@@ -432,40 +450,15 @@ async function rederive(client: pg.PoolClient, tankId: string, fromTs: number): 
     [tankId, fromIso],
   );
   await client.query(`delete from telemetry_events where tank_id = $1 and started_at >= $2`, [tankId, fromIso]);
-  const rows = await client.query<{
-    ts_ms: string;
-    seq: number | null;
-    layers_cc: (number | null)[];
-    flow_cc: number | null;
-    return_cc: number | null;
-    compressor: boolean | null;
-    immersion_w: number | null;
-    power_w: number | null;
-    pump_pct: number | null;
-    draw_dlpm: number | null;
-  }>(
-    `select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm
+  const rows = await client.query<StoredReadingRow>(
+    `select (extract(epoch from ts) * 1000)::int8 as ts_ms, seq, layers_cc, flow_cc, return_cc, compressor, immersion_w, power_w, pump_pct, draw_dlpm, solar_surplus_w
      from readings where tank_id = $1 and ts >= $2 order by ts`,
     [tankId, fromIso],
   );
   const start: DeriveState = { lastTs: prev.rows[0] ? Number(prev.rows[0].ts_ms) : null, open: {} };
   const out = deriveEvents(
     start,
-    rows.rows.map((x) =>
-      fromStored({
-        tankId,
-        ts: Number(x.ts_ms),
-        seq: x.seq,
-        layersCc: x.layers_cc,
-        flowCc: x.flow_cc,
-        returnCc: x.return_cc,
-        compressor: x.compressor,
-        immersionW: x.immersion_w,
-        powerW: x.power_w,
-        pumpPct: x.pump_pct,
-        drawDlpm: x.draw_dlpm,
-      }),
-    ),
+    rows.rows.map((x) => readingOfRow(tankId, x)),
   );
   await upsertEvents(
     client,

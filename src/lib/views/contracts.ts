@@ -4,6 +4,7 @@ import { z } from '@/lib/zod';
 import { messages } from '@/lib/zod-messages';
 import { attentionKinds, tankStatuses, type AttentionKind, type TankStatus } from './attention';
 import { heatSourceValues } from './labels';
+import type { TankRecord } from '../../db/queries/tanks';
 import type { HeatSource } from '../../db/schema/homes';
 import type { ColumnFigures, FiguresQuality } from './layers';
 import type { FiguresStatus } from '../thermal';
@@ -62,6 +63,15 @@ const isoTime = (field: string) =>
     message: `${field} must be an ISO 8601 date-time with a time zone, e.g. 2026-03-01T07:00:00Z.`,
   });
 
+/** from/to (default: the 24 hours to now), or null with an issue at `to` when to is not after from. */
+function orderedRange(v: { from?: string; to?: string }, ctx: z.RefinementCtx): { from: Date; to: Date } | null {
+  const to = v.to ? new Date(v.to) : new Date();
+  const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
+  if (from < to) return { from, to };
+  ctx.addIssue({ code: 'custom', path: ['to'], message: 'to must be after from.' });
+  return null;
+}
+
 /**
  * from/to (ISO 8601, default the last 24 h), resolution (raw, 15m, 1h or auto) and since, a poll's
  * cursor inside the range: only points from it on are sent, their figures worked out over the whole range.
@@ -75,12 +85,9 @@ export const rangeQuerySchema = z
   })
   .strict()
   .transform((v, ctx) => {
-    const to = v.to ? new Date(v.to) : new Date();
-    const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
-    if (from >= to) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
-      return z.NEVER;
-    }
+    const range = orderedRange(v, ctx);
+    if (!range) return z.NEVER;
+    const { from, to } = range;
     const span = to.getTime() - from.getTime();
     const resolution: Resolution = v.resolution === 'auto' ? autoResolution(span) : v.resolution;
     if (span > maxSpanMs[resolution]) {
@@ -109,12 +116,9 @@ export const eventsQuerySchema = z
   .object({ from: isoTime('from').optional(), to: isoTime('to').optional() })
   .strict()
   .transform((v, ctx) => {
-    const to = v.to ? new Date(v.to) : new Date();
-    const from = v.from ? new Date(v.from) : new Date(to.getTime() - 86_400_000);
-    if (from >= to) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['to'], message: 'to must be after from.' });
-      return z.NEVER;
-    }
+    const range = orderedRange(v, ctx);
+    if (!range) return z.NEVER;
+    const { from, to } = range;
     if (to.getTime() - from.getTime() > 62 * 86_400_000) {
       ctx.addIssue({
         code: z.ZodIssueCode.custom,
@@ -222,15 +226,7 @@ export interface TankDetail {
   immersionRatingW: number;
   targetC: number;
   hysteresisK: number;
-  home: {
-    id: string;
-    reference: string;
-    addressLine: string;
-    town: string;
-    postcode: string;
-    occupants: number;
-    hasSolar: boolean;
-  } | null;
+  home: TankRecord['home'];
   latest: {
     ts: string | null;
     lastSeenAt: string | null;
