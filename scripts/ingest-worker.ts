@@ -1,4 +1,5 @@
 // The ingest worker process (`npm start` and the tests start it): MQTT → validation → PostgreSQL,
+// and gateways' HTTP batches on INGEST_PORT (the web forwards its /api/ingest there),
 // plus the periodic jobs that belong with the data: rollups, each tank's energy per day, partition
 // upkeep and retention.
 import { closeDb, getPool } from '../src/db';
@@ -6,6 +7,7 @@ import { refreshRollups, runRetention, setReadingsRetention } from '../src/db/qu
 import { env } from '../src/lib/server/env';
 import { SERVICE_USERNAME, servicePassword } from '../src/lib/telemetry/device-token';
 import { IngestWorker } from '../src/lib/telemetry/ingest-worker.server';
+import { listenForIngest } from '../src/lib/telemetry/ingest-listener.server';
 import { AlertClock, BatchEvaluator } from '../src/lib/alerts/runner.server';
 import { ENERGY_DAYS_KEPT, catchUpEnergyDays, pruneEnergyDays } from '../src/lib/tank-energy/energy-days.server';
 
@@ -30,6 +32,8 @@ async function main(): Promise<void> {
   const alertClock = new AlertClock(e.ALERTS_CLOCK_MS);
   alertClock.start();
   worker.start();
+  const http = await listenForIngest(e.HOST, e.INGEST_PORT);
+  console.log(`[ingest] HTTP ingest on http://${e.HOST}:${e.INGEST_PORT}/api/ingest`);
 
   let retentionSet = false;
   let lastRetention = 0;
@@ -77,6 +81,7 @@ async function main(): Promise<void> {
     clearInterval(timer);
     clearInterval(report);
     alertClock.stop();
+    await new Promise((resolve) => http.close(resolve));
     await worker.stop();
     await alerts.idle();
     await closeDb();

@@ -10,6 +10,8 @@ export interface RunConfig {
   webPort: number;
   pgPort: number;
   mqttPort: number;
+  /** The ingest tier's HTTP listener for gateways (`POST /api/ingest`). */
+  ingestPort: number;
   smtpPort: number;
   /** The fake S3 server (s3rver) for uploads and documents, when S3_ENDPOINT names no real one. */
   s3Port: number;
@@ -52,6 +54,7 @@ export function startConfig(): RunConfig {
     webPort: num(process.env.PORT, 4321),
     pgPort: num(process.env.PG_PORT, 54329),
     mqttPort: num(process.env.MQTT_PORT, 18830),
+    ingestPort: num(process.env.INGEST_PORT, 4322),
     smtpPort: num(process.env.SMTP_PORT, 2525),
     s3Port: num(process.env.S3_PORT, 4569),
     dataDir,
@@ -72,6 +75,7 @@ export function testConfig(): RunConfig {
     webPort: base + 1,
     mqttPort: base + 2,
     smtpPort: base + 3,
+    ingestPort: base + 4,
     s3Port: base + 5,
     dataDir,
     authSecret: randomBytes(32).toString('base64url'),
@@ -94,6 +98,7 @@ export function processEnv(
     PG_PORT: String(c.pgPort),
     DATABASE_URL: pgUrl,
     MQTT_PORT: String(c.mqttPort),
+    INGEST_PORT: String(c.ingestPort),
     SMTP_PORT: String(c.smtpPort),
     S3_PORT: String(c.s3Port),
     AUTH_SECRET: c.authSecret,

@@ -68,11 +68,14 @@ function brokerService(c: RunConfig): ServiceSpec {
   };
 }
 
-/** The ingest worker, ready when it has subscribed and says so on its retained status topic. */
+/** The ingest worker, ready when it has subscribed (its retained status topic says so) and its HTTP ingest answers. */
 function ingestService(c: RunConfig): ServiceSpec {
   return {
     ...tsxProcess('ingest', 'scripts/ingest-worker.ts'),
-    ready: () => waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env))),
+    ready: async () => {
+      await waitFor('The ingest worker', () => ingestWorkerOnline(mqttUrl(c), servicePassword(process.env)));
+      await waitFor('The HTTP ingest', () => httpOk(`http://127.0.0.1:${c.ingestPort}/health`));
+    },
   };
 }
 

@@ -166,6 +166,7 @@ async function main(): Promise<void> {
   const pgPort = base;
   const mqttPort = base + 2;
   const webPort = base + 1;
+  const ingestPort = base + 4;
   const dataDir = `/tmp/heatlayer-pg-bench-${pgPort}`;
   console.log(
     `[bench] PostgreSQL on ${pgPort}, broker on ${mqttPort}, web on ${webPort}; ${PUBLISHERS} publishers × ${MESSAGES_EACH} readings`,
@@ -176,6 +177,7 @@ async function main(): Promise<void> {
     DATABASE_URL: server.url,
     MQTT_PORT: String(mqttPort),
     PORT: String(webPort),
+    INGEST_PORT: String(ingestPort),
     HOST: '127.0.0.1',
     AUTH_SECRET: randomBytes(32).toString('base64url'),
     NODE_ENV: 'production',
@@ -316,7 +318,10 @@ async function main(): Promise<void> {
     delays.sort((x, y) => x - y);
     const pct = (q: number) => delays[Math.min(delays.length - 1, Math.floor(q * delays.length))];
 
-    // (b) HTTP batches of 1000 against the built web server, vs raw COPY of the same rows.
+    // (b) HTTP batches of 1000 against the built web server (which forwards them to the ingest
+    // tier's listener, here in this process as in the ingest worker's), vs raw COPY of the same rows.
+    const { listenForIngest } = await import('../../src/lib/telemetry/ingest-listener.server');
+    (await listenForIngest('127.0.0.1', ingestPort)).unref();
     ensureBuild();
     const web = spawn(process.execPath, ['dist/server/entry.mjs'], {
       cwd: root,

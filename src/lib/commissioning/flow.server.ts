@@ -23,7 +23,6 @@ import { HttpError, scopeOf } from '../server/authz';
 import type { Viewer } from '../server/viewer';
 import { getObject, putObject } from '../storage/objects.server';
 import { generateDeviceToken, hashDeviceToken } from '../telemetry/device-token';
-import { ingestDirectory } from '../telemetry/http-ingest.server';
 import { publishAsService } from '../telemetry/service-client.server';
 import { CREDENTIALS_ROTATED_TOPIC, topicFor } from '../telemetry/wire';
 import { amendableFields, amendedAnswers, fieldValue, type AmendableFieldId } from './amendments';
@@ -139,8 +138,7 @@ export async function registerForConnection(viewer: Viewer, id: string) {
   }
   const serial = v.answers.cylinder!.serial;
   if (row.tankId) {
-    // A new token for a tank that had one: forget the old one here and end its broker sessions.
-    ingestDirectory().clear();
+    // A new token for a tank that had one: end its broker sessions (HTTP ingest looks tokens up each time).
     await publishAsService(CREDENTIALS_ROTATED_TOPIC, serial).catch((err) => {
       console.error(
         `[commissioning] could not tell the broker that ${serial}'s token changed:`,

@@ -14,9 +14,7 @@ function badQueryParameter(url: URL): FieldError | null {
 }
 
 /**
- * Wraps an endpoint handler: expected failures (HttpError, zod validation) become JSON problem
- * answers with the failing fields; anything else is logged once here and answered as a plain 500
- * that leaks nothing. Before the handler runs, a query parameter holding control characters is
+ * Wraps an endpoint handler: a failure becomes its answer through `errorAnswer`. Before the handler runs, a query parameter holding control characters is
  * refused (400 naming it) and a path id holding them names nothing (404), so no handler ever
  * passes such text to PostgreSQL, which cannot store NUL.
  */
@@ -31,17 +29,25 @@ export function endpoint(handler: (context: APIContext) => Promise<Response>): A
       }
       return await handler(context);
     } catch (err) {
-      if (err instanceof HttpError) return problem(err.status, err.code, err.message, err.fields);
-      if (err instanceof ZodError) {
-        return problem(
-          400,
-          'InvalidRequest',
-          'The request has invalid fields; see "fields".',
-          err.issues.map((i) => ({ field: i.path.join('.') || '(body)', message: i.message })),
-        );
-      }
-      console.error(`[api] ${context.request.method} ${context.url.pathname} failed:`, err);
-      return problem(500, 'InternalError', 'Something went wrong on our side. It has been logged; please try again.');
+      return errorAnswer(err, `${context.request.method} ${context.url.pathname}`);
     }
   };
+}
+
+/**
+ * The answer to a failed request: an HttpError or a zod validation as its JSON problem with the
+ * failing fields; anything else logged once (naming `what`) and answered as a 500 that leaks nothing.
+ */
+export function errorAnswer(err: unknown, what: string): Response {
+  if (err instanceof HttpError) return problem(err.status, err.code, err.message, err.fields);
+  if (err instanceof ZodError) {
+    return problem(
+      400,
+      'InvalidRequest',
+      'The request has invalid fields; see "fields".',
+      err.issues.map((i) => ({ field: i.path.join('.') || '(body)', message: i.message })),
+    );
+  }
+  console.error(`[api] ${what} failed:`, err);
+  return problem(500, 'InternalError', 'Something went wrong on our side. It has been logged; please try again.');
 }

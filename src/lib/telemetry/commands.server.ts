@@ -8,7 +8,6 @@ import { setDeviceTokenHash } from '../../db/queries/telemetry';
 import type { CommandRow } from '../../db/schema';
 import { HttpError } from '../server/authz';
 import { generateDeviceToken, hashDeviceToken } from './device-token';
-import { ingestDirectory } from './http-ingest.server';
 import { publishAsService } from './service-client.server';
 import { CREDENTIALS_ROTATED_TOPIC, topicFor, type CommandMessage, type CommandRequest } from './wire';
 
@@ -99,7 +98,6 @@ export async function rotateDeviceToken(input: {
     );
     return at;
   });
-  ingestDirectory().clear();
   await publishAsService(CREDENTIALS_ROTATED_TOPIC, input.tank.serial).catch((err) => {
     console.error(
       `[mqtt] could not tell the broker that ${input.tank.serial}'s token was rotated:`,

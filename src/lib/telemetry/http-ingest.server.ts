@@ -1,22 +1,20 @@
 // `POST /api/ingest`: the HTTP path for gateways that do not speak MQTT. Same validation
-// (parseTelemetry) and same writer as the MQTT worker; answers with counts.
+// (parseTelemetry) and same writer as the MQTT worker; answers with counts. It runs in the ingest
+// tier (scripts/ingest-worker.ts listens on INGEST_PORT), so a gateway's backfill never takes the
+// web server's time; the web's route only checks the token's form, reads the bounded body and
+// forwards it (`forwardToIngest`).
 import { getPool } from '../../db';
-import { insertDeadLetters, type IngestTank } from '../../db/queries/telemetry';
+import { findIngestTankByTokenHash, insertDeadLetters, type IngestTank } from '../../db/queries/telemetry';
 import { HttpError } from '../server/authz';
 import { readBoundedBody } from '../server/body';
+import { errorAnswer } from '../server/endpoint';
+import { json } from '../server/http';
 import { env } from '../server/env';
 import { hashDeviceToken } from './device-token';
-import { TankDirectory } from './tank-directory.server';
 import { limits, parseTelemetry, type RejectCode } from './wire';
 import { TelemetryWriter } from './writer.server';
 
-let directory: TankDirectory | null = null;
 let writer: TelemetryWriter | null = null;
-
-/** The web process's cache of tanks by token hash (cleared when a token is rotated here). */
-export function ingestDirectory(): TankDirectory {
-  return (directory ??= new TankDirectory());
-}
 
 export interface IngestAnswer {
   accepted: number;
@@ -27,8 +25,8 @@ export interface IngestAnswer {
 
 const statusOf: Partial<Record<RejectCode, number>> = { PayloadTooLarge: 413, BatchTooLarge: 413, SerialMismatch: 403 };
 
-/** The tank whose token is presented as `Authorization: Bearer <token>`; 401 otherwise. */
-export async function deviceFromAuthorization(header: string | null): Promise<IngestTank> {
+/** The token presented as `Authorization: Bearer <token>`; 401 when there is none. */
+export function bearerToken(header: string | null): string {
   const m = header?.match(/^Bearer\s+(\S+)\s*$/i);
   if (!m)
     throw new HttpError(
@@ -36,7 +34,15 @@ export async function deviceFromAuthorization(header: string | null): Promise<In
       'DeviceTokenRequired',
       'Send the tank\'s device token as "Authorization: Bearer <token>".',
     );
-  const tank = await ingestDirectory().byTokenHash(hashDeviceToken(m[1]));
+  return m[1]!;
+}
+
+/**
+ * The tank whose token is presented; 401 otherwise. Looked up on every request (one indexed row,
+ * against a batch of readings), so a token rotated a moment ago is refused at once.
+ */
+async function deviceFromAuthorization(header: string | null): Promise<IngestTank> {
+  const tank = await findIngestTankByTokenHash(hashDeviceToken(bearerToken(header)));
   if (!tank)
     throw new HttpError(
       401,
@@ -61,7 +67,7 @@ export function readLimitedBody(request: Request): Promise<Buffer> {
 }
 
 /** Validates and stores one request's reading or batch for `tank`. */
-export async function ingestHttp(tank: IngestTank, body: Buffer): Promise<IngestAnswer> {
+async function ingestHttp(tank: IngestTank, body: Buffer): Promise<IngestAnswer> {
   const parsed = parseTelemetry(body, {
     now: Date.now(),
     tank: { serial: tank.serial, sensorCount: tank.sensorCount },
@@ -112,4 +118,42 @@ export async function ingestHttp(tank: IngestTank, body: Buffer): Promise<Ingest
     rejected: parsed.rejected.length,
     rejections: parsed.rejected.map(({ index, code, reason, fields }) => ({ index, code, reason, fields })),
   };
+}
+
+/** The ingest tier's answer to one `POST /api/ingest`: 202 with the counts, or the problem. */
+export async function answerIngest(request: Request): Promise<Response> {
+  try {
+    const tank = await deviceFromAuthorization(request.headers.get('authorization'));
+    const body = await readLimitedBody(request);
+    return json(await ingestHttp(tank, body), 202);
+  } catch (err) {
+    return errorAnswer(err, 'POST /api/ingest (ingest tier)');
+  }
+}
+
+/** The web's side of `POST /api/ingest`: the body as read, sent on to the ingest tier, its answer passed back. */
+export async function forwardToIngest(authorization: string, body: Buffer): Promise<Response> {
+  let res: Response;
+  try {
+    res = await fetch(`${env().INGEST_URL}/api/ingest`, {
+      method: 'POST',
+      headers: { authorization, 'content-type': 'application/json' },
+      body: new Uint8Array(body),
+      signal: AbortSignal.timeout(60_000),
+    });
+  } catch (err) {
+    console.error('[ingest] the ingest tier is not reachable:', err instanceof Error ? err.message : err);
+    throw new HttpError(
+      503,
+      'IngestUnavailable',
+      'The readings could not be passed on for storage just now; nothing was kept. Send the same batch again in a few seconds.',
+    );
+  }
+  return new Response(await res.arrayBuffer(), {
+    status: res.status,
+    headers: {
+      'content-type': res.headers.get('content-type') ?? 'application/json; charset=utf-8',
+      'cache-control': 'no-store',
+    },
+  });
 }

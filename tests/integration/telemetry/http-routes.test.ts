@@ -82,6 +82,25 @@ describe('POST /api/ingest', () => {
     ).toBe(2);
   });
 
+  it('is served by the ingest tier on its own port, the web passing its answers through', async () => {
+    const ingest = `http://127.0.0.1:${process.env.INGEST_PORT}`;
+    const t0 = Math.floor(Date.now() / MIN) * MIN - 600 * MIN;
+    const direct = await fetch(`${ingest}/api/ingest`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', ...bearer(third) },
+      body: JSON.stringify(reading(third, t0)),
+    });
+    expect(direct.status).toBe(202);
+    expect(await direct.json()).toMatchObject({ accepted: 1, duplicate: 0 });
+    const viaWeb = await post('/api/ingest', reading(third, t0), bearer(third));
+    expect(await viaWeb.json()).toMatchObject({ accepted: 0, duplicate: 1 });
+    expect(await count(db, `select count(*) as n from readings where tank_id = $1`, [third.id])).toBe(1);
+    const noToken = await fetch(`${ingest}/api/ingest`, { method: 'POST', body: '{}' });
+    expect([noToken.status, (await noToken.json()).error.code]).toEqual([401, 'DeviceTokenRequired']);
+    expect((await fetch(`${ingest}/api/ingest`)).status).toBe(405);
+    expect((await fetch(`${ingest}/api/tanks`)).status).toBe(404);
+  });
+
   it('stores only the new readings of a batch that overlaps what is stored and repeats a reading', async () => {
     const t0 = Math.floor(Date.now() / MIN) * MIN - 400 * MIN;
     const first = await post(

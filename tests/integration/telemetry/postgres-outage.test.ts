@@ -19,6 +19,7 @@ const SEED = 'postgres-outage-test-device-seed';
 describe('PostgreSQL stopped for 10 s mid-stream', () => {
   const pgPort = portInBlock(21);
   const mqttPort = portInBlock(22);
+  const ingestPort = portInBlock(23);
   const dataDir = `/tmp/heatlayer-pg-test-${pgPort}`;
   let server: PgServer;
   let db: pg.Pool;
@@ -31,6 +32,7 @@ describe('PostgreSQL stopped for 10 s mid-stream', () => {
       ...(process.env as Record<string, string>),
       DATABASE_URL: server.url,
       MQTT_PORT: String(mqttPort),
+      INGEST_PORT: String(ingestPort),
       DEVICE_TOKEN_SEED: SEED,
     };
     for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
