@@ -176,6 +176,25 @@ describe('POST /api/ingest', () => {
     );
     expect(huge.status).toBe(413);
     expect((await huge.json()).error.code).toBe('PayloadTooLarge');
+    // The same at the ingest tier's own port, also when the body comes in chunks with no length given.
+    const ingest = `http://127.0.0.1:${process.env.INGEST_PORT}/api/ingest`;
+    const pad = new TextEncoder().encode('x'.repeat(64 * 1024));
+    const chunks = new ReadableStream<Uint8Array>({
+      start(c) {
+        c.enqueue(new TextEncoder().encode('{"readings":[],"pad":"'));
+        for (let i = 0; i < 20; i++) c.enqueue(pad);
+        c.enqueue(new TextEncoder().encode('"}'));
+        c.close();
+      },
+    });
+    const chunked = await fetch(ingest, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', ...bearer(tank) },
+      body: chunks,
+      duplex: 'half',
+    } as RequestInit);
+    expect(chunked.status).toBe(413);
+    expect((await chunked.json()).error.code).toBe('PayloadTooLarge');
   });
 });
 
