@@ -16,7 +16,8 @@ export interface PgServer {
 
 const isRoot = () => process.getuid?.() === 0;
 
-function asPostgres(cmd: string, args: string[]): void {
+/** Runs one of PostgreSQL's programs as the `postgres` user (directly when not root). */
+export function asPostgres(cmd: string, args: string[]): void {
   const full = isRoot() ? ['runuser', '-u', 'postgres', '--', join(BIN, cmd), ...args] : [join(BIN, cmd), ...args];
   const r = spawnSync(full[0], full.slice(1), { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(`PostgreSQL '${cmd}' failed (exit ${r.status}): ${r.stderr || r.stdout}`);

@@ -1,12 +1,12 @@
 import { sql } from 'drizzle-orm';
-import { db } from '..';
+import { db, lagTolerant } from '..';
 import type { Resolution } from '../../lib/views/contracts';
 import { rawToRow, rollupToRow, type SeriesRow } from '../../lib/views/series';
 import type { EventRow } from '../../lib/views/timeline';
 
 /**
  * Readings of one tank in [from, to): raw rows, or the 15-minute / hourly rollups. The caller has
- * already checked the tank is in the viewer's scope.
+ * already checked the tank is in the viewer's scope. Lag-tolerant: on the hot standby where there is one.
  */
 export async function readingsInRange(
   tankId: string,
@@ -15,16 +15,18 @@ export async function readingsInRange(
   resolution: Resolution,
 ): Promise<SeriesRow[]> {
   if (resolution === 'raw') {
-    const res = await db().execute<{
-      ts: Date;
-      layers_cc: (number | null)[];
-      compressor: boolean | null;
-      immersion_w: number | null;
-      draw_dlpm: number | null;
-      flow_cc: number | null;
-    }>(sql`
+    const res = await lagTolerant((d) =>
+      d.execute<{
+        ts: Date;
+        layers_cc: (number | null)[];
+        compressor: boolean | null;
+        immersion_w: number | null;
+        draw_dlpm: number | null;
+        flow_cc: number | null;
+      }>(sql`
       select ts, layers_cc, compressor, immersion_w, draw_dlpm, flow_cc from readings
-      where tank_id = ${tankId} and ts >= ${from} and ts < ${to} order by ts`);
+      where tank_id = ${tankId} and ts >= ${from} and ts < ${to} order by ts`),
+    );
     return res.rows.map((r) =>
       rawToRow({
         ts: new Date(r.ts),
@@ -37,17 +39,19 @@ export async function readingsInRange(
     );
   }
   const table = resolution === '15m' ? sql`rollups_15m` : sql`rollups_1h`;
-  const res = await db().execute<{
-    bucket: Date;
-    samples: number;
-    layers_avg_cc: (number | null)[];
-    compressor_samples: number;
-    immersion_samples: number;
-    draw_avg_lpm: number | null;
-    flow_avg_cc: number | null;
-  }>(sql`
+  const res = await lagTolerant((d) =>
+    d.execute<{
+      bucket: Date;
+      samples: number;
+      layers_avg_cc: (number | null)[];
+      compressor_samples: number;
+      immersion_samples: number;
+      draw_avg_lpm: number | null;
+      flow_avg_cc: number | null;
+    }>(sql`
     select bucket, samples, layers_avg_cc, compressor_samples, immersion_samples, draw_avg_lpm, flow_avg_cc from ${table}
-    where tank_id = ${tankId} and bucket >= ${from} and bucket < ${to} order by bucket`);
+    where tank_id = ${tankId} and bucket >= ${from} and bucket < ${to} order by bucket`),
+  );
   return res.rows.map((r) =>
     rollupToRow({
       bucket: new Date(r.bucket),

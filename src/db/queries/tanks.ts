@@ -1,5 +1,5 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { db, type Db } from '..';
+import { db, lagTolerant, type Db } from '..';
 import type { Scope } from '../../lib/server/authz';
 import type { TankListItem, TankListResponse, TanksQuery } from '../../lib/views/contracts';
 import { attentionKinds, byUrgency, statusOf, type AttentionKind } from '../../lib/views/attention';
@@ -150,26 +150,28 @@ const listJoins = sql`left join homes h on h.id = t.home_id left join tank_lates
 export async function listTanks(scope: Scope, q: TanksQuery): Promise<TankListResponse> {
   const dir = q.dir ?? (q.sort === 'lastSeen' ? 'desc' : 'asc');
   const offset = (q.page - 1) * q.pageSize;
-  return db().transaction(
-    async (tx) => {
-      const where = await filtersOf(tx, scope, q);
-      // The page is cut from the segments one after the other: a later one is read only when the
-      // earlier ones end inside the page (a segment read to its end would cost a walk of the fleet).
-      const ids: string[] = [];
-      let skip = offset;
-      for (const segment of segmentsOf(scope, q, dir)) {
-        const got = await segmentIds(tx, segment, where, dir, skip, q.pageSize - ids.length);
-        ids.push(...got);
-        if (ids.length === q.pageSize) break;
-        skip = got.length > 0 ? 0 : Math.max(0, skip - (await countTanks(tx, segment, where)));
-      }
-      const items = await listTanksByIds(tx, ids);
-      // Counted apart from the page, and only when the page does not tell.
-      const full = items.length === q.pageSize || (items.length === 0 && q.page > 1);
-      const total = full ? await countTanks(tx, { from: sql`tanks t` }, where) : offset + items.length;
-      return { items, total, page: q.page, pageSize: q.pageSize };
-    },
-    { isolationLevel: 'repeatable read', accessMode: 'read only' },
+  return lagTolerant((d) =>
+    d.transaction(
+      async (tx) => {
+        const where = await filtersOf(tx, scope, q);
+        // The page is cut from the segments one after the other: a later one is read only when the
+        // earlier ones end inside the page (a segment read to its end would cost a walk of the fleet).
+        const ids: string[] = [];
+        let skip = offset;
+        for (const segment of segmentsOf(scope, q, dir)) {
+          const got = await segmentIds(tx, segment, where, dir, skip, q.pageSize - ids.length);
+          ids.push(...got);
+          if (ids.length === q.pageSize) break;
+          skip = got.length > 0 ? 0 : Math.max(0, skip - (await countTanks(tx, segment, where)));
+        }
+        const items = await listTanksByIds(tx, ids);
+        // Counted apart from the page, and only when the page does not tell.
+        const full = items.length === q.pageSize || (items.length === 0 && q.page > 1);
+        const total = full ? await countTanks(tx, { from: sql`tanks t` }, where) : offset + items.length;
+        return { items, total, page: q.page, pageSize: q.pageSize };
+      },
+      { isolationLevel: 'repeatable read', accessMode: 'read only' },
+    ),
   );
 }
 

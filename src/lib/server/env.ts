@@ -13,6 +13,8 @@ const envSchema = z.object({
   PORT: port(4321),
   PG_PORT: port(54329),
   DATABASE_URL: z.string().url().optional(),
+  /** A hot standby for reads that may lag a few seconds (fleet list and summary, charts); unset: the primary. */
+  DATABASE_READ_URL: z.string().url().optional(),
   MQTT_PORT: port(18830),
   MQTT_URL: z.string().optional(),
   /** The ingest tier's HTTP listener (`POST /api/ingest` for gateways); the web forwards its route there. */
