@@ -4,6 +4,7 @@
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { Readable } from 'node:stream';
 import { problem } from '../server/http';
+import { setSecurityHeaders } from '../server/security-headers';
 import { answerIngest } from './http-ingest.server';
 
 /** The Fetch API request of a Node one, its body streamed (read bounded by `readLimitedBody`). */
@@ -20,11 +21,9 @@ function toRequest(req: IncomingMessage, origin: string): Request {
 
 async function send(res: ServerResponse, answer: Response): Promise<void> {
   const body = Buffer.from(await answer.arrayBuffer());
-  res.writeHead(answer.status, {
-    ...Object.fromEntries(answer.headers),
-    'x-content-type-options': 'nosniff',
-    'content-length': String(body.length),
-  });
+  // The headers every answer of ours carries (a policy that lets nothing run, nosniff), as the web's.
+  setSecurityHeaders(res);
+  res.writeHead(answer.status, { ...Object.fromEntries(answer.headers), 'content-length': String(body.length) });
   res.end(body);
 }
 

@@ -92,6 +92,10 @@ describe('POST /api/ingest', () => {
     });
     expect(direct.status).toBe(202);
     expect(await direct.json()).toMatchObject({ accepted: 1, duplicate: 0 });
+    expect([direct.headers.get('x-content-type-options'), direct.headers.get('content-security-policy')]).toEqual([
+      'nosniff',
+      "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'",
+    ]);
     const viaWeb = await post('/api/ingest', reading(third, t0), bearer(third));
     expect(await viaWeb.json()).toMatchObject({ accepted: 0, duplicate: 1 });
     expect(await count(db, `select count(*) as n from readings where tank_id = $1`, [third.id])).toBe(1);
