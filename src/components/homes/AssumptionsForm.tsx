@@ -26,8 +26,10 @@ export default function AssumptionsForm({
     resolver: zodResolver(assumptionsSchema),
   });
   const [saved, setSaved] = useState(false);
+  // The saved sizes become the form's own, so "Saved" shows until the next edit.
   const save = (a: Assumptions) => {
     onSave(a);
+    form.reset(typed(a));
     setSaved(true);
   };
   return (
@@ -43,14 +45,7 @@ export default function AssumptionsForm({
       <button type="submit" className="btn-primary">
         Save
       </button>
-      <button
-        type="button"
-        className="btn-quiet"
-        onClick={() => {
-          form.reset(typed(standard));
-          save(standard);
-        }}
-      >
+      <button type="button" className="btn-quiet" onClick={() => save(standard)}>
         Use standard sizes
       </button>
       {saved && !form.formState.isDirty && (
